@@ -1,0 +1,3 @@
+from picker.cli import main
+
+raise SystemExit(main())

@@ -1,0 +1,1 @@
+"""Subcommands of the CLI: one module each, ``register(subparsers)`` and ``run(args)``."""
