@@ -62,6 +62,7 @@ class Capacitor:
     meter: float = DEFAULT_METER_ACCURACY
     line: int = 0
     index: int = 0
+    tempco: float | None = None       # per kelvin, fraction; None: from the dielectric class
     kind: ClassVar[str] = "capacitor"
 
     @property

@@ -1,0 +1,236 @@
+"""Load a stock file, format 1 (DESIGN.md section 3), with every problem located.
+
+The values come from the standard library's TOML reader (fast, strict); a line scan
+of the same text finds the line of each entry's header and of each key inside it, so
+that every message reads ``file:line: kind key: what is wrong, what is accepted``.
+All errors are collected, then raised together in one ``StockFileError``; warnings
+(unknown keys or tables, a value and location listed twice, an empty stock) go into
+``Stock.warnings``.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import re
+import tomllib
+from pathlib import Path
+
+from stock import values as V
+from stock.errors import StockFileError
+from stock.fields import EntryChecker, quote
+from stock.model import Stock
+
+KINDS = ("resistor", "capacitor", "opamp")
+STOCK_KEYS = ("name", "format")
+
+_KEY = r'(?:[A-Za-z0-9_-]+|"[^"\n]*"|\'[^\'\n]*\')'
+_AOT_RE = re.compile(rf"^\s*\[\[\s*({_KEY}(?:\s*\.\s*{_KEY})*)\s*\]\]")
+_TABLE_RE = re.compile(rf"^\s*\[\s*({_KEY}(?:\s*\.\s*{_KEY})*)\s*\]")
+_KEYLINE_RE = re.compile(rf"^\s*({_KEY})\s*(?:\.|=)")
+
+
+def _unquote(key: str) -> str:
+    key = key.strip()
+    if len(key) >= 2 and key[0] == key[-1] and key[0] in "\"'":
+        return key[1:-1]
+    return key
+
+
+class LineMap:
+    """Where things are: header line of each [[kind]] entry, and the line of each key in it.
+
+    A plain scan of the text; multi-line strings are skipped. If the scan does not
+    agree with the parsed document (inline arrays, unusual layouts) lookups fall back
+    to the nearest line known, and finally to 0 (no line).
+    """
+
+    def __init__(self, text: str):
+        self.entries: dict[str, list[tuple[int, dict[str, int]]]] = {k: [] for k in KINDS}
+        self.tables: dict[str, int] = {}
+        self.top_keys: dict[str, int] = {}
+        self.stock_keys: dict[str, int] = {}
+        current: dict[str, int] | None = self.top_keys
+        in_multi: str | None = None
+        for n, raw in enumerate(text.splitlines(), start=1):
+            if in_multi:
+                if raw.count(in_multi) % 2 == 1:
+                    in_multi = None
+                continue
+            m = _AOT_RE.match(raw)
+            if m:
+                name = _unquote(m[1].split(".")[0])
+                self.tables.setdefault(name, n)
+                if name in self.entries and "." not in m[1]:
+                    keys: dict[str, int] = {}
+                    self.entries[name].append((n, keys))
+                    current = keys
+                else:
+                    current = None
+                continue
+            m = _TABLE_RE.match(raw)
+            if m:
+                name = _unquote(m[1].split(".")[0])
+                self.tables.setdefault(name, n)
+                current = self.stock_keys if m[1].strip() == "stock" else None
+                continue
+            m = _KEYLINE_RE.match(raw)
+            if m and current is not None:
+                current.setdefault(_unquote(m[1]), n)
+            for delim in ('"""', "'''"):
+                if raw.count(delim) % 2 == 1:
+                    in_multi = delim
+                    break
+
+    def entry(self, kind: str, index: int, count: int) -> tuple[int, dict[str, int]]:
+        found = self.entries.get(kind, [])
+        if len(found) == count and index < len(found):
+            return found[index]
+        return self.tables.get(kind, 0), {}
+
+
+def file_sha256(path) -> str:
+    """Hex sha256 of the file's bytes."""
+    return hashlib.sha256(Path(path).read_bytes()).hexdigest()
+
+
+def load(path) -> Stock:
+    """Read the stock file at ``path``.
+
+    Raises
+    ------
+    StockFileError
+        Listing every problem, one line each: ``file:line: kind key: ...``.
+    """
+    path = Path(path)
+    src = str(path)
+    try:
+        data = path.read_bytes()
+    except OSError as exc:
+        raise StockFileError(f"{src}: cannot read the stock file: {exc.strerror or exc}") from None
+    return _load_bytes(data, src, path)
+
+
+def decode(data: bytes, src: str) -> str:
+    """UTF-8 text of the file (a leading byte-order mark is dropped), or StockFileError."""
+    try:
+        text = data.decode("utf-8")
+    except UnicodeDecodeError as exc:
+        line = data[:exc.start].count(b"\n") + 1
+        col = exc.start - (data.rfind(b"\n", 0, exc.start) + 1) + 1
+        raise StockFileError(
+            f"{src}:{line}: not UTF-8 text (byte 0x{data[exc.start]:02x} at column {col}); "
+            "save the file as UTF-8") from None
+    return text[1:] if text.startswith("\ufeff") else text
+
+
+def _load_bytes(data: bytes, src: str, path: Path | None) -> Stock:
+    text = decode(data, src)
+    stock = _parse(text, src)
+    return Stock(resistors=stock.resistors, capacitors=stock.capacitors, opamps=stock.opamps,
+                 name=stock.name, path=path, sha256=hashlib.sha256(data).hexdigest(),
+                 warnings=stock.warnings)
+
+
+def loads(text: str, *, source: str = "<text>") -> Stock:
+    """Read stock-file text; ``Stock.sha256`` is that of its UTF-8 bytes, ``path`` is None."""
+    return _load_bytes(text.encode("utf-8"), source, None)
+
+
+_TOML_LINE_RE = re.compile(r"\(at line (\d+), column (\d+)\)")
+
+
+def _parse(text: str, src: str) -> Stock:
+    try:
+        doc = tomllib.loads(text)
+    except tomllib.TOMLDecodeError as exc:
+        msg = str(exc)
+        m = _TOML_LINE_RE.search(msg)
+        line = m[1] if m else "0"
+        detail = _TOML_LINE_RE.sub("", msg).strip() if m else msg
+        if m:
+            detail += f" (column {m[2]})"
+        bad = text.splitlines()[int(line) - 1].strip() if m and 0 < int(line) <= len(
+            text.splitlines()) else ""
+        quoted = f" in {quote(bad)}" if bad else ""
+        raise StockFileError(f"{src}:{line}: TOML syntax: {detail}{quoted}") from None
+    lines = LineMap(text)
+    errors: list[str] = []
+    warnings: list[str] = []
+    name = _check_stock_table(doc.get("stock"), src, lines, errors, warnings)
+    for key, val in doc.items():
+        if key == "stock" or key in KINDS:
+            continue
+        where = lines.tables.get(key) or lines.top_keys.get(key, 0)
+        what = "table" if isinstance(val, (dict, list)) else "key"
+        warnings.append(f"{src}:{where}: unknown {what} '{key}' ignored; this file format knows "
+                        "[stock], [[resistor]], [[capacitor]] and [[opamp]]")
+    parsed: dict[str, list] = {k: [] for k in KINDS}
+    for kind in KINDS:
+        entries = doc.get(kind)
+        if entries is None:
+            continue
+        if not isinstance(entries, list) or not all(isinstance(e, dict) for e in entries):
+            where = lines.tables.get(kind) or lines.top_keys.get(kind, 0)
+            errors.append(f"{src}:{where}: {kind}: write each line of stock as [[{kind}]] "
+                          f"(double brackets) followed by its keys")
+            continue
+        for index, entry in enumerate(entries):
+            header, keylines = lines.entry(kind, index, len(entries))
+            checker = EntryChecker(kind, index, entry, src, header, keylines)
+            item = checker.build()
+            errors.extend(checker.errors)
+            warnings.extend(checker.warnings)
+            if item is not None:
+                parsed[kind].append(item)
+    _duplicates(parsed, src, warnings)
+    if errors:
+        raise StockFileError(errors)
+    if not any(parsed.values()):
+        warnings.append(f"{src}: the stock is empty: no [[resistor]], [[capacitor]] or "
+                        "[[opamp]] lines")
+    return Stock(resistors=tuple(parsed["resistor"]), capacitors=tuple(parsed["capacitor"]),
+                 opamps=tuple(parsed["opamp"]), name=name, warnings=tuple(warnings))
+
+
+def _check_stock_table(table, src, lines: LineMap, errors, warnings) -> str | None:
+    if table is None:
+        return None
+    where = lines.tables.get("stock", 0)
+    if not isinstance(table, dict):
+        errors.append(f"{src}:{where}: stock: must be a table [stock] with name and format")
+        return None
+    name = table.get("name")
+    if name is not None and not isinstance(name, str):
+        errors.append(f"{src}:{lines.stock_keys.get('name', where)}: stock name: "
+                      f"{quote(name)} must be text in quotes")
+        name = None
+    fmt = table.get("format", 1)
+    if fmt != 1 or isinstance(fmt, bool):
+        errors.append(f"{src}:{lines.stock_keys.get('format', where)}: stock format: "
+                      f"{quote(fmt)} is not a format this version reads; it reads format = 1")
+    for key in table:
+        if key not in STOCK_KEYS:
+            warnings.append(f"{src}:{lines.stock_keys.get(key, where)}: stock {key}: unknown "
+                            "key ignored; [stock] knows name and format")
+    return name
+
+
+def _duplicates(parsed, src, warnings) -> None:
+    for kind, items in parsed.items():
+        seen: dict[tuple, int] = {}
+        for item in items:
+            ident = item.name.strip().lower() if kind == "opamp" else f"{item.value:.9g}"
+            # a capacitor of another dielectric in the same box is a different part
+            extra = getattr(item, "dielectric", None) or ""
+            key = (ident, (item.location or "").strip().lower(), extra)
+            if key in seen:
+                shown = item.name if kind == "opamp" else V.format_rkm(item.value, kind)
+                where = f"in {item.location}" if item.location else "with no location"
+                warnings.append(f"{src}:{item.line}: {kind} {shown} {where} is listed twice "
+                                f"(lines {seen[key]} and {item.line}); each line is counted "
+                                "on its own")
+            else:
+                seen[key] = item.line
+
+
+__all__ = ["KINDS", "LineMap", "decode", "file_sha256", "load", "loads"]
