@@ -21,6 +21,8 @@ from __future__ import annotations
 
 import math
 
+import numpy as np
+
 from picker.errors import DesignError
 from picker.filters import prototypes
 from picker.filters.base import REGISTRY, Topology
@@ -179,12 +181,13 @@ def minimum_order(response: str, passband_hz: float, max_loss_db: float, stopban
     return max(n, 1)
 
 
-def _loss_edge(order: int, loss_db: float) -> float:
-    """Normalised frequency where the Bessel prototype has lost ``loss_db`` (bisection)."""
+def _loss_edge(poles, loss_db: float) -> float:
+    """Normalised frequency where the Bessel prototype has lost ``loss_db`` (bisection on
+    the monotonic magnitude)."""
     lo, hi = 1e-4, 1e4
-    for _ in range(200):
+    for _ in range(120):
         mid = math.sqrt(lo * hi)
-        mag = prototypes.normalised_magnitude("bessel", order, [mid])[0]
+        mag = abs(np.prod(-poles / (1j * mid - poles)))
         if -20.0 * math.log10(mag) < loss_db:
             lo = mid
         else:
@@ -194,6 +197,7 @@ def _loss_edge(order: int, loss_db: float) -> float:
 
 def _bessel_order(ap: float, a_s: float, ratio: float) -> int:
     for n in range(1, prototypes.MAX_ORDER + 1):
-        if _loss_edge(n, a_s) / _loss_edge(n, ap) <= ratio * (1.0 + 1e-12):
+        poles = prototypes.bessel_poles(n)
+        if _loss_edge(poles, a_s) / _loss_edge(poles, ap) <= ratio * (1.0 + 1e-12):
             return n
     return prototypes.MAX_ORDER + 1
