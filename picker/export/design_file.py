@@ -1,0 +1,484 @@
+"""Saved design: one TOML file written whole, read back and checked (DESIGN.md section 9).
+
+Layout of the file, format 1 (keys with no value are left out: TOML has no null)::
+
+    format = 1
+    saved = "2026-12-02T02:30:00Z"          # UTC, when it was written
+
+    [request]                               # the targets and options as the caller gave them
+    type = "lowpass"
+    fc_hz = 1000.0
+    ...
+
+    [stock]                                 # the stock the parts were chosen from
+    path = "/home/bench/inventory.toml"     # absolute
+    sha256 = "..."                          # of the file's bytes at the time
+
+    [candidate]
+    score = 0.0012                          # worst relative error over every target
+    pieces = 3
+    warnings = ["..."]
+
+    [candidate.opamp]                       # the stock op amp chosen, when there is one
+    index = 0                               # position among the file's [[opamp]] tables
+    line = 31                               # line of its header, for messages
+    name = "dual JFET-input"
+    gbw_hz = 3000000.0
+    channels = 2
+    location = "IC tray"
+
+    [[candidate.stage]]
+    topology = "inverting-lowpass"          # registry key of picker.filters
+    target = { f0_hz = 1000.0, gain = 2.0 }
+    achieved = { f0_hz = 1001.2, gain = 2.0 }
+
+    [[candidate.stage.position]]
+    name = "R1"                             # reference designator of the topology
+    arrangement = "single"                  # single | series | parallel
+    value = 4700.0                          # combined value, ohm or farad
+
+    [[candidate.stage.position.part]]       # one per physical piece
+    kind = "resistor"
+    index = 3                               # position among the file's [[resistor]] tables
+    line = 14                               # line of its header when saved
+    nominal = 4700.0                        # the line's nominal value
+    value = 4693.0                          # the piece's value (the reading when measured)
+    measured = 0                            # index into the line's `measured` list; absent if not
+    tolerance = 0.01
+    location = "A3"
+
+A stock line is named by kind and index *and* checked by nominal value and location
+when the design is built, so a reordered stock file is caught (picker.building).
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import math
+import os
+import tempfile
+import time
+import tomllib
+from dataclasses import dataclass
+from pathlib import Path
+from types import MappingProxyType
+from typing import Any, Mapping
+
+import tomli_w
+
+from picker.errors import DesignError
+from picker.parts import Candidate, StageTarget, combine
+
+FORMAT = 1
+KINDS = ("resistor", "capacitor")
+ARRANGEMENTS = ("single", "series", "parallel")
+
+
+@dataclass(frozen=True)
+class SavedPart:
+    """One physical piece of a saved design, named by its stock line."""
+
+    kind: str                   # "resistor" | "capacitor"
+    index: int                  # position among the stock file's tables of that kind
+    line: int                   # header line in the stock file when saved (0 if unknown)
+    nominal: float              # the stock line's nominal value
+    value: float                # the piece's value: nominal, or the reading when measured
+    tolerance: float
+    measured: int | None = None
+    location: str | None = None
+    dielectric: str | None = None
+    polarized: bool = False
+    voltage: float | None = None
+
+
+@dataclass(frozen=True)
+class SavedPosition:
+    name: str                   # reference designator, e.g. "R1"
+    arrangement: str            # single | series | parallel
+    value: float                # combined value
+    parts: tuple[SavedPart, ...]
+
+    @property
+    def kind(self) -> str:
+        return self.parts[0].kind
+
+
+@dataclass(frozen=True)
+class SavedOpAmp:
+    index: int
+    name: str
+    gbw_hz: float
+    line: int = 0
+    channels: int = 1
+    location: str | None = None
+    supply: float | None = None
+
+
+@dataclass(frozen=True)
+class SavedStage:
+    topology: str
+    target: StageTarget
+    achieved: StageTarget
+    positions: tuple[SavedPosition, ...]
+
+    def values(self) -> dict[str, float]:
+        return {p.name: p.value for p in self.positions}
+
+
+@dataclass(frozen=True)
+class SavedDesign:
+    """A design read back from its file. ``request`` is read-only."""
+
+    path: Path | None
+    request: Mapping[str, Any]
+    score: float
+    pieces: int
+    stages: tuple[SavedStage, ...]
+    opamp: SavedOpAmp | None = None
+    warnings: tuple[str, ...] = ()
+    stock_path: Path | None = None
+    stock_sha256: str | None = None
+    saved: str | None = None
+    format: int = FORMAT
+
+    def parts(self):
+        """Every piece as (stage number from 1, position, piece number in the position, part)."""
+        for s, stage in enumerate(self.stages, start=1):
+            for pos in stage.positions:
+                for k, part in enumerate(pos.parts):
+                    yield s, pos, k, part
+
+
+# --------------------------------------------------------------------------- saving
+
+def save_design(path, *, candidate: Candidate, request: dict, stock) -> None:
+    """Write ``candidate`` and ``request`` to ``path`` as TOML, whole and atomically.
+
+    Parameters
+    ----------
+    path : str or Path
+        Where to write; an existing file is replaced (its mode is kept).
+    candidate : Candidate
+        The chosen design.
+    request : dict
+        Targets and options as given (type, response, order, fc_hz, gain, ...). None
+        values are left out; tuples become arrays; dataclasses become tables.
+    stock : Stock
+        The stock the candidate was found in: its path and sha256 are recorded.
+    """
+    doc = design_document(candidate=candidate, request=request, stock=stock)
+    write_atomic(Path(path), tomli_w.dumps(doc).encode("utf-8"))
+
+
+def design_document(*, candidate: Candidate, request: dict, stock) -> dict:
+    """The TOML document of a saved design as a plain dict (see the module docstring)."""
+    doc: dict[str, Any] = {
+        "format": FORMAT,
+        "saved": time.strftime("%Y-%m-%dT%H:%M:%SZ", time.gmtime()),
+        "request": _plain(dict(request)) or {},
+    }
+    stock_table: dict[str, Any] = {}
+    if getattr(stock, "path", None) is not None:
+        stock_table["path"] = str(Path(stock.path).resolve())
+    if getattr(stock, "sha256", None):
+        stock_table["sha256"] = stock.sha256
+    doc["stock"] = stock_table
+    cand: dict[str, Any] = {"score": float(candidate.score), "pieces": int(candidate.pieces)}
+    if candidate.warnings:
+        cand["warnings"] = [str(w) for w in candidate.warnings]
+    if candidate.opamp is not None:
+        oa = candidate.opamp
+        cand["opamp"] = _drop_none({
+            "index": oa.index, "line": oa.line, "name": oa.name, "gbw_hz": float(oa.gbw),
+            "channels": oa.channels, "location": oa.location,
+            "supply": None if oa.supply is None else float(oa.supply)})
+    cand["stage"] = [_stage_table(st) for st in candidate.stages]
+    doc["candidate"] = cand
+    return doc
+
+
+def _stage_table(stage) -> dict:
+    positions = []
+    for name, arr in stage.positions:
+        parts = []
+        for piece in arr.parts:
+            line = piece.line
+            parts.append(_drop_none({
+                "kind": line.kind, "index": line.index, "line": line.line,
+                "nominal": float(line.value), "value": float(piece.value),
+                "measured": piece.measured, "tolerance": float(piece.tolerance),
+                "location": line.location,
+                "dielectric": getattr(line, "dielectric", None),
+                "polarized": True if getattr(line, "polarized", False) else None,
+                "voltage": getattr(line, "voltage", None)}))
+        positions.append({"name": name, "arrangement": arr.arrangement,
+                          "value": float(arr.value), "part": parts})
+    return {"topology": stage.topology, "target": _target_table(stage.target),
+            "achieved": _target_table(stage.achieved), "position": positions}
+
+
+def _target_table(t: StageTarget) -> dict:
+    return _drop_none({"f0_hz": float(t.f0_hz),
+                       "q": None if t.q is None else float(t.q),
+                       "gain": None if t.gain is None else float(t.gain)})
+
+
+def _drop_none(d: dict) -> dict:
+    return {k: v for k, v in d.items() if v is not None}
+
+
+def _plain(value):
+    """``value`` as TOML-able data: None dropped, tuples as lists, dataclasses as tables."""
+    if dataclasses.is_dataclass(value) and not isinstance(value, type):
+        value = dataclasses.asdict(value)
+    if isinstance(value, Mapping):
+        out = {}
+        for k, v in value.items():
+            v = _plain(v)
+            if v is not None:
+                out[str(k)] = v
+        return out
+    if isinstance(value, (list, tuple)):
+        return [x for x in (_plain(v) for v in value) if x is not None]
+    if value is None or isinstance(value, (bool, int, str)):
+        return value
+    if isinstance(value, float):
+        return value if math.isfinite(value) else str(value)
+    if hasattr(value, "item"):          # numpy scalar
+        return _plain(value.item())
+    return str(value)
+
+
+def write_atomic(path: Path, data: bytes) -> None:
+    """Write ``data`` to ``path`` through a temporary file in the same folder, fsync, rename."""
+    folder = path.parent if str(path.parent) else Path(".")
+    try:
+        mode = path.stat().st_mode & 0o7777
+    except FileNotFoundError:
+        umask = os.umask(0)
+        os.umask(umask)
+        mode = 0o666 & ~umask
+    try:
+        fd, tmp = tempfile.mkstemp(dir=folder, prefix=f".{path.name}.", suffix=".tmp")
+    except OSError as exc:
+        raise DesignError(f"{path}: cannot write the design: {exc.strerror or exc}") from exc
+    try:
+        with os.fdopen(fd, "wb") as fh:
+            fh.write(data)
+            fh.flush()
+            os.fsync(fh.fileno())
+        os.chmod(tmp, mode)
+        os.replace(tmp, path)
+    except BaseException:
+        try:
+            os.unlink(tmp)
+        except FileNotFoundError:
+            pass
+        raise
+    try:
+        dfd = os.open(folder, os.O_RDONLY)
+    except OSError:
+        return
+    try:
+        os.fsync(dfd)
+    except OSError:
+        pass
+    finally:
+        os.close(dfd)
+
+
+# --------------------------------------------------------------------------- loading
+
+def load_design(path) -> SavedDesign:
+    """Read and check a saved design; raise DesignError naming the file and the key."""
+    path = Path(path)
+    try:
+        raw = path.read_bytes()
+    except OSError as exc:
+        raise DesignError(f"{path}: cannot read the design file: {exc.strerror or exc}") from exc
+    try:
+        text = raw.decode("utf-8")
+    except UnicodeDecodeError as exc:
+        raise DesignError(f"{path}: not UTF-8 text (byte {exc.start})") from exc
+    try:
+        doc = tomllib.loads(text)
+    except tomllib.TOMLDecodeError as exc:
+        raise DesignError(f"{path}: not a valid TOML file: {exc}") from exc
+    return design_from_document(doc, source=str(path), path=path)
+
+
+def design_from_document(doc: dict, *, source: str = "<design>", path=None) -> SavedDesign:
+    """Check a parsed design document and build the frozen SavedDesign."""
+    r = _Reader(source)
+    fmt = r.get(doc, "format", int, "")
+    if fmt != FORMAT:
+        raise DesignError(f"{source}: format: this picker reads design format {FORMAT}, "
+                          f"the file says {fmt!r}")
+    request = r.get(doc, "request", dict, "", default={})
+    stock_t = r.get(doc, "stock", dict, "", default={})
+    stock_path = r.get(stock_t, "path", str, "stock.", default=None)
+    stock_sha = r.get(stock_t, "sha256", str, "stock.", default=None)
+    cand = r.get(doc, "candidate", dict, "")
+    score = r.number(cand, "score", "candidate.")
+    pieces = r.get(cand, "pieces", int, "candidate.")
+    warnings = r.get(cand, "warnings", list, "candidate.", default=[])
+    opamp = None
+    if "opamp" in cand:
+        opamp = _read_opamp(r, r.get(cand, "opamp", dict, "candidate."))
+    stage_list = r.get(cand, "stage", list, "candidate.")
+    if not stage_list:
+        raise DesignError(f"{source}: candidate.stage: a design needs at least one stage")
+    stages = tuple(_read_stage(r, st, f"candidate.stage[{i}].")
+                   for i, st in enumerate(stage_list))
+    counted = sum(len(p.parts) for st in stages for p in st.positions)
+    if counted != pieces:
+        raise DesignError(f"{source}: candidate.pieces: says {pieces} but the stages hold "
+                          f"{counted} pieces")
+    seen: dict[tuple, str] = {}
+    for i, st in enumerate(stages):
+        for pos in st.positions:
+            for part in pos.parts:
+                if part.measured is None:
+                    continue
+                key = (part.kind, part.index, part.measured)
+                where = f"stage {i + 1} {pos.name}"
+                if key in seen:
+                    raise DesignError(f"{source}: measured piece {part.measured} of "
+                                      f"{part.kind} line {part.index} is used twice "
+                                      f"({seen[key]} and {where})")
+                seen[key] = where
+    return SavedDesign(
+        path=None if path is None else Path(path), request=MappingProxyType(dict(request)),
+        score=score, pieces=pieces, stages=stages, opamp=opamp,
+        warnings=tuple(str(w) for w in warnings),
+        stock_path=None if stock_path is None else Path(stock_path), stock_sha256=stock_sha,
+        saved=r.get(doc, "saved", str, "", default=None), format=fmt)
+
+
+def _read_opamp(r: "_Reader", t: dict) -> SavedOpAmp:
+    pre = "candidate.opamp."
+    gbw = r.number(t, "gbw_hz", pre)
+    if not gbw > 0:
+        raise DesignError(f"{r.source}: {pre}gbw_hz: must be above zero, got {gbw!r}")
+    return SavedOpAmp(index=r.index(t, "index", pre), name=r.get(t, "name", str, pre),
+                      gbw_hz=gbw, line=r.get(t, "line", int, pre, default=0),
+                      channels=max(1, r.get(t, "channels", int, pre, default=1)),
+                      location=r.get(t, "location", str, pre, default=None),
+                      supply=r.number(t, "supply", pre, default=None))
+
+
+def _read_target(r: "_Reader", t: dict, pre: str) -> StageTarget:
+    f0 = r.number(t, "f0_hz", pre)
+    if not f0 > 0:
+        raise DesignError(f"{r.source}: {pre}f0_hz: must be above zero, got {f0!r}")
+    return StageTarget(f0_hz=f0, q=r.number(t, "q", pre, default=None),
+                       gain=r.number(t, "gain", pre, default=None))
+
+
+def _read_stage(r: "_Reader", st, pre: str) -> SavedStage:
+    if not isinstance(st, dict):
+        raise DesignError(f"{r.source}: {pre[:-1]}: expected a table")
+    topology = r.get(st, "topology", str, pre)
+    target = _read_target(r, r.get(st, "target", dict, pre), pre + "target.")
+    achieved = _read_target(r, r.get(st, "achieved", dict, pre), pre + "achieved.")
+    plist = r.get(st, "position", list, pre)
+    positions = tuple(_read_position(r, p, f"{pre}position[{j}].") for j, p in enumerate(plist))
+    names = [p.name for p in positions]
+    for n in names:
+        if names.count(n) > 1:
+            raise DesignError(f"{r.source}: {pre}position: {n!r} appears twice")
+    return SavedStage(topology=topology, target=target, achieved=achieved, positions=positions)
+
+
+def _read_position(r: "_Reader", p, pre: str) -> SavedPosition:
+    if not isinstance(p, dict):
+        raise DesignError(f"{r.source}: {pre[:-1]}: expected a table")
+    name = r.get(p, "name", str, pre)
+    arrangement = r.get(p, "arrangement", str, pre)
+    if arrangement not in ARRANGEMENTS:
+        raise DesignError(f"{r.source}: {pre}arrangement: {arrangement!r} is not one of "
+                          + ", ".join(ARRANGEMENTS))
+    plist = r.get(p, "part", list, pre)
+    parts = tuple(_read_part(r, x, f"{pre}part[{k}].") for k, x in enumerate(plist))
+    want = 1 if arrangement == "single" else 2
+    if len(parts) != want:
+        raise DesignError(f"{r.source}: {pre}part: a {arrangement} position holds {want} "
+                          f"piece(s), found {len(parts)}")
+    if len({x.kind for x in parts}) != 1:
+        raise DesignError(f"{r.source}: {pre}part: the pieces of one position differ in kind")
+    value = r.number(p, "value", pre)
+    combined = combine(parts[0].kind, arrangement, [x.value for x in parts])
+    if not math.isclose(value, combined, rel_tol=1e-6):
+        raise DesignError(f"{r.source}: {pre}value: {value!r} does not match its pieces "
+                          f"({combined!r})")
+    return SavedPosition(name=name, arrangement=arrangement, value=value, parts=parts)
+
+
+def _read_part(r: "_Reader", x, pre: str) -> SavedPart:
+    if not isinstance(x, dict):
+        raise DesignError(f"{r.source}: {pre[:-1]}: expected a table")
+    kind = r.get(x, "kind", str, pre)
+    if kind not in KINDS:
+        raise DesignError(f"{r.source}: {pre}kind: {kind!r} is not resistor or capacitor")
+    values = {}
+    for key in ("nominal", "value"):
+        v = r.number(x, key, pre)
+        if not (v > 0 and math.isfinite(v)):
+            raise DesignError(f"{r.source}: {pre}{key}: must be a positive number, got {v!r}")
+        values[key] = v
+    tol = r.number(x, "tolerance", pre)
+    if not 0 <= tol < 1:
+        raise DesignError(f"{r.source}: {pre}tolerance: {tol!r} is not a fraction in [0, 1)")
+    measured = x.get("measured")
+    if measured is not None:
+        measured = r.index(x, "measured", pre)
+    return SavedPart(kind=kind, index=r.index(x, "index", pre),
+                     line=r.get(x, "line", int, pre, default=0),
+                     nominal=values["nominal"], value=values["value"], tolerance=tol,
+                     measured=measured, location=r.get(x, "location", str, pre, default=None),
+                     dielectric=r.get(x, "dielectric", str, pre, default=None),
+                     polarized=r.get(x, "polarized", bool, pre, default=False),
+                     voltage=r.number(x, "voltage", pre, default=None))
+
+
+_MISSING = object()
+
+
+class _Reader:
+    """Typed look-ups whose errors name the file and the dotted key."""
+
+    def __init__(self, source: str):
+        self.source = source
+
+    def get(self, table: dict, key: str, typ, prefix: str, default=_MISSING):
+        if key not in table:
+            if default is _MISSING:
+                raise DesignError(f"{self.source}: {prefix}{key}: missing")
+            return default
+        value = table[key]
+        ok = isinstance(value, typ) and not (typ is int and isinstance(value, bool))
+        if not ok:
+            raise DesignError(f"{self.source}: {prefix}{key}: expected {_TYPE_WORDS[typ]}, "
+                              f"got {value!r}")
+        return value
+
+    def number(self, table: dict, key: str, prefix: str, default=_MISSING):
+        if key not in table:
+            if default is _MISSING:
+                raise DesignError(f"{self.source}: {prefix}{key}: missing")
+            return default
+        value = table[key]
+        if isinstance(value, bool) or not isinstance(value, (int, float)) \
+                or not math.isfinite(value):
+            raise DesignError(f"{self.source}: {prefix}{key}: expected a number, got {value!r}")
+        return float(value)
+
+    def index(self, table: dict, key: str, prefix: str) -> int:
+        value = self.get(table, key, int, prefix)
+        if value < 0:
+            raise DesignError(f"{self.source}: {prefix}{key}: must be 0 or more, got {value}")
+        return value
+
+
+_TYPE_WORDS = {int: "a whole number", str: "text", dict: "a table", list: "an array",
+               bool: "true or false", float: "a number"}

@@ -1,0 +1,59 @@
+"""Pick list: the BOM grouped by drawer, so each drawer is opened once (DESIGN.md section 9)."""
+
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass
+
+from picker.export.bom import BomRow, bom_rows
+from picker.export.design_file import SavedDesign
+
+NO_LOCATION = "(no location)"
+
+
+@dataclass(frozen=True)
+class PickGroup:
+    location: str | None            # the drawer or bin label; None when the stock line has none
+    rows: tuple[BomRow, ...]
+
+    @property
+    def count(self) -> int:
+        return sum(r.count for r in self.rows)
+
+    @property
+    def label(self) -> str:
+        return self.location if self.location is not None else NO_LOCATION
+
+
+def pick_list(design: SavedDesign) -> tuple[PickGroup, ...]:
+    """BOM rows grouped by location, locations in natural order, no location last."""
+    groups: dict[str | None, list[BomRow]] = {}
+    for row in bom_rows(design):
+        groups.setdefault(row.location, []).append(row)
+    keys = sorted((k for k in groups if k is not None), key=_natural)
+    if None in groups:
+        keys.append(None)
+    return tuple(PickGroup(location=k, rows=tuple(groups[k])) for k in keys)
+
+
+def pick_count(groups) -> int:
+    """Physical items to take: pieces plus op-amp packages."""
+    return sum(g.count for g in groups)
+
+
+def pick_list_lines(groups) -> list[str]:
+    """Plain-text pick list, one drawer header and one line per stock line."""
+    lines = []
+    for g in groups:
+        lines.append(f"{g.label}:")
+        for r in g.rows:
+            what = r.value if r.kind == "opamp" else f"{r.kind} {r.value} {r.tolerance}".strip()
+            extra = f"  measured {', '.join(r.measured)}" if r.measured else ""
+            lines.append(f"  take {r.count} x {what}  for {r.positions}{extra}")
+    return lines
+
+
+def _natural(text: str):
+    """Sort key that puts A2 before A10 (digits compared as numbers)."""
+    return [(0, int(t), "") if t.isdigit() else (1, 0, t.lower())
+            for t in re.findall(r"\d+|\D+", text)]
