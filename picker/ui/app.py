@@ -1,0 +1,40 @@
+"""The terminal UI of picker: ``picker [--stock FILE]``.
+
+Keyboard only (mouse off unless ``--mouse``), usable at 80x24, in tmux and over SSH.
+With NO_COLOR set the app takes the ANSI theme, which sends no colour codes at all;
+meaning is always carried by words and marks as well.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+from textual.app import App
+from textual.binding import Binding
+
+from picker.ui.screens.main import MainScreen
+
+
+class PickerApp(App):
+    CSS_PATH = "picker.tcss"
+    TITLE = "picker"
+    ENABLE_COMMAND_PALETTE = False
+    HORIZONTAL_BREAKPOINTS = [(0, "-narrow"), (120, "-wide")]
+    BINDINGS = [
+        Binding("ctrl+q", "quit", "quit", key_display="^q", priority=True),
+    ]
+
+    def __init__(self, stock_path: Path | None, *, note: str | None = None) -> None:
+        super().__init__()
+        self.stock_path = stock_path
+        self.note = note
+        if self.no_color:
+            self.theme = "ansi-dark"
+
+    def on_mount(self) -> None:
+        self.push_screen(MainScreen(self.stock_path, self.note))
+
+    def action_help(self) -> None:
+        from picker.ui.screens.help import HelpScreen
+        if not isinstance(self.screen, HelpScreen):
+            self.push_screen(HelpScreen())

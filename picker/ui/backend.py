@@ -1,0 +1,116 @@
+"""The UI's door to the functional core, imported lazily.
+
+Every heavy import (numpy, scipy, the search) happens inside these functions, which
+the UI calls from worker threads, so the first screen paints before any of it loads.
+A piece of the core that is not installed yet raises ``Unavailable``: the pane shows
+"not available yet" instead of made-up data.
+"""
+
+from __future__ import annotations
+
+import importlib
+from pathlib import Path
+
+from picker.ui.targets_form import Targets
+
+
+class Unavailable(Exception):
+    """A part of the core this pane needs is not there (yet)."""
+
+
+def need(module: str, *names: str):
+    """Import ``module`` and check it has ``names``; raise ``Unavailable`` otherwise.
+
+    Only a missing module or name counts: an import that fails inside an existing
+    module is a real bug and propagates.
+    """
+    try:
+        mod = importlib.import_module(module)
+    except ModuleNotFoundError as exc:
+        if exc.name and (module == exc.name or module.startswith(exc.name + ".")):
+            raise Unavailable(f"{module} is not available yet") from None
+        raise
+    for name in names:
+        if not hasattr(mod, name):
+            raise Unavailable(f"{module}.{name} is not available yet")
+    return mod
+
+
+# stock -----------------------------------------------------------------------------
+def load_stock(path: Path):
+    return need("stock.file", "load").load(path)
+
+
+def format_value(value: float, kind: str) -> str:
+    """RKM text for tables ("4k7", "2n2")."""
+    return need("stock.values", "format_rkm").format_rkm(value, kind)
+
+
+def format_si(value: float, unit: str = "") -> str:
+    return need("stock.values", "format_si").format_si(value, unit)
+
+
+def parse_value(text: str, kind: str | None = None) -> float:
+    return need("stock.values", "parse_value").parse_value(text, kind=kind)
+
+
+def change_qty(path: Path, kind: str, index: int, delta: int, *, expect_sha256: str | None):
+    mod = need("stock.file", "apply_changes", "QtyChange")
+    return mod.apply_changes(path, [mod.QtyChange(kind, index, delta)],
+                             expect_sha256=expect_sha256)
+
+
+def add_line(path: Path, kind: str, fields: dict, *, expect_sha256: str | None):
+    return need("stock.file", "add_line").add_line(path, kind, fields,
+                                                   expect_sha256=expect_sha256)
+
+
+# design ----------------------------------------------------------------------------
+def plan(targets: Targets):
+    """The stage list for the targets: [(Topology, StageTarget)]."""
+    filters = need("picker.filters", "plan_stages")
+    return filters.plan_stages(targets.response_type, response=targets.response,
+                               order=targets.order, fc_hz=targets.fc_hz, gain=targets.gain,
+                               ripple_db=targets.ripple_db, q=targets.q,
+                               family=targets.family)
+
+
+def search(stock, stages, targets: Targets, *, top: int = 8):
+    mod = need("picker.search", "search", "Bounds")
+    bounds = mod.Bounds(r_min=targets.r_min, r_max=targets.r_max,
+                        c_min=targets.c_min, c_max=targets.c_max)
+    return mod.search(stock, stages, singles=targets.singles,
+                      allow_polarized=targets.allow_polarized, bounds=bounds, top=top)
+
+
+def response(candidate, freqs_hz):
+    """Complex H(j 2 pi f) of the whole candidate, op amp GBW included when known."""
+    get_topology = need("picker.filters", "get_topology").get_topology
+    analysis = need("picker.analysis", "cascade_response")
+    nets = [get_topology(stage.topology).netlist(stage.values())
+            for stage in candidate.stages]
+    gbw = candidate.opamp.gbw if candidate.opamp is not None else None
+    return analysis.cascade_response(nets, freqs_hz, gbw_hz=gbw)
+
+
+def budget(candidate):
+    return need("picker.budget", "budget").budget(candidate)
+
+
+def schematic(candidate):
+    return need("picker.report", "schematic").schematic(candidate)
+
+
+def budget_panel(budget_):
+    """The budget's rich panel, compact: the pane draws its own f0 histogram."""
+    return need("picker.report.budget_panel", "BudgetPanel").BudgetPanel(budget_, compact=True)
+
+
+def f0_histogram(budget_) -> dict:
+    """The Monte Carlo f0 histogram of a ``picker.budget.Budget`` as plain data."""
+    mc = budget_.monte_carlo
+    h = mc.histogram
+    return {"edges": list(h.edges), "counts": list(h.counts), "target": h.target,
+            "nominal": h.nominal, "window": dict(mc.window).get("f0", 0.0),
+            "trials": mc.trials, "yield": mc.yield_, "quantity": h.quantity,
+            "outside": h.outside}

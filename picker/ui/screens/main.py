@@ -1,0 +1,206 @@
+"""The main screen: four panes behind one bar, the search worker, the stock state.
+
+Panes are switched with 1-4 (outside text fields) or ctrl+n (anywhere); only the
+pane shown takes part in tab focus. The screen owns the stock read from the file and
+the targets; a change of either restarts the search after a short pause.
+"""
+
+from __future__ import annotations
+
+import time
+from pathlib import Path
+
+from rich.text import Text
+from textual import on, work
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.screen import Screen
+from textual.widgets import ContentSwitcher, Footer, Static
+from textual.worker import get_current_worker
+
+from picker.ui import backend
+from picker.ui.targets_form import Targets
+from picker.ui.widgets.chosen import ChosenPane
+from picker.ui.widgets.common import TypingAware
+from picker.ui.widgets.drawers import DrawersPane
+from picker.ui.widgets.matches import MatchesPane
+from picker.ui.widgets.targets import TargetsPane
+from stock.errors import PickerError, StockFileError
+
+PANES = (("drawers", "drawers"), ("targets", "targets"), ("matches", "matches"),
+         ("chosen", "chosen"))
+DEBOUNCE_S = 0.3
+# where the focus lands when a pane is shown (else its first focusable widget)
+FIRST_FOCUS = {"drawers": "#stock-table", "matches": "#m-table", "chosen": "#chosen"}
+
+
+def describe(targets: Targets) -> str:
+    text = f"order {targets.order} {targets.response} {targets.response_type}"
+    return text + f" at {targets.fc_hz:g} Hz"
+
+
+class PaneBar(Static):
+    """The pane names with the current one marked by brackets, and the busy state."""
+
+    def show(self, current: str, *, busy: bool, stock_name: str) -> None:
+        text = Text()
+        for n, (pane_id, label) in enumerate(PANES, 1):
+            if pane_id == current:
+                text.append(f"[{n} {label}]", style="reverse bold")
+            else:
+                text.append(f" {n} {label} ")
+            text.append(" ")
+        text.append("  [busy] " if busy else "  ", style="bold")
+        text.append(stock_name)
+        self.update(text)
+
+
+class MainScreen(TypingAware, Screen):
+    BINDINGS = [
+        Binding("ctrl+n", "next_pane", "next pane", key_display="^n", priority=True),
+        Binding("1", "pane('drawers')", "drawers", show=False),
+        Binding("2", "pane('targets')", "targets", show=False),
+        Binding("3", "pane('matches')", "matches", show=False),
+        Binding("4", "pane('chosen')", "chosen", show=False),
+        Binding("question_mark", "app.help", "help", key_display="?"),
+    ]
+    LETTER_ACTIONS = frozenset({"pane", "app.help"})
+
+    def __init__(self, stock_path: Path | None, note: str | None = None) -> None:
+        super().__init__()
+        self.stock_path = stock_path
+        self.note = note
+        self.stock = None
+        self.targets: Targets | None = None
+        self.busy = False
+        self.generation = 0
+        self._timer = None
+
+    def compose(self) -> ComposeResult:
+        yield PaneBar(id="pane-bar")
+        with ContentSwitcher(initial="drawers", id="panes"):
+            yield DrawersPane(id="drawers")
+            yield TargetsPane(id="targets")
+            yield MatchesPane(id="matches")
+            yield ChosenPane(id="chosen")
+        yield Footer()
+
+    def on_mount(self) -> None:
+        self._bar()
+        self.query_one("#stock-table").focus()
+        self.call_after_refresh(self.read_stock, self.note or "")
+
+    # panes -----------------------------------------------------------------------
+    @property
+    def current(self) -> str:
+        return self.query_one(ContentSwitcher).current or "drawers"
+
+    def _bar(self) -> None:
+        name = self.stock_path.name if self.stock_path else "no stock file"
+        self.query_one(PaneBar).show(self.current, busy=self.busy, stock_name=name)
+
+    def action_pane(self, pane_id: str) -> None:
+        self.query_one(ContentSwitcher).current = pane_id
+        self._bar()
+        pane = self.query_one(f"#{pane_id}")
+        first = FIRST_FOCUS.get(pane_id)
+        focusable = [w for w in pane.query(first or "*") if w.focusable]
+        (focusable[0] if focusable else pane).focus()
+        self.refresh_bindings()
+
+    def action_next_pane(self) -> None:
+        ids = [p for p, _ in PANES]
+        self.action_pane(ids[(ids.index(self.current) + 1) % len(ids)])
+
+    # stock -----------------------------------------------------------------------
+    def read_stock(self, note: str = "") -> None:
+        drawers = self.query_one(DrawersPane)
+        if self.stock_path is None:
+            drawers.show_error("no stock file: start with picker --stock FILE")
+            return
+        try:
+            self.stock = backend.load_stock(self.stock_path)
+        except backend.Unavailable as exc:
+            drawers.show_error(f"reading stock files is not available yet ({exc})")
+            return
+        except StockFileError as exc:
+            self.stock = None
+            drawers.show_error("\n".join(exc.problems))
+            return
+        except PickerError as exc:
+            self.stock = None
+            drawers.show_error(str(exc))
+            return
+        drawers.show_stock(self.stock, note)
+        self.query_one(ChosenPane).set_stock(self.stock)
+        self.schedule_search()
+
+    @on(DrawersPane.StockChanged)
+    @on(ChosenPane.StockChanged)
+    def _stock_changed(self, event) -> None:
+        self.read_stock(event.note)
+
+    # search ----------------------------------------------------------------------
+    @on(TargetsPane.Changed)
+    def _targets_changed(self, event: TargetsPane.Changed) -> None:
+        self.targets = event.targets
+        self.schedule_search()
+
+    def schedule_search(self) -> None:
+        """Search again after DEBOUNCE_S of quiet: typing restarts the pause."""
+        if self._timer is not None:
+            self._timer.stop()
+        self._timer = self.set_timer(DEBOUNCE_S, self._start_search)
+
+    def _start_search(self) -> None:
+        self._timer = None
+        matches = self.query_one(MatchesPane)
+        if self.targets is None:
+            return
+        if self.stock is None:
+            matches.show_message("no stock loaded: see pane 1")
+            return
+        self.generation += 1
+        self.busy = True
+        self._bar()
+        what = describe(self.targets)
+        matches.show_busy(what)
+        self._search(self.stock, self.targets, self.generation, what)
+
+    @work(thread=True, exclusive=True, group="search", exit_on_error=False)
+    def _search(self, stock, targets: Targets, generation: int, what: str) -> None:
+        """Plan the stages and search the stock; numpy and scipy load here, not at start."""
+        worker = get_current_worker()
+        t0 = time.perf_counter()
+        try:
+            stages = backend.plan(targets)
+            if worker.is_cancelled:
+                return
+            result = backend.search(stock, stages, targets)
+            outcome = ("done", result)
+        except backend.Unavailable as exc:
+            outcome = ("message", f"search not available yet ({exc})")
+        except PickerError as exc:
+            outcome = ("message", f"no design: {exc}")
+        except Exception as exc:   # shown, never a traceback
+            outcome = ("message", f"error: {type(exc).__name__}: {exc}")
+        seconds = time.perf_counter() - t0
+        if not worker.is_cancelled:
+            self.app.call_from_thread(self._searched, generation, outcome, seconds, what)
+
+    def _searched(self, generation: int, outcome, seconds: float, what: str) -> None:
+        if generation != self.generation:
+            return        # a newer search is on its way
+        self.busy = False
+        self._bar()
+        matches = self.query_one(MatchesPane)
+        kind, payload = outcome
+        if kind == "done":
+            matches.show_result(payload, seconds=seconds, what=what)
+        else:
+            matches.show_message(payload)
+
+    @on(MatchesPane.Chosen)
+    def _chosen(self, event: MatchesPane.Chosen) -> None:
+        self.query_one(ChosenPane).show(event.candidate, event.rank)
+        self.action_pane("chosen")

@@ -1,0 +1,1 @@
+"""Panes and small widgets of the terminal UI."""

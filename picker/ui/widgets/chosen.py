@@ -1,0 +1,199 @@
+"""The chosen pane: one candidate up close, and building it.
+
+Shows the text schematic (reference designators, values, drawers), the error budget,
+the magnitude/phase plot and the Monte Carlo histogram of f0. The budget and the
+response are computed in a worker thread. Build and undo ask first, then go through
+the building API (``picker.building``) and post ``ChosenPane.StockChanged``.
+"""
+
+from __future__ import annotations
+
+from rich.text import Text
+from textual import on, work
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.containers import Vertical, VerticalScroll
+from textual.message import Message
+from textual.widgets import Static
+from textual.worker import Worker, WorkerState, get_current_worker
+
+from picker.ui import backend
+from picker.ui.widgets.common import say
+from picker.ui.widgets.matches import pct
+from picker.ui.widgets.plots import F0Histogram, ResponsePlot
+from stock.errors import PickerError
+
+
+class ChosenPane(VerticalScroll):
+    BINDINGS = [
+        Binding("b", "build", "build"),
+        Binding("u", "undo", "undo build"),
+    ]
+
+    class StockChanged(Message):
+        def __init__(self, note: str) -> None:
+            self.note = note
+            super().__init__()
+
+    def __init__(self, **kwargs) -> None:
+        super().__init__(**kwargs)
+        self.candidate = None
+        self.rank = 0
+        self.stock = None
+
+    def compose(self) -> ComposeResult:
+        yield Static("no candidate chosen yet: pick one in pane 3 (matches)", id="c-title",
+                     markup=False)
+        with Vertical(id="c-body"):
+            yield Static("", id="c-schematic", markup=False)
+            yield Static("", id="c-warnings", markup=False)
+            yield Static("", id="c-budget", markup=False)
+            yield ResponsePlot(id="c-plot")
+            yield F0Histogram(id="c-hist")
+        yield Static("", id="c-status", markup=False)
+
+    def set_stock(self, stock) -> None:
+        self.stock = stock
+
+    # showing ---------------------------------------------------------------------
+    def show(self, candidate, rank: int) -> None:
+        self.candidate, self.rank = candidate, rank
+        warn = f"; {len(candidate.warnings)} warning(s) below" if candidate.warnings else ""
+        self.query_one("#c-title", Static).update(
+            f"candidate {rank}: worst error {pct(candidate.score)}, {candidate.pieces} pieces"
+            f"{warn}   (b: build it, u: undo the last build)")
+        try:
+            schematic = backend.schematic(candidate)
+        except backend.Unavailable as exc:
+            schematic = Text(f"schematic: not available yet ({exc})")
+        self.query_one("#c-schematic", Static).update(schematic)
+        self.query_one("#c-warnings", Static).update(
+            "\n".join(f"warning: {w}" for w in candidate.warnings))
+        self.query_one("#c-budget", Static).update("error budget: [busy] computing …")
+        self.query_one(ResponsePlot).set_note("[busy] computing …")
+        self.query_one(F0Histogram).set_note("[busy] computing …")
+        self._detail(candidate)
+
+    @work(thread=True, exclusive=True, group="detail", exit_on_error=False)
+    def _detail(self, candidate) -> None:
+        """Response and budget of ``candidate`` (numpy/scipy are imported here)."""
+        worker = get_current_worker()
+        out: dict = {}
+        try:
+            import numpy as np
+            lo = min(s.target.f0_hz for s in candidate.stages) / 100
+            hi = max(s.target.f0_hz for s in candidate.stages) * 100
+            freqs = np.logspace(np.log10(lo), np.log10(hi), 400)
+            h = backend.response(candidate, freqs)
+            mag = 20 * np.log10(np.maximum(np.abs(h), 1e-30))
+            phase = np.degrees(np.unwrap(np.angle(h)))
+            out["plot"] = (freqs.tolist(), mag.tolist(), phase.tolist())
+        except backend.Unavailable as exc:
+            out["plot_note"] = f"not available yet ({exc})"
+        except Exception as exc:  # shown in the pane; never a traceback
+            out["plot_note"] = f"error: {type(exc).__name__}: {exc}"
+        if worker.is_cancelled:
+            return
+        try:
+            budget = backend.budget(candidate)
+            out["budget"] = budget
+            out["panel"] = backend.budget_panel(budget)
+        except backend.Unavailable as exc:
+            out.setdefault("budget_note", f"not available yet ({exc})")
+        except Exception as exc:
+            out["budget_note"] = f"error: {type(exc).__name__}: {exc}"
+        if not worker.is_cancelled:
+            self.app.call_from_thread(self._detail_done, candidate, out)
+
+    def _detail_done(self, candidate, out: dict) -> None:
+        if candidate is not self.candidate:
+            return
+        plot = self.query_one(ResponsePlot)
+        if "plot" in out:
+            plot.set_curve(*out["plot"])
+        else:
+            plot.set_note(out.get("plot_note", ""))
+        budget_static = self.query_one("#c-budget", Static)
+        hist = self.query_one(F0Histogram)
+        if "panel" in out:
+            budget_static.update(out["panel"])
+        else:
+            budget_static.update(Text(f"error budget: {out.get('budget_note', '')}"))
+        if "budget" in out:
+            hist.set_histogram(backend.f0_histogram(out["budget"]))
+        else:
+            hist.set_note(out.get("budget_note", ""))
+
+    @on(Worker.StateChanged)
+    def _worker_failed(self, event: Worker.StateChanged) -> None:
+        if event.state == WorkerState.ERROR:
+            self.query_one("#c-status", Static).update(
+                say("error", f"{event.worker.error}"))
+
+    # building --------------------------------------------------------------------
+    def _status(self, text: str) -> None:
+        self.query_one("#c-status", Static).update(text)
+
+    def action_build(self) -> None:
+        if self.candidate is None:
+            self._status(say("error", "choose a candidate first (pane 3)"))
+            return
+        if self.stock is None or self.stock.path is None:
+            self._status(say("error", "no stock file is open"))
+            return
+        try:
+            plan = backend.plan_build(self.candidate, self.stock)
+            body = backend.build_listing(plan)
+        except backend.Unavailable as exc:
+            self._status(f"build: not available yet ({exc})")
+            return
+        except PickerError as exc:
+            self._status(say("refused", str(exc)))
+            return
+        from picker.ui.screens.confirm import ConfirmScreen
+
+        def answered(yes: bool | None) -> None:
+            if not yes:
+                self._status("build cancelled: the stock file is unchanged")
+                return
+            try:
+                note = backend.do_build(plan)
+            except PickerError as exc:
+                self._status(say("refused", str(exc) + " (the stock file is unchanged)"))
+                return
+            self._status(f"built: {note}   (u: undo)")
+            self.post_message(self.StockChanged(f"built candidate {self.rank}: {note}"))
+
+        self.app.push_screen(ConfirmScreen(
+            f"Build candidate {self.rank}: take these parts out of the stock file?", body,
+            yes="y: yes, take them out", no="n: no, leave the stock as it is"), answered)
+
+    def action_undo(self) -> None:
+        if self.stock is None or self.stock.path is None:
+            self._status(say("error", "no stock file is open"))
+            return
+        try:
+            last = backend.last_build(self.stock.path)
+        except backend.Unavailable as exc:
+            self._status(f"undo: not available yet ({exc})")
+            return
+        except PickerError as exc:
+            self._status(say("refused", str(exc)))
+            return
+        from picker.ui.screens.confirm import ConfirmScreen
+
+        def answered(yes: bool | None) -> None:
+            if not yes:
+                self._status("undo cancelled: the stock file is unchanged")
+                return
+            try:
+                note = backend.undo_last(self.stock.path)
+            except PickerError as exc:
+                self._status(say("refused", str(exc) + " (the stock file is unchanged)"))
+                return
+            self._status(f"undone: {note}")
+            self.post_message(self.StockChanged(f"undid the last build: {note}"))
+
+        self.app.push_screen(ConfirmScreen(
+            "Undo the last build: put the file back as it was before it?", last,
+            yes="y: yes, restore the file", no="n: no, keep it as it is"), answered)

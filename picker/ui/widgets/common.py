@@ -1,0 +1,43 @@
+"""Small pieces shared by the panes."""
+
+from __future__ import annotations
+
+from textual.widgets import Checkbox, Input, TextArea
+
+
+class TypingAware:
+    """Hide and disable single-letter keys while a text field has the focus.
+
+    A text field takes printable keys for itself, so a binding on "e" or "/" cannot
+    fire there; the footer should not offer it either. List those actions in
+    ``LETTER_ACTIONS``.
+    """
+
+    LETTER_ACTIONS: frozenset[str] = frozenset()
+
+    def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
+        if action in self.LETTER_ACTIONS and isinstance(self.screen.focused, (Input, TextArea)):
+            return False
+        return True
+
+
+def say(kind: str, text: str) -> str:
+    """Message text whose meaning is in the words, not the colour: "error: ...", "ok: ..."."""
+    return f"{kind}: {text}" if text else ""
+
+
+class Tick(Checkbox):
+    """A check box that shows its state as a mark: "[x]" ticked, "[ ]" not.
+
+    Textual's own box shows the same "X" either way and tells the states apart by
+    colour alone, which NO_COLOR and some terminals lose.
+    """
+
+    BUTTON_LEFT = "["
+    BUTTON_RIGHT = "]"
+    BUTTON_INNER = " "
+
+    def watch_value(self) -> None:
+        super().watch_value()
+        self.BUTTON_INNER = "x" if self.value else " "
+        self.refresh()

@@ -1,0 +1,101 @@
+"""The matches pane: ranked candidates and the parts-versus-precision trade-off.
+
+The screen feeds it (``show_busy``, ``show_result``, ``show_message``); choosing a
+row posts ``MatchesPane.Chosen`` with the candidate.
+"""
+
+from __future__ import annotations
+
+import math
+
+from rich.text import Text
+from textual import on
+from textual.app import ComposeResult
+from textual.containers import Vertical
+from textual.message import Message
+from textual.widgets import DataTable, Static
+
+COLUMNS = ("rank", "worst error", "pieces", "stages", "op amp", "notes")
+
+
+def pct(score: float) -> str:
+    """Relative error as percent text, enough digits to tell candidates apart."""
+    p = score * 100
+    if p == 0:
+        return "0%"
+    return f"{p:.2g}%" if p < 0.1 else f"{p:.3g}%"
+
+
+def stage_names(candidate) -> str:
+    return " + ".join(stage.topology for stage in candidate.stages)
+
+
+def tradeoff_text(tradeoff, *, width: int = 40) -> Text:
+    """One line per piece count: a bar whose length grows with the log of the error."""
+    text = Text()
+    rows = [(int(p), float(s)) for p, s in tradeoff]
+    if not rows:
+        return Text("no trade-off reported")
+    finite = [s for _p, s in rows if s > 0 and math.isfinite(s)]
+    lo = math.log10(min(finite)) if finite else 0.0
+    hi = math.log10(max(finite)) if finite else 1.0
+    span = max(hi - lo, 1e-9)
+    text.append("pieces  best worst error (longer bar: less precise)\n", style="bold")
+    for pieces, score in rows:
+        if score > 0 and math.isfinite(score):
+            n = 1 + round((math.log10(score) - lo) / span * (width - 1))
+        else:
+            n = 0
+        text.append(f"{pieces:>6}  {'█' * n:<{width}} {pct(score)}\n")
+    return text
+
+
+class MatchesPane(Vertical):
+    class Chosen(Message):
+        def __init__(self, candidate, rank: int) -> None:
+            self.candidate = candidate
+            self.rank = rank
+            super().__init__()
+
+    def __init__(self, **kwargs) -> None:
+        super().__init__(**kwargs)
+        self.candidates: list = []
+
+    def compose(self) -> ComposeResult:
+        yield Static("no search yet: fill in the targets (pane 2)", id="m-status",
+                     markup=False)
+        yield DataTable(id="m-table", cursor_type="row")
+        yield Static("", id="m-tradeoff")
+
+    def on_mount(self) -> None:
+        self.query_one(DataTable).add_columns(*COLUMNS)
+
+    def show_busy(self, what: str) -> None:
+        self.query_one("#m-status", Static).update(f"[busy] searching: {what} …")
+
+    def show_message(self, text: str) -> None:
+        self.candidates = []
+        self.query_one(DataTable).clear()
+        self.query_one("#m-tradeoff", Static).update("")
+        self.query_one("#m-status", Static).update(text)
+
+    def show_result(self, result, *, seconds: float, what: str) -> None:
+        self.candidates = list(result.candidates)
+        table = self.query_one(DataTable)
+        table.clear()
+        for rank, c in enumerate(self.candidates, 1):
+            opamp = c.opamp.name if c.opamp is not None else "-"
+            notes = f"{len(c.warnings)} warning(s)" if c.warnings else ""
+            table.add_row(str(rank), pct(c.score), str(c.pieces), stage_names(c), opamp,
+                          notes, key=str(rank))
+        n = len(self.candidates)
+        self.query_one("#m-status", Static).update(
+            f"done: {n} candidate(s) for {what} in {seconds:.2f} s"
+            + ("; enter on a row: look closer" if n else ""))
+        self.query_one("#m-tradeoff", Static).update(tradeoff_text(result.tradeoff))
+
+    @on(DataTable.RowSelected, "#m-table")
+    def _chosen(self, event: DataTable.RowSelected) -> None:
+        rank = event.cursor_row + 1
+        if 1 <= rank <= len(self.candidates):
+            self.post_message(self.Chosen(self.candidates[rank - 1], rank))
