@@ -7,6 +7,7 @@ import pytest
 
 ROOT = Path(__file__).resolve().parent.parent
 CORE = ["stock", "picker/filters", "picker/analysis", "picker/search", "picker/budget.py",
+        "picker/budget",
         "picker/parts.py", "picker/errors.py"]
 FORBIDDEN = {"textual", "rich"}
 
