@@ -1,0 +1,188 @@
+"""Subcommands on a saved design: ``bom``, ``netlist``, ``build``; and ``undo`` of a build.
+
+    picker bom DESIGN.toml [--csv]              parts list and pick list by drawer
+    picker netlist DESIGN.toml                  SPICE text for ngspice
+    picker build DESIGN.toml --stock FILE [--yes]
+    picker undo --stock FILE [--yes]
+
+Heavy imports (rich, the export package) happen inside ``run`` functions.
+"""
+
+from __future__ import annotations
+
+import argparse
+import os
+import sys
+from pathlib import Path
+
+
+def register(subparsers) -> None:
+    p = subparsers.add_parser("bom", help="bill of materials and pick list of a saved design",
+                              description="Bill of materials of a saved design, then the "
+                                          "parts to take drawer by drawer.")
+    p.add_argument("design", metavar="DESIGN.toml", help="a design saved with picker design --save")
+    p.add_argument("--csv", action="store_true", help="print the BOM as CSV (RFC 4180)")
+    p.set_defaults(run=run_bom)
+
+    p = subparsers.add_parser("netlist", help="SPICE netlist of a saved design",
+                              description="Print a SPICE netlist that `ngspice -b` runs as is.")
+    p.add_argument("design", metavar="DESIGN.toml")
+    p.set_defaults(run=run_netlist)
+
+    p = subparsers.add_parser("build", help="take a saved design's parts out of the stock file",
+                              description="Take exactly the design's pieces out of the stock "
+                                          "file (undo with `picker undo`).")
+    p.add_argument("design", metavar="DESIGN.toml")
+    p.add_argument("--stock", metavar="FILE", default=argparse.SUPPRESS,
+                   help="stock file to take from (default: the one the design was saved from)")
+    p.add_argument("--yes", action="store_true", help="do not ask for confirmation")
+    p.set_defaults(run=run_build)
+
+    p = subparsers.add_parser("undo", help="undo the last build on a stock file",
+                              description="Put the stock file back byte for byte as it was "
+                                          "before its last build.")
+    p.add_argument("--stock", metavar="FILE", default=argparse.SUPPRESS,
+                   help="stock file (default: $PICKER_STOCK, else ./inventory.toml)")
+    p.add_argument("--yes", action="store_true", help="do not ask for confirmation")
+    p.set_defaults(run=run_undo)
+
+
+# --------------------------------------------------------------------------- helpers
+
+def _console(file=None):
+    from rich.console import Console
+    return Console(file=file or sys.stdout, highlight=False, soft_wrap=False)
+
+
+def _err(text: str) -> None:
+    print(f"picker: {text}", file=sys.stderr)
+
+
+def _interactive() -> bool:
+    return sys.stdin.isatty() and sys.stdout.isatty()
+
+
+def _ask(question: str) -> bool:
+    try:
+        answer = input(f"{question} [y/N] ")
+    except EOFError:
+        return False
+    return answer.strip().lower() in ("y", "yes")
+
+
+def pick_table(groups):
+    """A rich table of the pick list: one block per drawer."""
+    from rich.table import Table
+    table = Table(title="Pick list by drawer", title_justify="left", expand=False)
+    table.add_column("drawer")
+    table.add_column("take", justify="right")
+    table.add_column("part")
+    table.add_column("for")
+    for g in groups:
+        for i, r in enumerate(g.rows):
+            what = r.value if r.kind == "opamp" else f"{r.kind} {r.value} {r.tolerance}".strip()
+            if r.measured:
+                what += f" (measured {', '.join(r.measured)})"
+            table.add_row(g.label if i == 0 else "", str(r.count), what, r.positions,
+                          end_section=i == len(g.rows) - 1)
+    return table
+
+
+def bom_table(rows):
+    from rich.table import Table
+    table = Table(title="Bill of materials", title_justify="left", expand=False)
+    for name, justify in (("kind", "left"), ("value", "left"), ("tol.", "right"),
+                          ("location", "left"), ("count", "right"), ("positions", "left")):
+        table.add_column(name, justify=justify)
+    for r in rows:
+        value = r.value + (f" (measured {', '.join(r.measured)})" if r.measured else "")
+        table.add_row(r.kind, value, r.tolerance, r.location or "-", str(r.count), r.positions)
+    return table
+
+
+# --------------------------------------------------------------------------- commands
+
+def run_bom(args) -> int:
+    from picker.export import bom_csv, bom_rows, load_design, pick_list
+
+    design = load_design(args.design)
+    if args.csv:
+        sys.stdout.write(bom_csv(design))
+        return 0
+    console = _console()
+    console.print(bom_table(bom_rows(design)))
+    console.print(pick_table(pick_list(design)))
+    return 0
+
+
+def run_netlist(args) -> int:
+    from picker.export import load_design, spice_netlist
+
+    sys.stdout.write(spice_netlist(load_design(args.design)))
+    return 0
+
+
+def run_build(args) -> int:
+    from picker.building import do_build, plan_build
+    from picker.errors import DesignError
+    from picker.export import load_design
+    from stock.file import load
+
+    design = load_design(args.design)
+    stock_arg = getattr(args, "stock", None)
+    if stock_arg is None:
+        if design.stock_path is None:
+            raise DesignError(f"{args.design}: the design names no stock file; pass --stock FILE")
+        stock_path = design.stock_path
+        _err(f"note: taking from {stock_path}, the stock the design was saved from")
+    else:
+        stock_path = Path(stock_arg)
+    stock = load(stock_path)
+    plan = plan_build(design, stock)
+    console = _console()
+    console.print(pick_table(plan.picks))
+    for w in plan.warnings:
+        console.print(f"warning: {w}")
+    for c in plan.cautions:
+        console.print(f"caution: {c}")
+    if not args.yes:
+        if not _interactive():
+            _err("not a terminal: pass --yes to take the parts without asking")
+            return 2
+        if not _ask(f"Take these {plan.count} parts from the stock?"):
+            console.print("Nothing taken; the stock file is unchanged.")
+            return 0
+    result = do_build(stock_path, plan)
+    console.print(f"Took {plan.count} parts; {result.path} updated.")
+    for line in plan.summary:
+        console.print(f"  {line}")
+    console.print(f"Undo with: picker undo --stock {stock_path}")
+    return 0
+
+
+def run_undo(args) -> int:
+    from picker.building import undo_last, undo_preview
+    from picker.errors import DesignError
+
+    stock_arg = getattr(args, "stock", None) or os.environ.get("PICKER_STOCK")
+    if stock_arg is None:
+        if not Path("inventory.toml").is_file():
+            raise DesignError("undo needs the stock file: pass --stock FILE")
+        stock_arg = "inventory.toml"
+    stock_path = Path(stock_arg)
+    record = undo_preview(stock_path)
+    console = _console()
+    console.print(f"Last build on {stock_path}: number {record.number}, {record.time}"
+                  + (f", design {record.design}" if record.design else ""))
+    for line in record.summary:
+        console.print(f"  {line}")
+    if not args.yes:
+        if not _interactive():
+            _err("not a terminal: pass --yes to undo without asking")
+            return 2
+        if not _ask(f"Put {stock_path} back as it was before build {record.number}?"):
+            console.print("Nothing changed.")
+            return 0
+    undo_last(stock_path)
+    console.print(f"Restored {stock_path} as it was before build {record.number}.")
+    return 0
