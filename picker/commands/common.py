@@ -1,0 +1,53 @@
+"""Small helpers shared by the subcommands. Imports nothing heavy."""
+
+from __future__ import annotations
+
+import os
+from pathlib import Path
+
+ENV_VAR = "PICKER_STOCK"
+DEFAULT_NAME = "inventory.toml"
+
+
+def bundled_sample_path() -> Path:
+    """The sample stock file shipped inside the package (picker/data/sample_inventory.toml)."""
+    try:
+        from importlib.resources import files
+        candidate = files("picker") / "data" / "sample_inventory.toml"
+        path = Path(str(candidate))
+        if path.is_file():
+            return path
+    except (ModuleNotFoundError, TypeError, ValueError):
+        pass
+    return Path(__file__).resolve().parent.parent / "data" / "sample_inventory.toml"
+
+
+def is_bundled_sample(path) -> bool:
+    try:
+        return Path(path).resolve() == bundled_sample_path().resolve()
+    except OSError:
+        return False
+
+
+def resolve_stock_path(arg: str | None) -> tuple[Path, str | None]:
+    """Which stock file to use (DESIGN.md section 6).
+
+    ``arg`` if given; else ``$PICKER_STOCK``; else ``./inventory.toml`` if it exists;
+    else the bundled sample. The note is None for an explicit ``arg`` and otherwise
+    says where the file came from (for the sample: that it is one).
+    """
+    if arg:
+        return Path(arg), None
+    env = os.environ.get(ENV_VAR, "").strip()
+    if env:
+        return Path(env), f"stock file from ${ENV_VAR}: {env}"
+    local = Path(DEFAULT_NAME)
+    if local.is_file():
+        return local, f"stock file ./{DEFAULT_NAME}"
+    sample = bundled_sample_path()
+    return sample, (f"no stock file given (--stock, ${ENV_VAR} or ./{DEFAULT_NAME}): using "
+                    f"the bundled sample {sample}")
+
+
+__all__ = ["DEFAULT_NAME", "ENV_VAR", "bundled_sample_path", "is_bundled_sample",
+           "resolve_stock_path"]

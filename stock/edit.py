@@ -1,0 +1,287 @@
+"""Safe in-place edits of the owner's stock file (DESIGN.md section 3, "Editing").
+
+Every write:
+
+1. takes an exclusive ``fcntl.flock`` on the stock file itself and keeps it across
+   read-modify-write. The rename at the end puts a new inode at the path, so after
+   the lock is granted the holder checks that the path still names the inode it
+   locked; if not (another writer replaced it meanwhile) it drops the lock and locks
+   the new file. No lock file is left in the owner's folder.
+2. reads the bytes through the locked descriptor and refuses (``StockEditError``, file
+   untouched) if their sha256 is not the one the caller read (``expect_sha256``);
+3. changes only what it must: a round trip through tomlkit keeps comments, order,
+   spacing and quoting byte for byte; the result must load without errors;
+4. writes a temporary file in the same folder, copies the mode (and owner where
+   allowed), fsyncs it, renames it over the original and fsyncs the folder, so a
+   crash leaves the old file or the new one, never a partial file.
+
+A symbolic link is followed: the file it points to is replaced, the link stays.
+"""
+
+from __future__ import annotations
+
+import errno
+import fcntl
+import hashlib
+import os
+import tempfile
+from contextlib import contextmanager
+from dataclasses import dataclass
+from pathlib import Path
+
+from stock.errors import StockEditError, StockFileError
+from stock.load import KINDS, loads
+from stock.values import format_rkm
+
+_BOM = "\ufeff"
+
+
+class StockChangedError(StockEditError):
+    """The file's sha256 is not the one expected: someone changed it since it was read."""
+
+
+@dataclass(frozen=True)
+class QtyChange:
+    """Change the qty of stock line ``index`` of ``kind`` by ``delta``.
+
+    ``remove_measured`` lists indices into that line's ``measured`` list whose pieces
+    are consumed; they are deleted from the file (count them in ``delta`` too).
+    """
+
+    kind: str
+    index: int
+    delta: int
+    remove_measured: tuple[int, ...] = ()
+
+
+@dataclass(frozen=True)
+class EditResult:
+    path: Path
+    before: bytes
+    after: bytes
+    before_sha256: str
+    after_sha256: str
+
+    @property
+    def changed(self) -> bool:
+        return self.before != self.after
+
+
+def _sha(data: bytes) -> str:
+    return hashlib.sha256(data).hexdigest()
+
+
+@contextmanager
+def locked(path):
+    """Exclusive lock on the file at ``path``; yields ``(fd, real_path, stat)``."""
+    real = Path(os.path.realpath(path))
+    while True:
+        try:
+            fd = os.open(real, os.O_RDONLY)
+        except OSError as exc:
+            raise StockEditError(f"{path}: cannot open the stock file: "
+                                 f"{exc.strerror or exc}") from None
+        try:
+            fcntl.flock(fd, fcntl.LOCK_EX)
+            st = os.fstat(fd)
+            try:
+                now = os.stat(real)
+            except FileNotFoundError:
+                raise StockEditError(f"{path}: the stock file was removed while waiting "
+                                     "for the lock") from None
+            if (now.st_dev, now.st_ino) == (st.st_dev, st.st_ino):
+                yield fd, real, st
+                return
+        finally:
+            os.close(fd)  # also releases the lock
+
+
+def _read_all(fd: int) -> bytes:
+    chunks = []
+    os.lseek(fd, 0, os.SEEK_SET)
+    while True:
+        chunk = os.read(fd, 1 << 20)
+        if not chunk:
+            return b"".join(chunks)
+        chunks.append(chunk)
+
+
+def _write_atomic(real: Path, data: bytes, st: os.stat_result) -> None:
+    fd, tmp = tempfile.mkstemp(dir=real.parent, prefix=f".{real.name}.", suffix=".tmp")
+    try:
+        try:
+            view = memoryview(data)
+            while view:
+                view = view[os.write(fd, view):]
+            os.fchmod(fd, st.st_mode & 0o7777)
+            try:
+                os.fchown(fd, st.st_uid, st.st_gid)
+            except OSError:
+                pass  # not the owner: the file becomes ours, the mode is kept
+            os.fsync(fd)
+        finally:
+            os.close(fd)
+        os.replace(tmp, real)
+    except BaseException:
+        try:
+            os.unlink(tmp)
+        except OSError:
+            pass
+        raise
+    try:
+        dfd = os.open(real.parent, os.O_RDONLY | os.O_DIRECTORY)
+    except OSError:
+        return
+    try:
+        os.fsync(dfd)
+    except OSError as exc:  # some file systems cannot fsync a folder
+        if exc.errno not in (errno.EINVAL, errno.EBADF):
+            raise
+    finally:
+        os.close(dfd)
+
+
+def _edit(path, transform, expect_sha256: str | None) -> EditResult:
+    with locked(path) as (fd, real, st):
+        before = _read_all(fd)
+        before_sha = _sha(before)
+        if expect_sha256 is not None and before_sha != expect_sha256:
+            raise StockChangedError(
+                f"{path}: the stock file changed since it was read (sha256 {before_sha[:12]}, "
+                f"expected {expect_sha256[:12]}); nothing was written: load it again and retry")
+        after = transform(before)
+        if after != before:
+            _write_atomic(real, after, st)
+        return EditResult(path=Path(path), before=before, after=after,
+                          before_sha256=before_sha, after_sha256=_sha(after))
+
+
+def _text_of(data: bytes, path) -> tuple[str, str]:
+    try:
+        text = data.decode("utf-8")
+    except UnicodeDecodeError:
+        raise StockEditError(f"{path}: not UTF-8 text; nothing was written") from None
+    if text.startswith(_BOM):
+        return _BOM, text[1:]
+    return "", text
+
+
+def _check_loads(text: str, path, what: str):
+    try:
+        return loads(text, source=str(path))
+    except StockFileError as exc:
+        raise StockEditError("\n".join([f"{path}: {what}; nothing was written:"]
+                                       + exc.problems)) from None
+
+
+def _describe(item) -> str:
+    if item.kind == "opamp":
+        name = item.name
+    else:
+        name = format_rkm(item.value, item.kind)
+    where = f" in {item.location}" if item.location else ""
+    return f"{item.kind} {name}{where} (line {item.line})"
+
+
+def apply_changes(path, changes, *, expect_sha256: str | None = None) -> EditResult:
+    """Apply every ``QtyChange`` or none of them.
+
+    Raises
+    ------
+    StockEditError
+        A qty would go below zero or below the measured pieces left, an index or a
+        measured index is out of range, the file changed since it was read
+        (``expect_sha256``), or the file does not load; the file is untouched.
+    """
+    changes = list(changes)
+
+    def transform(before: bytes) -> bytes:
+        import tomlkit
+        bom, text = _text_of(before, path)
+        stock = _check_loads(text, path, "the stock file has problems")
+        merged: dict[tuple[str, int], list] = {}
+        for ch in changes:
+            if ch.kind not in KINDS:
+                raise StockEditError(f"{path}: unknown kind '{ch.kind}'; use one of "
+                                     f"{', '.join(KINDS)}; nothing was written")
+            lines = stock.lines(ch.kind)
+            if not isinstance(ch.index, int) or not 0 <= ch.index < len(lines):
+                raise StockEditError(f"{path}: there is no {ch.kind} number {ch.index} (the file "
+                                     f"has {len(lines)}); nothing was written")
+            slot = merged.setdefault((ch.kind, ch.index), [0, []])
+            slot[0] += int(ch.delta)
+            slot[1].extend(ch.remove_measured)
+        doc = tomlkit.parse(text)
+        for (kind, index), (delta, removed) in merged.items():
+            item = stock.lines(kind)[index]
+            measured = getattr(item, "measured", ())
+            if len(set(removed)) != len(removed) or any(
+                    not isinstance(i, int) or not 0 <= i < len(measured) for i in removed):
+                raise StockEditError(f"{path}: {_describe(item)} has {len(measured)} measured "
+                                     f"pieces; cannot remove {sorted(removed)}; nothing was "
+                                     "written")
+            new_qty = item.qty + delta
+            if new_qty < 0:
+                raise StockEditError(f"{path}: {_describe(item)} has qty {item.qty}; taking "
+                                     f"{-delta} would go below zero; nothing was written")
+            left = len(measured) - len(removed)
+            if new_qty < left:
+                raise StockEditError(f"{path}: {_describe(item)} would keep {left} measured "
+                                     f"pieces with qty {new_qty}; remove measured pieces too; "
+                                     "nothing was written")
+            table = doc[kind][index]
+            if delta:
+                table["qty"] = new_qty
+            if removed:
+                arr = table["measured"]
+                for i in sorted(removed, reverse=True):
+                    del arr[i]
+        after_text = tomlkit.dumps(doc)
+        _check_loads(after_text, path, "the edit would leave the file unreadable")
+        return (bom + after_text).encode("utf-8")
+
+    return _edit(path, transform, expect_sha256)
+
+
+def _toml_value(value) -> str:
+    import tomlkit
+    return tomlkit.item(value).as_string()
+
+
+def add_line(path, kind: str, fields: dict, *, expect_sha256: str | None = None) -> EditResult:
+    """Append a new ``[[kind]]`` table with ``fields`` at the end of the file.
+
+    The bytes already in the file stay as they are; the new entry must load without
+    errors (same rules as the loader), else ``StockEditError`` and nothing is written.
+    """
+    if kind not in KINDS:
+        raise StockEditError(f"{path}: unknown kind '{kind}'; use one of {', '.join(KINDS)}")
+    fields = dict(fields)
+
+    def transform(before: bytes) -> bytes:
+        bom, text = _text_of(before, path)
+        stock = _check_loads(text, path, "the stock file has problems")
+        nl = "\r\n" if "\r\n" in text else "\n"
+        body = [f"[[{kind}]]"] + [f"{k} = {_toml_value(v)}" for k, v in fields.items()]
+        lead = ""
+        if text and not text.endswith(("\n", "\r")):
+            lead = nl
+        if text.strip():
+            lead += nl
+        after_text = text + lead + nl.join(body) + nl
+        new = _check_loads(after_text, path, f"the new {kind} line is not valid")
+        if len(new.lines(kind)) != len(stock.lines(kind)) + 1:
+            raise StockEditError(f"{path}: the new {kind} line could not be appended (is "
+                                 f"{kind} written as an inline array?); nothing was written")
+        return (bom + after_text).encode("utf-8")
+
+    return _edit(path, transform, expect_sha256)
+
+
+def replace_bytes(path, content: bytes, *, expect_sha256: str) -> EditResult:
+    """Put ``content`` back as the whole file (undo), with the same lock and atomic write."""
+    content = bytes(content)
+    return _edit(path, lambda before: content, expect_sha256)
+
+
+__all__ = ["EditResult", "QtyChange", "StockChangedError", "add_line", "apply_changes", "locked", "replace_bytes"]
