@@ -29,8 +29,12 @@ def _reference_db(mag_db: np.ndarray, reference) -> float:
     return float(20.0 * np.log10(reference))
 
 
-def corner_hz(freqs_hz, h, *, level_db: float = -3.0, reference="auto") -> float:
-    """Frequency where |H| first falls ``level_db`` (negative) below the passband reference,
+HALF_POWER_DB = -10.0 * np.log10(2.0)   # "-3 dB" exactly: half the power, |H| = 1/sqrt(2)
+
+
+def corner_hz(freqs_hz, h, *, level_db: float = HALF_POWER_DB, reference="auto") -> float:
+    """Frequency where |H| first falls ``level_db`` (negative; default the half-power level
+    -3.0103 dB) below the passband reference,
     searching from the passband end of the grid (the end with the larger magnitude: low
     end for a low-pass, high end for a high-pass). ``reference``: "auto" (that end's
     magnitude), "peak" (the largest magnitude) or a magnitude. Interpolated linearly in dB

@@ -25,8 +25,6 @@ from picker.filters.base import Element
 
 def step_response(elements: Sequence[Element], t_s, *, gbw_hz: float | None = None) -> np.ndarray:
     """Output voltage for a 1 V input step, on a uniform time grid ``t_s`` (seconds)."""
-    from scipy.linalg import lu_factor, lu_solve
-
     from picker.analysis.nodal import build_system
 
     t = np.asarray(t_s, dtype=float)
@@ -38,13 +36,19 @@ def step_response(elements: Sequence[Element], t_s, *, gbw_hz: float | None = No
         raise DesignError("the time grid must be uniform and increasing")
     system = build_system(elements, gbw_hz=gbw_hz)
     G, C, b = system.G, system.C, system.b
+    try:
+        first = np.linalg.solve(G + C / h, b)                 # backward Euler from rest
+        step = np.linalg.inv(G + 1.5 * C / h)
+    except np.linalg.LinAlgError:
+        raise DesignError("the netlist cannot be solved (a floating node or a loop of "
+                          "ideal op amps)") from None
+    # BDF2: (G + 3C/2h) x[n] = C (2 x[n-1] - x[n-2] / 2) / h + b, as fixed matrices
+    p, q, r = step @ C * (2.0 / h), step @ C * (-0.5 / h), step @ b
     y = np.zeros(len(t))
-    x_prev2 = np.zeros(len(b))
-    x_prev = lu_solve(lu_factor(G + C / h), C @ x_prev2 / h + b)     # backward Euler
-    y[1] = x_prev[system.out]
-    lu = lu_factor(G + 1.5 * C / h)
+    x_prev2, x_prev = np.zeros(len(b)), first
+    y[1] = first[system.out]
     for n in range(2, len(t)):
-        x = lu_solve(lu, C @ (2.0 * x_prev - 0.5 * x_prev2) / h + b)
+        x = p @ x_prev + q @ x_prev2 + r
         x_prev2, x_prev = x_prev, x
         y[n] = x[system.out]
     return y
