@@ -29,7 +29,7 @@ from picker.errors import DesignError
 from picker.export.bom import designator
 from picker.export.design_file import SavedDesign
 
-OPEN_LOOP_GAIN = 2e5        # typical DC open-loop gain of a general-purpose op amp (common practice)
+OPEN_LOOP_GAIN = 2e5   # DC open-loop gain of a general-purpose op amp (common practice)
 GM = 1e-3                   # transconductance of the macro-model's input stage, siemens
 POINTS_PER_DECADE = 50
 

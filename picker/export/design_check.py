@@ -1,0 +1,194 @@
+"""Checks of a saved design document, key by key (the layout is in ``design_file``).
+
+Every error is a DesignError that names the file and the dotted key
+(``candidate.stage[0].position[1].part[0].kind``) and quotes the bad value.
+"""
+
+from __future__ import annotations
+
+import math
+from pathlib import Path
+from types import MappingProxyType
+
+from picker.errors import DesignError
+from picker.export.design_file import (
+    ARRANGEMENTS, FORMAT, KINDS, SavedDesign, SavedOpAmp, SavedPart, SavedPosition, SavedStage,
+)
+from picker.parts import StageTarget, combine
+
+
+def check_document(doc: dict, *, source: str = "<design>", path=None) -> SavedDesign:
+    """Check a parsed design document (see ``design_file``) and build the SavedDesign."""
+    r = _Reader(source)
+    fmt = r.get(doc, "format", int, "")
+    if fmt != FORMAT:
+        raise DesignError(f"{source}: format: this picker reads design format {FORMAT}, "
+                          f"the file says {fmt!r}")
+    request = r.get(doc, "request", dict, "", default={})
+    stock_t = r.get(doc, "stock", dict, "", default={})
+    stock_path = r.get(stock_t, "path", str, "stock.", default=None)
+    stock_sha = r.get(stock_t, "sha256", str, "stock.", default=None)
+    cand = r.get(doc, "candidate", dict, "")
+    score = r.number(cand, "score", "candidate.")
+    pieces = r.get(cand, "pieces", int, "candidate.")
+    warnings = r.get(cand, "warnings", list, "candidate.", default=[])
+    opamp = None
+    if "opamp" in cand:
+        opamp = _read_opamp(r, r.get(cand, "opamp", dict, "candidate."))
+    stage_list = r.get(cand, "stage", list, "candidate.")
+    if not stage_list:
+        raise DesignError(f"{source}: candidate.stage: a design needs at least one stage")
+    stages = tuple(_read_stage(r, st, f"candidate.stage[{i}].")
+                   for i, st in enumerate(stage_list))
+    counted = sum(len(p.parts) for st in stages for p in st.positions)
+    if counted != pieces:
+        raise DesignError(f"{source}: candidate.pieces: says {pieces} but the stages hold "
+                          f"{counted} pieces")
+    seen: dict[tuple, str] = {}
+    for i, st in enumerate(stages):
+        for pos in st.positions:
+            for part in pos.parts:
+                if part.measured is None:
+                    continue
+                key = (part.kind, part.index, part.measured)
+                where = f"stage {i + 1} {pos.name}"
+                if key in seen:
+                    raise DesignError(f"{source}: measured piece {part.measured} of "
+                                      f"{part.kind} line {part.index} is used twice "
+                                      f"({seen[key]} and {where})")
+                seen[key] = where
+    return SavedDesign(
+        path=None if path is None else Path(path), request=MappingProxyType(dict(request)),
+        score=score, pieces=pieces, stages=stages, opamp=opamp,
+        warnings=tuple(str(w) for w in warnings),
+        stock_path=None if stock_path is None else Path(stock_path), stock_sha256=stock_sha,
+        saved=r.get(doc, "saved", str, "", default=None), format=fmt)
+
+
+def _read_opamp(r: "_Reader", t: dict) -> SavedOpAmp:
+    pre = "candidate.opamp."
+    gbw = r.number(t, "gbw_hz", pre)
+    if not gbw > 0:
+        raise DesignError(f"{r.source}: {pre}gbw_hz: must be above zero, got {gbw!r}")
+    return SavedOpAmp(index=r.index(t, "index", pre), name=r.get(t, "name", str, pre),
+                      gbw_hz=gbw, line=r.get(t, "line", int, pre, default=0),
+                      channels=max(1, r.get(t, "channels", int, pre, default=1)),
+                      location=r.get(t, "location", str, pre, default=None),
+                      supply=r.number(t, "supply", pre, default=None))
+
+
+def _read_target(r: "_Reader", t: dict, pre: str) -> StageTarget:
+    f0 = r.number(t, "f0_hz", pre)
+    if not f0 > 0:
+        raise DesignError(f"{r.source}: {pre}f0_hz: must be above zero, got {f0!r}")
+    return StageTarget(f0_hz=f0, q=r.number(t, "q", pre, default=None),
+                       gain=r.number(t, "gain", pre, default=None))
+
+
+def _read_stage(r: "_Reader", st, pre: str) -> SavedStage:
+    if not isinstance(st, dict):
+        raise DesignError(f"{r.source}: {pre[:-1]}: expected a table")
+    topology = r.get(st, "topology", str, pre)
+    target = _read_target(r, r.get(st, "target", dict, pre), pre + "target.")
+    achieved = _read_target(r, r.get(st, "achieved", dict, pre), pre + "achieved.")
+    plist = r.get(st, "position", list, pre)
+    positions = tuple(_read_position(r, p, f"{pre}position[{j}].") for j, p in enumerate(plist))
+    names = [p.name for p in positions]
+    for n in names:
+        if names.count(n) > 1:
+            raise DesignError(f"{r.source}: {pre}position: {n!r} appears twice")
+    return SavedStage(topology=topology, target=target, achieved=achieved, positions=positions)
+
+
+def _read_position(r: "_Reader", p, pre: str) -> SavedPosition:
+    if not isinstance(p, dict):
+        raise DesignError(f"{r.source}: {pre[:-1]}: expected a table")
+    name = r.get(p, "name", str, pre)
+    arrangement = r.get(p, "arrangement", str, pre)
+    if arrangement not in ARRANGEMENTS:
+        raise DesignError(f"{r.source}: {pre}arrangement: {arrangement!r} is not one of "
+                          + ", ".join(ARRANGEMENTS))
+    plist = r.get(p, "part", list, pre)
+    parts = tuple(_read_part(r, x, f"{pre}part[{k}].") for k, x in enumerate(plist))
+    want = 1 if arrangement == "single" else 2
+    if len(parts) != want:
+        raise DesignError(f"{r.source}: {pre}part: a {arrangement} position holds {want} "
+                          f"piece(s), found {len(parts)}")
+    if len({x.kind for x in parts}) != 1:
+        raise DesignError(f"{r.source}: {pre}part: the pieces of one position differ in kind")
+    value = r.number(p, "value", pre)
+    combined = combine(parts[0].kind, arrangement, [x.value for x in parts])
+    if not math.isclose(value, combined, rel_tol=1e-6):
+        raise DesignError(f"{r.source}: {pre}value: {value!r} does not match its pieces "
+                          f"({combined!r})")
+    return SavedPosition(name=name, arrangement=arrangement, value=value, parts=parts)
+
+
+def _read_part(r: "_Reader", x, pre: str) -> SavedPart:
+    if not isinstance(x, dict):
+        raise DesignError(f"{r.source}: {pre[:-1]}: expected a table")
+    kind = r.get(x, "kind", str, pre)
+    if kind not in KINDS:
+        raise DesignError(f"{r.source}: {pre}kind: {kind!r} is not resistor or capacitor")
+    values = {}
+    for key in ("nominal", "value"):
+        v = r.number(x, key, pre)
+        if not (v > 0 and math.isfinite(v)):
+            raise DesignError(f"{r.source}: {pre}{key}: must be a positive number, got {v!r}")
+        values[key] = v
+    tol = r.number(x, "tolerance", pre)
+    if not 0 <= tol < 1:
+        raise DesignError(f"{r.source}: {pre}tolerance: {tol!r} is not a fraction in [0, 1)")
+    measured = x.get("measured")
+    if measured is not None:
+        measured = r.index(x, "measured", pre)
+    return SavedPart(kind=kind, index=r.index(x, "index", pre),
+                     line=r.get(x, "line", int, pre, default=0),
+                     nominal=values["nominal"], value=values["value"], tolerance=tol,
+                     measured=measured, location=r.get(x, "location", str, pre, default=None),
+                     dielectric=r.get(x, "dielectric", str, pre, default=None),
+                     polarized=r.get(x, "polarized", bool, pre, default=False),
+                     voltage=r.number(x, "voltage", pre, default=None))
+
+
+_MISSING = object()
+
+
+class _Reader:
+    """Typed look-ups whose errors name the file and the dotted key."""
+
+    def __init__(self, source: str):
+        self.source = source
+
+    def get(self, table: dict, key: str, typ, prefix: str, default=_MISSING):
+        if key not in table:
+            if default is _MISSING:
+                raise DesignError(f"{self.source}: {prefix}{key}: missing")
+            return default
+        value = table[key]
+        ok = isinstance(value, typ) and not (typ is int and isinstance(value, bool))
+        if not ok:
+            raise DesignError(f"{self.source}: {prefix}{key}: expected {_TYPE_WORDS[typ]}, "
+                              f"got {value!r}")
+        return value
+
+    def number(self, table: dict, key: str, prefix: str, default=_MISSING):
+        if key not in table:
+            if default is _MISSING:
+                raise DesignError(f"{self.source}: {prefix}{key}: missing")
+            return default
+        value = table[key]
+        if isinstance(value, bool) or not isinstance(value, (int, float)) \
+                or not math.isfinite(value):
+            raise DesignError(f"{self.source}: {prefix}{key}: expected a number, got {value!r}")
+        return float(value)
+
+    def index(self, table: dict, key: str, prefix: str) -> int:
+        value = self.get(table, key, int, prefix)
+        if value < 0:
+            raise DesignError(f"{self.source}: {prefix}{key}: must be 0 or more, got {value}")
+        return value
+
+
+_TYPE_WORDS = {int: "a whole number", str: "text", dict: "a table", list: "an array",
+               bool: "true or false", float: "a number"}
