@@ -9,6 +9,9 @@ returns the quantity changes and the pick list for the confirmation. ``do_build`
 makes the changes with the safe edit of ``stock.file`` and records the build in
 ``stock.ledger``; ``undo_last`` puts the bytes from before the last build back, but
 only while the file is exactly as that build left it.
+
+A build takes the design's resistor and capacitor pieces and its op-amp packages (one
+channel per stage, ``ceil(stages / channels)`` packages), so the stock count stays right.
 """
 
 from __future__ import annotations
@@ -82,7 +85,8 @@ def plan_build(design: SavedDesign, stock) -> BuildPlan:
     changes = []
     summary = []
     cautions = []
-    for (kind, index), u in sorted(uses.items()):
+    order = {"resistor": 0, "capacitor": 1}
+    for (kind, index), u in sorted(uses.items(), key=lambda kv: (order[kv[0][0]], kv[0][1])):
         part = u["part"]
         want = f"{kind} line {index} ({_fmt(part.nominal, kind)} in {part.location or '-'})"
         lines = stock.lines(kind)

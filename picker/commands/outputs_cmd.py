@@ -11,7 +11,6 @@ Heavy imports (rich, the export package) happen inside ``run`` functions.
 from __future__ import annotations
 
 import argparse
-import os
 import sys
 from pathlib import Path
 
@@ -137,6 +136,7 @@ def run_build(args) -> int:
         _err(f"note: taking from {stock_path}, the stock the design was saved from")
     else:
         stock_path = Path(stock_arg)
+    _refuse_sample(stock_path)
     stock = load(stock_path)
     plan = plan_build(design, stock)
     console = _console()
@@ -160,16 +160,23 @@ def run_build(args) -> int:
     return 0
 
 
-def run_undo(args) -> int:
-    from picker.building import undo_last, undo_preview
+def _refuse_sample(stock_path) -> None:
+    from picker.commands.common import is_bundled_sample
     from picker.errors import DesignError
 
-    stock_arg = getattr(args, "stock", None) or os.environ.get("PICKER_STOCK")
-    if stock_arg is None:
-        if not Path("inventory.toml").is_file():
-            raise DesignError("undo needs the stock file: pass --stock FILE")
-        stock_arg = "inventory.toml"
-    stock_path = Path(stock_arg)
+    if is_bundled_sample(stock_path):
+        raise DesignError(f"{stock_path} is the bundled sample, which picker does not change; "
+                          "copy it to ./inventory.toml (or your own file) and pass --stock")
+
+
+def run_undo(args) -> int:
+    from picker.building import undo_last, undo_preview
+    from picker.commands.common import resolve_stock_path
+
+    stock_path, note = resolve_stock_path(getattr(args, "stock", None))
+    _refuse_sample(stock_path)
+    if note:
+        _err(f"note: {note}")
     record = undo_preview(stock_path)
     console = _console()
     console.print(f"Last build on {stock_path}: number {record.number}, {record.time}"

@@ -236,3 +236,19 @@ def test_cli_bom_csv_and_netlist(tmp_path, stock_file, capsys):
     assert main(["bom", str(tmp_path / "missing.toml")]) == 2
     assert "missing.toml: cannot read" in capsys.readouterr().err
 
+
+
+def test_cli_build_defaults_to_the_design_stock(tmp_path, stock_file, capsys):
+    _design(tmp_path, stock_file)
+    assert main(["build", str(tmp_path / "design.toml"), "--yes"]) == 0
+    assert f"taking from {stock_file.resolve()}" in capsys.readouterr().err
+    assert load(stock_file).resistors[2].qty == 2
+
+
+def test_cli_never_writes_the_bundled_sample(tmp_path, capsys):
+    from picker.commands.common import bundled_sample_path
+    sample = bundled_sample_path()
+    before = sample.read_bytes()
+    assert main(["undo", "--stock", str(sample), "--yes"]) == 2
+    assert "bundled sample" in capsys.readouterr().err
+    assert sample.read_bytes() == before
