@@ -81,7 +81,7 @@ def spice_netlist(design: SavedDesign) -> str:
     for s, stage in enumerate(design.stages, start=1):
         try:
             topology = get_topology(stage.topology)
-        except (KeyError, LookupError) as exc:
+        except (KeyError, LookupError, DesignError) as exc:
             raise DesignError(f"stage {s}: unknown topology {stage.topology!r}") from exc
         t = stage.target
         what = f"f0 {t.f0_hz:.6g} Hz" + (f", Q {t.q:.4g}" if t.q is not None else "") \

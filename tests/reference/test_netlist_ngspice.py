@@ -2,7 +2,7 @@
 
 ngspice is the outside reference: it solves the netlist on its own, so the gain and the
 -3 dB frequency it reports check both the netlist (nodes, pairs, cascade) and the op-amp
-macro-model against the textbook formulas named beside each check.
+macro-model against the standard formulas named beside each check.
 """
 
 from __future__ import annotations
@@ -134,3 +134,79 @@ def test_opamp_macro_model_follower_bandwidth_is_gbw(tmp_path):
                          ("C1", Arrangement("single", (Piece(c, 100e-12, 0.05),)))))
     f, mag = run_ngspice(_export(tmp_path, Candidate(0.0, 2, (stage,), oa), stock), tmp_path)
     assert minus_3db(f, mag, mag[0]) == pytest.approx(gbw, rel=0.01)
+
+
+# ---------------------------------------------------------------- whole filters vs scipy.signal
+
+def ideal_candidate(stages, gbw_hz=1e9):
+    """A candidate whose every position holds one piece of exactly the synthesized value."""
+    resistors, capacitors, choices = [], [], []
+    for topology, target in stages:
+        values = topology.synthesize(target)
+        positions = []
+        for spec in topology.positions:
+            pool = resistors if spec.kind == "resistor" else capacitors
+            cls = Resistor if spec.kind == "resistor" else Capacitor
+            line = cls(values[spec.name], 1, 0.01, False, location=f"D{len(pool)}",
+                       index=len(pool), line=1 + len(pool))
+            pool.append(line)
+            positions.append((spec.name, Arrangement("single", (Piece(line, line.value,
+                                                                      0.01),))))
+        choices.append(StageChoice(topology.key, target, target, tuple(positions)))
+    oa = OpAmp("fast single", gbw_hz, len(stages), location="IC", index=0, line=99)
+    stock = Stock(tuple(resistors), tuple(capacitors), (oa,))
+    pieces = sum(len(c.positions) for c in choices)
+    return Candidate(0.0, pieces, tuple(choices), oa), stock
+
+
+def _shape_spread(f, mag, h_ref):
+    """max/min of |H_spice| / |H_ref| over the band within 40 dB of the reference peak."""
+    ref = np.abs(h_ref)
+    keep = ref > ref.max() * 1e-2
+    ratio = mag[keep] / ref[keep]
+    return ratio.max() / ratio.min()
+
+
+@pytest.mark.parametrize("kind, response, order, family, make", [
+    ("lowpass", "butterworth", 4, "sallen-key",
+     lambda w: __import__("scipy.signal").signal.butter(4, w, analog=True)),
+    ("lowpass", "chebyshev", 5, "mfb",
+     lambda w: __import__("scipy.signal").signal.cheby1(5, 1.0, w, analog=True)),
+    ("highpass", "butterworth", 3, "sallen-key",
+     lambda w: __import__("scipy.signal").signal.butter(3, w, btype="high", analog=True)),
+    ("highpass", "bessel", 4, "mfb",
+     lambda w: __import__("scipy.signal").signal.bessel(4, w, btype="high", analog=True,
+                                                        norm="mag")),
+])
+def test_cascade_shape_matches_scipy(tmp_path, kind, response, order, family, make):
+    """The exported cascade, solved by ngspice, has the shape scipy.signal gives for the
+    same prototype (fc = -3 dB for Butterworth and Bessel norm="mag", ripple edge for
+    Chebyshev, DESIGN.md section 6): |H_spice / H_scipy| constant within 1 %."""
+    from scipy.signal import freqs
+
+    from picker.filters import plan_stages
+    fc = 1000.0
+    stages = plan_stages(kind, response=response, order=order, fc_hz=fc, gain=2.0,
+                         ripple_db=1.0, family=family)
+    cand, stock = ideal_candidate(stages)
+    f, mag = run_ngspice(_export(tmp_path, cand, stock), tmp_path)
+    b, a = make(2 * np.pi * fc)
+    _, h = freqs(b, a, worN=2 * np.pi * f)
+    assert _shape_spread(f, mag, h) == pytest.approx(1.0, abs=0.01)
+
+
+def test_mfb_bandpass_centre_and_q(tmp_path):
+    """Second-order band-pass H = (w0/Q) s / (s^2 + (w0/Q) s + w0^2) (common practice):
+    the exported MFB stage has that shape and its peak at f0."""
+    from scipy.signal import freqs
+
+    from picker.filters import plan_stages
+    f0, q = 2000.0, 5.0
+    stages = plan_stages("bandpass", fc_hz=f0, q=q, gain=1.0, order=None)
+    cand, stock = ideal_candidate(stages)
+    f, mag = run_ngspice(_export(tmp_path, cand, stock), tmp_path)
+    w0 = 2 * np.pi * f0
+    _, h = freqs([w0 / q, 0.0], [1.0, w0 / q, w0 * w0], worN=2 * np.pi * f)
+    assert _shape_spread(f, mag, h) == pytest.approx(1.0, abs=0.01)
+    peak = f[int(np.argmax(mag))]
+    assert peak == pytest.approx(f0, rel=0.05)        # 50 points per decade: 4.7 % apart
