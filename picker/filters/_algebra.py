@@ -27,6 +27,11 @@ def value(values: Mapping[str, np.ndarray | float], name: str) -> np.ndarray:
     return np.asarray(raw, dtype=float)
 
 
+def unity_like(x):
+    """Gain 1 shaped like ``x`` (a float for scalar input, not a 0-d array)."""
+    return x * 0.0 + 1.0
+
+
 def second_order(b0, b1):
     """(f0_hz, q) of ``b0 s^2 + b1 s + 1``; q <= 0 or inf marks an unstable or lossless stage."""
     with np.errstate(divide="ignore", invalid="ignore"):

@@ -12,8 +12,6 @@ References
 
 from __future__ import annotations
 
-import numpy as np
-
 from picker.filters import _algebra as al
 from picker.filters.base import Element, PositionSpec, Topology, register
 
@@ -31,7 +29,7 @@ class NonInvertingHighpass(Topology):
     )
 
     def _gain(self, values):
-        return np.ones_like(al.value(values, "R1"))
+        return al.unity_like(al.value(values, "R1"))
 
     def characteristics(self, values):
         r1, c1 = al.value(values, "R1"), al.value(values, "C1")

@@ -19,8 +19,6 @@ from __future__ import annotations
 
 import math
 
-import numpy as np
-
 from picker.filters import _algebra as al
 from picker.filters.base import Element, PositionSpec, Topology, register
 
@@ -40,7 +38,7 @@ class SallenKeyHighpass(Topology):
     )
 
     def _k(self, values):
-        return np.ones_like(al.value(values, "R1"))
+        return al.unity_like(al.value(values, "R1"))
 
     def characteristics(self, values):
         r1, r2, c1, c2 = (al.value(values, n) for n in ("R1", "R2", "C1", "C2"))

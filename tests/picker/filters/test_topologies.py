@@ -186,3 +186,13 @@ def test_bad_targets(key, target, match):
 def test_missing_value_is_named():
     with pytest.raises(DesignError, match="position 'C2' is missing"):
         get_topology("sallen-key-lowpass").characteristics({"R1": 1e3, "R2": 1e3, "C1": 1e-9})
+
+
+@pytest.mark.parametrize("key", KEYS)
+def test_scalar_values_give_plain_floats(key):
+    # scalars in, floats out (np.float64 is a float: JSON and formatting take it as is)
+    topo = REGISTRY[key]
+    values = topo.synthesize(StageTarget(1000.0, None if topo.order == 1 else 1.0,
+                                         1.5 if topo.sets_gain else None))
+    for x in topo.characteristics(values):
+        assert x is None or isinstance(x, float)
