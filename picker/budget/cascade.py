@@ -19,6 +19,7 @@ import numpy as np
 
 HALF_POWER_DB = -10.0 * np.log10(2.0)      # -3.0103 dB
 TRIAL_POINTS = 121
+REFINE_STEPS = 2
 
 
 def _kind(chars) -> str:
@@ -27,30 +28,49 @@ def _kind(chars) -> str:
 
 
 def magnitude_db(chars, freqs: np.ndarray) -> np.ndarray:
-    """|H| in dB of the cascade, shape ``(trials, len(freqs))``."""
+    """|H| in dB of the cascade, shape ``(trials, len(freqs))``; ``freqs`` is one grid for
+    all trials, or an array ``(trials, k)`` of frequencies per trial.
+
+    Real arithmetic on |H|^2 with u = f / f0 (|x|^2 = u^2, |x^2 + x/Q + 1|^2 =
+    (1 - u^2)^2 + (u/Q)^2), multiplied over the stages, one logarithm at the end.
+    """
+    freqs = np.asarray(freqs, dtype=float)
+    f = freqs[None, :] if freqs.ndim == 1 else freqs
     total = None
     for topology, f0, q, gain in chars:
-        x = 1j * freqs[None, :] / np.asarray(f0, dtype=float)[:, None]
-        g = np.asarray(gain, dtype=float)[:, None]
+        u2 = (f / np.asarray(f0, dtype=float)[:, None]) ** 2
+        g2 = np.asarray(gain, dtype=float)[:, None] ** 2
         if topology.order == 1:
-            num = x if topology.response_type == "highpass" else 1.0
-            h = g * num / (1.0 + x)
+            num = u2 if topology.response_type == "highpass" else 1.0
+            h2 = g2 * num / (1.0 + u2)
         else:
-            qq = np.asarray(q, dtype=float)[:, None]
-            num = {"lowpass": 1.0, "highpass": x * x, "bandpass": x / qq}[topology.response_type]
-            h = g * num / (x * x + x / qq + 1.0)
-        db = 20.0 * np.log10(np.abs(h))
-        total = db if total is None else total + db
-    return total
+            iq2 = 1.0 / np.asarray(q, dtype=float)[:, None] ** 2
+            num = {"lowpass": 1.0, "highpass": u2 * u2, "bandpass": u2 * iq2}[
+                topology.response_type]
+            h2 = g2 * num / ((1.0 - u2) ** 2 + u2 * iq2)
+        total = h2 if total is None else total * h2
+    return 10.0 * np.log10(total)
 
 
-def _crossing(freqs, db, i_lo, i_hi, level):
-    """log-f interpolation of ``level`` between grid columns i_lo and i_hi per row."""
+def _crossing(chars, freqs, db, i_lo, i_hi, level, *, iters=REFINE_STEPS):
+    """Frequency where the cascade's dB equals ``level`` between grid columns i_lo, i_hi.
+
+    Linear interpolation in log f, then ``iters`` steps of regula falsi on the exact
+    magnitude (each keeps the bracket), all trials at once.
+    """
     rows = np.arange(db.shape[0])
-    d0, d1 = db[rows, i_lo], db[rows, i_hi]
-    l0, l1 = np.log(freqs[i_lo]), np.log(freqs[i_hi])
-    frac = (level - d0) / np.where(d1 == d0, 1.0, d1 - d0)
-    return np.exp(l0 + (l1 - l0) * frac)
+    la, lb = np.log(freqs[i_lo]), np.log(freqs[i_hi])
+    da, dbb = db[rows, i_lo] - level, db[rows, i_hi] - level
+    for step in range(iters + 1):
+        frac = np.clip(-da / np.where(dbb == da, 1.0, dbb - da), 0.0, 1.0)
+        lc = la + (lb - la) * frac
+        if step == iters:
+            return np.exp(lc)
+        dc = magnitude_db(chars, np.exp(lc)[:, None])[:, 0] - level
+        same = np.sign(dc) == np.sign(da)
+        la, da = np.where(same, lc, la), np.where(same, dc, da)
+        lb, dbb = np.where(same, lb, lc), np.where(same, dbb, dc)
+    return np.exp(lc)
 
 
 def _quantity(chars, freqs, kind):
@@ -58,19 +78,23 @@ def _quantity(chars, freqs, kind):
     db = magnitude_db(chars, freqs)
     n = db.shape[0]
     nan = np.full(n, np.nan)
+    if kind in ("lowpass", "highpass"):
+        # passband maximum: the DC (HF) gain, or a ripple peak above it on the grid
+        ref = np.maximum(sum(20.0 * np.log10(np.abs(np.asarray(c[3], dtype=float)))
+                             for c in chars), db.max(axis=1))
     if kind == "lowpass":
-        ref = sum(20.0 * np.log10(np.abs(np.asarray(c[3], dtype=float))) for c in chars)
         below = db < ref[:, None] + HALF_POWER_DB
         i = np.argmax(below, axis=1)
         ok = below.any(axis=1) & (i > 0)
-        f = np.where(ok, _crossing(freqs, db, np.maximum(i - 1, 0), i, ref + HALF_POWER_DB), nan)
+        f = np.where(ok, _crossing(chars, freqs, db, np.maximum(i - 1, 0), i,
+                                   ref + HALF_POWER_DB), nan)
         return f, f, f
     if kind == "highpass":
-        ref = sum(20.0 * np.log10(np.abs(np.asarray(c[3], dtype=float))) for c in chars)
         above = db >= ref[:, None] + HALF_POWER_DB
         i = np.argmax(above, axis=1)
         ok = above.any(axis=1) & (i > 0)
-        f = np.where(ok, _crossing(freqs, db, np.maximum(i - 1, 0), i, ref + HALF_POWER_DB), nan)
+        f = np.where(ok, _crossing(chars, freqs, db, np.maximum(i - 1, 0), i,
+                                   ref + HALF_POWER_DB), nan)
         return f, f, f
     peak = db.max(axis=1)
     level = peak + HALF_POWER_DB
@@ -78,17 +102,18 @@ def _quantity(chars, freqs, kind):
     first = np.argmax(above, axis=1)
     last = db.shape[1] - 1 - np.argmax(above[:, ::-1], axis=1)
     ok = (first > 0) & (last < db.shape[1] - 1)
-    lo = np.where(ok, _crossing(freqs, db, np.maximum(first - 1, 0), first, level), nan)
-    hi = np.where(ok, _crossing(freqs, db, last, np.minimum(last + 1, db.shape[1] - 1), level),
+    lo = np.where(ok, _crossing(chars, freqs, db, np.maximum(first - 1, 0), first, level),
                   nan)
+    hi = np.where(ok, _crossing(chars, freqs, db, last,
+                                np.minimum(last + 1, db.shape[1] - 1), level), nan)
     return np.sqrt(lo * hi), lo, hi
 
 
 def cascade_frequency(chars, *, around: tuple[float, float] | None = None):
     """One frequency per trial for the cascade ``chars`` = [(topology, f0, q, gain), ...].
 
-    Low-pass or high-pass cascades: the -3 dB corner relative to the passband gain (the
-    product of the stage gains). Anything else: sqrt(f_lo f_hi) of the outer -3 dB edges
+    Low-pass or high-pass cascades: the -3 dB corner relative to the passband maximum (the
+    product of the stage gains, or the top of an even-order Chebyshev ripple). Anything else: sqrt(f_lo f_hi) of the outer -3 dB edges
     around the peak. ``around`` = (lower edge, upper edge) of the nominal design narrows
     the grid to a factor 2 outside them (trials beyond that give NaN); without it a wide
     grid spans the stage f0 values by a factor 30.

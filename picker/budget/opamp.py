@@ -1,15 +1,15 @@
 """What the real op amp does to a stage: finite gain-bandwidth, slew rate, input impedance.
 
-The stage's netlist is solved by nodal analysis (``picker.analysis.nodal_response``)
-once with the ideal op amp and once with the single-pole model of the chosen op amp
-(open-loop gain A(s) = GBW / (j f), the usual dominant-pole model). The effective f0, Q
-and gain are then fitted from each response near f0, so the shift is what the finite
-gain-bandwidth does to the same parts.
-
-Fit: 1/H is a polynomial in x = j f / f0 with real coefficients for every first- and
-second-order section (low-pass 2nd: 1/H = (1 + x/Q + x^2) / K, and alike), so a linear
-least-squares fit of those coefficients over 0.5..2 f0 gives f0, Q and K exactly for an
-ideal section and the best second-order (first-order) description otherwise.
+The stage's netlist goes through nodal analysis (``picker.analysis``) once with the
+ideal op amp and once with the single-pole model of the chosen op amp (open-loop gain
+A(s) = A0 / (1 + s/wp), A0 wp = 2 pi GBW, as ``picker.analysis`` models it). The
+effective f0 and Q come from the stage's dominant natural frequencies (the one or two
+poles of the netlist nearest the analytic f0; the op amp adds one far pole of its own):
+for a pair p1, p2, w0^2 = p1 p2 and w0 / Q = -(p1 + p2); for one real pole, w0 = -p.
+The effective gain is the response magnitude |H(j f0')| divided by the normalised
+section's magnitude at its own f0' (Q' for a second-order low- or high-pass, 1 for a
+band-pass, 1/sqrt(2) for a first-order stage). With the ideal op amp all three equal the
+analytic values; the shift is what the finite gain-bandwidth does to the same parts.
 
 References
 ----------
@@ -28,22 +28,17 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
-FIT_SPAN = (0.5, 2.0)
-FIT_POINTS = 41
 GBW_RULE_FACTOR = 100.0
 ZIN_SPAN = (0.01, 100.0)
 ZIN_POINTS = 61
-
-_EXPONENTS = {("lowpass", 2): (0, 1, 2), ("highpass", 2): (0, -1, -2),
-              ("bandpass", 2): (1, 0, -1), ("lowpass", 1): (0, 1), ("highpass", 1): (0, -1)}
 
 
 @dataclass(frozen=True)
 class OpampResult:
     name: str
     gbw_hz: float
-    ideal: tuple[float, float | None, float]        # fitted (f0_hz, q, gain), ideal op amp
-    real: tuple[float, float | None, float]         # fitted with the finite GBW
+    ideal: tuple[float, float | None, float]        # (f0_hz, q, gain), ideal op amp
+    real: tuple[float, float | None, float]         # the same with the finite GBW
     shift: tuple[float, float | None, float]        # relative: real / ideal - 1
     gbw_needed_hz: float                            # rule [3]
     slew: float | None                              # V/s
@@ -51,41 +46,37 @@ class OpampResult:
     full_power_hz: float | None                     # rule [2], None without slew or vout_peak
 
 
-def fit_section(freqs_hz, h, response_type: str, order: int, f0_guess_hz: float):
-    """(f0_hz, q or None, |gain|) of a section fitted to the response ``h`` (see module)."""
-    exps = _EXPONENTS[(response_type, order)]
-    x = 1j * np.asarray(freqs_hz, dtype=float) / f0_guess_hz
-    a = np.stack([x ** k for k in exps], axis=1)
-    y = 1.0 / np.asarray(h, dtype=complex)
-    c, *_ = np.linalg.lstsq(np.concatenate([a.real, a.imag]),
-                            np.concatenate([y.real, y.imag]), rcond=None)
-    cf = dict(zip(exps, c))
-    k = 1.0 / abs(cf[0])
+def _section_shape(response_type: str, order: int, q: float | None) -> float:
+    """|H| / gain of the normalised section at its own f0 (see the module docstring)."""
     if order == 1:
-        r = cf[0] / cf[1] if response_type == "lowpass" else cf[-1] / cf[0]
-        return float(r * f0_guess_hz), None, float(k)
-    if response_type == "lowpass":
-        r = np.sqrt(cf[0] / cf[2])
-        q = cf[0] / (cf[1] * r)
-    elif response_type == "highpass":
-        r = np.sqrt(cf[-2] / cf[0])
-        q = r * cf[0] / cf[-1]
+        return 1.0 / np.sqrt(2.0)
+    return 1.0 if response_type == "bandpass" else float(q)
+
+
+def effective(topology, values: dict[str, float], f0_hz: float, gbw_hz: float | None):
+    """(f0_hz, q or None, |gain|) of the stage from its dominant poles and its response.
+
+    ``f0_hz`` is the analytic f0, used to pick the dominant poles; ``gbw_hz`` None is the
+    ideal op amp.
+    """
+    from picker.analysis import nodal_response, poles
+    elements = topology.netlist(values)
+    lam = np.asarray(poles(elements, gbw_hz=gbw_hz), dtype=complex)
+    w0 = 2.0 * np.pi * f0_hz
+    near = lam[np.argsort(np.abs(np.log(np.abs(lam) / w0)))][:topology.order]
+    if topology.order == 1:
+        f0, q = float(-near[0].real) / (2.0 * np.pi), None
     else:
-        r = np.sqrt(cf[-1] / cf[1])
-        q = np.sqrt(cf[1] * cf[-1]) / abs(cf[0])
-    return float(r * f0_guess_hz), float(q), float(k)
+        prod, total = (near[0] * near[1]).real, (near[0] + near[1]).real
+        w = float(np.sqrt(prod))
+        f0, q = w / (2.0 * np.pi), float(w / -total)
+    h = nodal_response(elements, np.array([f0]), gbw_hz=gbw_hz)[0]
+    return f0, q, float(abs(h) / _section_shape(topology.response_type, topology.order, q))
 
 
 def _response(elements, freqs, gbw_hz):
     from picker.analysis import nodal_response
     return nodal_response(elements, freqs, gbw_hz=gbw_hz)
-
-
-def fitted(topology, values: dict[str, float], f0_hz: float, gbw_hz: float | None):
-    """Fit of the stage's nodal response near ``f0_hz``, ideal op amp when gbw_hz is None."""
-    freqs = np.geomspace(f0_hz * FIT_SPAN[0], f0_hz * FIT_SPAN[1], FIT_POINTS)
-    h = _response(topology.netlist(values), freqs, gbw_hz)
-    return fit_section(freqs, h, topology.response_type, topology.order, f0_hz)
 
 
 def gbw_needed(topology, f0_hz: float, q: float | None, gain: float) -> float:
@@ -97,8 +88,8 @@ def gbw_needed(topology, f0_hz: float, q: float | None, gain: float) -> float:
 def opamp_effects(topology, values, nominal, opamp, *, vout_peak=None) -> OpampResult:
     """Shift of f0, Q and gain by the op amp's finite GBW, and its slew-rate limit."""
     f0, q, gain = nominal
-    ideal = fitted(topology, values, f0, None)
-    real = fitted(topology, values, f0, float(opamp.gbw))
+    ideal = effective(topology, values, f0, None)
+    real = effective(topology, values, f0, float(opamp.gbw))
     shift = tuple(None if (a is None or b is None) else b / a - 1.0 for a, b in zip(ideal, real))
     fp = None
     if opamp.slew is not None and vout_peak is not None and vout_peak > 0:

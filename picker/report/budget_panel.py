@@ -21,15 +21,20 @@ BARS = " ▁▂▃▄▅▆▇█"
 HIST_ROWS = 4
 
 
+def _p(x: float) -> str:
+    """A signed percentage number: two decimals below 10 %, one above."""
+    return f"{x:+.2f}" if abs(x) < 9.995 else f"{x:+.1f}"
+
+
 def _pct(x: float | None) -> str:
-    return "-" if x is None else f"{x * 100:+.2f} %"
+    return "-" if x is None else f"{_p(x * 100)} %"
 
 
 def _span(r, ref: float | None) -> str:
-    """A range relative to ``ref`` as '-1.2 .. +3.4 %'."""
+    """A range relative to ``ref`` as '-1.23..+3.45 %'."""
     if r is None or not ref:
         return "-"
-    return f"{(r[0] / ref - 1) * 100:+.2f} .. {(r[1] / ref - 1) * 100:+.2f} %"
+    return f"{_p((r[0] / ref - 1) * 100)}..{_p((r[1] / ref - 1) * 100)} %"
 
 
 def _num(x: float | None, unit: str = "") -> str:
@@ -74,7 +79,7 @@ class BudgetPanel:
         t, a = s.target, s.achieved
         table.add_row("target", _num(t.f0_hz, "Hz"), _num(t.q), _num(t.gain))
         table.add_row("achieved", _num(a.f0_hz, "Hz"), _num(a.q), _num(a.gain))
-        table.add_row("value error", *(_pct(e) for e in s.value_error))
+        table.add_row("value err", *(_pct(e) for e in s.value_error))
         tol = s.tolerance
         table.add_row("tolerance", _span(tol.f0, t.f0_hz), _span(tol.q, t.q),
                       _span(tol.gain, t.gain))
@@ -91,12 +96,12 @@ class BudgetPanel:
         if len(self.budget.monte_carlo.stage_yield) > 1:
             text.append(f"alone {self.budget.monte_carlo.stage_yield[s.index] * 100:.1f} % "
                         "inside the window; ")
-        text.append(f"tolerance vs target: {s.tolerance.method}; temperature vs achieved "
-                    "at 25 C")
+        text.append("tolerance vs target, temperature vs achieved at 25 C")
         assumed = [d.label for d in s.temperature.pieces if d.assumed]
         if assumed:
             text.append(f"; tempco assumed for {', '.join(assumed)}")
         if not self.compact:
+            text.append(f"\ntolerance: {s.tolerance.method}")
             sens = "  ".join(f"{n}:{sf:+.2f}" + ("" if sq is None else f"/{sq:+.2f}")
                              for n, sf, sq, _ in s.tolerance.sensitivities)
             text.append(f"\nsensitivity f0/Q: {sens}")
