@@ -145,6 +145,30 @@ def cascade_response(stages: Sequence[Sequence[Element]], freqs_hz, gbw_hz: floa
     return h
 
 
+def cascade_group_delay_s(stages: Sequence[Sequence[Element]], freqs_hz,
+                          gbw_hz: float | None = None, *, a0: float = A0_DEFAULT) -> np.ndarray:
+    """Group delay of a cascade: the sum of the stages' group delays (phases add)."""
+    f = _freqs(freqs_hz)
+    return sum((group_delay_s(el, f, gbw_hz=gbw_hz, a0=a0) for el in stages),
+               np.zeros(len(f)))
+
+
+def chain(stages: Sequence[Sequence[Element]]) -> list[Element]:
+    """One netlist for a cascade: stage k runs from node "s{k}" to "s{k+1}" (the first
+    from "in", the last to "out"); inner nodes become "k{k}.{name}" and element names
+    "{name}.{k}". Each stage is driven by an op amp output, so this is exactly the
+    cascade (use it for the step response of a whole filter)."""
+    last = len(stages) - 1
+    out: list[Element] = []
+    for k, elements in enumerate(stages):
+        ends = {"0": "0", "in": "in" if k == 0 else f"s{k}",
+                "out": "out" if k == last else f"s{k + 1}"}
+        for el in elements:
+            nodes = tuple(ends.get(n, f"k{k}.{n}") for n in el.nodes)
+            out.append(Element(el.kind, f"{el.name}.{k + 1}", nodes, el.value))
+    return out
+
+
 def poles(elements: Sequence[Element], *, gbw_hz: float | None = None,
           a0: float = A0_DEFAULT) -> np.ndarray:
     """Finite natural frequencies (rad/s) of the netlist: generalized eigenvalues of
