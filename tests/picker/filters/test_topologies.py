@@ -196,3 +196,26 @@ def test_scalar_values_give_plain_floats(key):
                                          1.5 if topo.sets_gain else None))
     for x in topo.characteristics(values):
         assert x is None or isinstance(x, float)
+
+
+@pytest.mark.parametrize("key", ["sallen-key-lowpass", "sallen-key-lowpass-gain",
+                                 "sallen-key-highpass", "sallen-key-highpass-gain",
+                                 "mfb-lowpass"])
+def test_round_trip_with_a_chosen_capacitor_ratio(key):
+    topo = REGISTRY[key]
+
+    @settings(max_examples=60, deadline=None)
+    @given(target=_target_strategy(topo), spread=st.floats(1.0, 50.0))
+    def check(target, spread):
+        k = 1.0 if target.gain is None else target.gain
+        if key.startswith("sallen-key-lowpass") or key == "mfb-lowpass":
+            ratio = spread * topo.min_ratio(target.q, k)      # at or above the minimum
+        else:
+            ratio = spread / 7.0          # any positive ratio works for the high-pass
+        values = topo.synthesize(target, ratio=ratio)
+        assert all(v > 0 for v in values.values())
+        f0, q, gain = topo.characteristics(values)
+        assert (f0, q, gain) == (pytest.approx(target.f0_hz, rel=1e-9),
+                                 pytest.approx(target.q, rel=1e-9), pytest.approx(k, rel=1e-9))
+
+    check()
