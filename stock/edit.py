@@ -9,8 +9,10 @@ Every write:
    the new file. No lock file is left in the owner's folder.
 2. reads the bytes through the locked descriptor and refuses (``StockEditError``, file
    untouched) if their sha256 is not the one the caller read (``expect_sha256``);
-3. changes only what it must: a round trip through tomlkit keeps comments, order,
-   spacing and quoting byte for byte; the result must load without errors;
+3. changes only what it must: a qty change rewrites just its digits (checked by
+   loading the result); other edits go through tomlkit, a round-trip TOML editor that
+   keeps comments, order, spacing and quoting byte for byte; the result must load
+   without errors;
 4. writes a temporary file in the same folder, copies the mode (and owner where
    allowed), fsyncs it, renames it over the original and fsyncs the folder, so a
    crash leaves the old file or the new one, never a partial file.
@@ -24,13 +26,14 @@ import errno
 import fcntl
 import hashlib
 import os
+import re
 import tempfile
 from contextlib import contextmanager
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from pathlib import Path
 
 from stock.errors import StockEditError, StockFileError
-from stock.load import KINDS, loads
+from stock.load import KINDS, LineMap, loads
 from stock.values import format_rkm
 
 _BOM = "\ufeff"
@@ -186,6 +189,11 @@ def _describe(item) -> str:
 def apply_changes(path, changes, *, expect_sha256: str | None = None) -> EditResult:
     """Apply every ``QtyChange`` or none of them.
 
+    A change of qty alone rewrites just the digits on the entry's ``qty = N`` line
+    (found by the loader's line scan), then checks that the file loads to exactly the
+    stock expected; anything else (measured pieces removed, unusual layouts) goes
+    through a tomlkit round trip. Either way the result must load without errors.
+
     Raises
     ------
     StockEditError
@@ -196,51 +204,99 @@ def apply_changes(path, changes, *, expect_sha256: str | None = None) -> EditRes
     changes = list(changes)
 
     def transform(before: bytes) -> bytes:
-        import tomlkit
         bom, text = _text_of(before, path)
         stock = _check_loads(text, path, "the stock file has problems")
-        merged: dict[tuple[str, int], list] = {}
-        for ch in changes:
-            if ch.kind not in KINDS:
-                raise StockEditError(f"{path}: unknown kind '{ch.kind}'; use one of "
-                                     f"{', '.join(KINDS)}; nothing was written")
-            lines = stock.lines(ch.kind)
-            if not isinstance(ch.index, int) or not 0 <= ch.index < len(lines):
-                raise StockEditError(f"{path}: there is no {ch.kind} number {ch.index} (the file "
-                                     f"has {len(lines)}); nothing was written")
-            slot = merged.setdefault((ch.kind, ch.index), [0, []])
-            slot[0] += int(ch.delta)
-            slot[1].extend(ch.remove_measured)
-        doc = tomlkit.parse(text)
-        for (kind, index), (delta, removed) in merged.items():
-            item = stock.lines(kind)[index]
-            measured = getattr(item, "measured", ())
-            if len(set(removed)) != len(removed) or any(
-                    not isinstance(i, int) or not 0 <= i < len(measured) for i in removed):
-                raise StockEditError(f"{path}: {_describe(item)} has {len(measured)} measured "
-                                     f"pieces; cannot remove {sorted(removed)}; nothing was "
-                                     "written")
-            new_qty = item.qty + delta
-            if new_qty < 0:
-                raise StockEditError(f"{path}: {_describe(item)} has qty {item.qty}; taking "
-                                     f"{-delta} would go below zero; nothing was written")
-            left = len(measured) - len(removed)
-            if new_qty < left:
-                raise StockEditError(f"{path}: {_describe(item)} would keep {left} measured "
-                                     f"pieces with qty {new_qty}; remove measured pieces too; "
-                                     "nothing was written")
-            table = doc[kind][index]
-            if delta:
-                table["qty"] = new_qty
-            if removed:
-                arr = table["measured"]
-                for i in sorted(removed, reverse=True):
-                    del arr[i]
-        after_text = tomlkit.dumps(doc)
-        _check_loads(after_text, path, "the edit would leave the file unreadable")
+        plan = _plan(stock, changes, path)
+        after_text = _splice_qty(text, stock, plan, str(path))
+        if after_text is None:
+            after_text = _round_trip(text, plan)
+            _check_loads(after_text, path, "the edit would leave the file unreadable")
         return (bom + after_text).encode("utf-8")
 
     return _edit(path, transform, expect_sha256)
+
+
+def _plan(stock, changes, path) -> dict:
+    """``{(kind, index): (new_qty, removed measured indices)}``, every change checked."""
+    merged: dict[tuple[str, int], list] = {}
+    for ch in changes:
+        if ch.kind not in KINDS:
+            raise StockEditError(f"{path}: unknown kind '{ch.kind}'; use one of "
+                                 f"{', '.join(KINDS)}; nothing was written")
+        lines = stock.lines(ch.kind)
+        if not isinstance(ch.index, int) or not 0 <= ch.index < len(lines):
+            raise StockEditError(f"{path}: there is no {ch.kind} number {ch.index} (the file "
+                                 f"has {len(lines)}); nothing was written")
+        slot = merged.setdefault((ch.kind, ch.index), [0, []])
+        slot[0] += int(ch.delta)
+        slot[1].extend(ch.remove_measured)
+    plan = {}
+    for (kind, index), (delta, removed) in merged.items():
+        item = stock.lines(kind)[index]
+        measured = getattr(item, "measured", ())
+        if len(set(removed)) != len(removed) or any(
+                not isinstance(i, int) or not 0 <= i < len(measured) for i in removed):
+            raise StockEditError(f"{path}: {_describe(item)} has {len(measured)} measured "
+                                 f"pieces; cannot remove {sorted(removed)}; nothing was written")
+        new_qty = item.qty + delta
+        if new_qty < 0:
+            raise StockEditError(f"{path}: {_describe(item)} has qty {item.qty}; taking "
+                                 f"{-delta} would go below zero; nothing was written")
+        left = len(measured) - len(removed)
+        if new_qty < left:
+            raise StockEditError(f"{path}: {_describe(item)} would keep {left} measured "
+                                 f"pieces with qty {new_qty}; remove measured pieces too; "
+                                 "nothing was written")
+        plan[(kind, index)] = (new_qty, tuple(sorted(removed)))
+    return plan
+
+
+_QTY_LINE = re.compile(r"^(?P<pre>[ \t]*qty[ \t]*=[ \t]*)(?P<num>\+?[0-9_]+)"
+                       r"(?P<post>[ \t]*(?:#.*)?\r?)$")
+
+
+def _splice_qty(text: str, stock, plan, source: str) -> str | None:
+    """Rewrite only the qty digits; None when that is not certain to be right."""
+    if any(removed for _, removed in plan.values()):
+        return None
+    rows = text.split("\n")
+    lmap = LineMap(text)
+    for (kind, index), (new_qty, _) in plan.items():
+        item = stock.lines(kind)[index]
+        header, keys = lmap.entry(kind, index, len(stock.lines(kind)))
+        n = keys.get("qty")
+        if not n or header != item.line:
+            return None
+        m = _QTY_LINE.match(rows[n - 1])
+        if not m or int(m["num"].replace("_", "")) != item.qty:
+            return None
+        rows[n - 1] = f"{m['pre']}{new_qty}{m['post']}"
+    after = "\n".join(rows)
+    # the result must read back as exactly the stock planned, nothing else different
+    try:
+        new = loads(after, source=source)
+    except StockFileError:
+        return None
+    for kind in KINDS:
+        want = [replace(x, qty=plan[(kind, i)][0]) if (kind, i) in plan else x
+                for i, x in enumerate(stock.lines(kind))]
+        if list(new.lines(kind)) != want:
+            return None
+    return after
+
+
+def _round_trip(text: str, plan) -> str:
+    import tomlkit
+    doc = tomlkit.parse(text)
+    for (kind, index), (new_qty, removed) in plan.items():
+        table = doc[kind][index]
+        if table["qty"] != new_qty:
+            table["qty"] = new_qty
+        if removed:
+            arr = table["measured"]
+            for i in reversed(removed):
+                del arr[i]
+    return tomlkit.dumps(doc)
 
 
 def _toml_value(value) -> str:

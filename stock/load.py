@@ -13,6 +13,8 @@ from __future__ import annotations
 import hashlib
 import re
 import tomllib
+from collections import OrderedDict
+from dataclasses import replace
 from pathlib import Path
 
 from stock import values as V
@@ -51,12 +53,15 @@ class LineMap:
         self.stock_keys: dict[str, int] = {}
         current: dict[str, int] | None = self.top_keys
         in_multi: str | None = None
-        for n, raw in enumerate(text.splitlines(), start=1):
+        for n, raw in enumerate(text.split("\n"), start=1):  # TOML lines end in \n
             if in_multi:
                 if raw.count(in_multi) % 2 == 1:
                     in_multi = None
                 continue
-            m = _AOT_RE.match(raw)
+            head = raw.lstrip()[:1]
+            if not head or head == "#":
+                continue
+            m = _AOT_RE.match(raw) if head == "[" else None
             if m:
                 name = _unquote(m[1].split(".")[0])
                 self.tables.setdefault(name, n)
@@ -67,7 +72,7 @@ class LineMap:
                 else:
                     current = None
                 continue
-            m = _TABLE_RE.match(raw)
+            m = _TABLE_RE.match(raw) if head == "[" else None
             if m:
                 name = _unquote(m[1].split(".")[0])
                 self.tables.setdefault(name, n)
@@ -123,12 +128,24 @@ def decode(data: bytes, src: str) -> str:
     return text[1:] if text.startswith("\ufeff") else text
 
 
+# The same bytes under the same name always give the same (immutable) Stock: keep the last
+# few, so that a safe edit re-reading the file it was just handed does not parse it again.
+_CACHE: OrderedDict[tuple[str, str], Stock] = OrderedDict()
+_CACHE_SIZE = 4
+
+
 def _load_bytes(data: bytes, src: str, path: Path | None) -> Stock:
-    text = decode(data, src)
-    stock = _parse(text, src)
-    return Stock(resistors=stock.resistors, capacitors=stock.capacitors, opamps=stock.opamps,
-                 name=stock.name, path=path, sha256=hashlib.sha256(data).hexdigest(),
-                 warnings=stock.warnings)
+    sha = hashlib.sha256(data).hexdigest()
+    stock = _CACHE.get((sha, src))
+    if stock is None:
+        text = decode(data, src)
+        stock = _parse(text, src)
+        _CACHE[(sha, src)] = stock
+        while len(_CACHE) > _CACHE_SIZE:
+            _CACHE.popitem(last=False)
+    else:
+        _CACHE.move_to_end((sha, src))
+    return replace(stock, path=path, sha256=sha)
 
 
 def loads(text: str, *, source: str = "<text>") -> Stock:
@@ -149,8 +166,8 @@ def _parse(text: str, src: str) -> Stock:
         detail = _TOML_LINE_RE.sub("", msg).strip() if m else msg
         if m:
             detail += f" (column {m[2]})"
-        bad = text.splitlines()[int(line) - 1].strip() if m and 0 < int(line) <= len(
-            text.splitlines()) else ""
+        rows = text.split("\n")
+        bad = rows[int(line) - 1].strip() if m and 0 < int(line) <= len(rows) else ""
         quoted = f" in {quote(bad)}" if bad else ""
         raise StockFileError(f"{src}:{line}: TOML syntax: {detail}{quoted}") from None
     lines = LineMap(text)

@@ -150,6 +150,23 @@ def test_replace_bytes_undo(stockfile):
     assert stat.S_IMODE(stockfile.stat().st_mode) == 0o640
 
 
+@pytest.mark.parametrize("text, old, new", [
+    # layouts the digit rewrite does not touch go through the tomlkit round trip
+    ('resistor = [{value = "1k", qty = 3}, {value = "2k2", qty = 7}]  # inline\n',
+     "qty = 3}", "qty = 2}"),
+    ('[[resistor]]\nvalue = "1k"\nqty = 0x03\n', "qty = 0x03", "qty = 2"),
+    ('[[resistor]]\nvalue = "1k"\n"qty" = 3\n', '"qty" = 3', '"qty" = 2'),
+    ('[[resistor]]\nvalue = "1k"\nnote = """\nqty = 3\n"""\nqty = 3\n',
+     '"""\nqty = 3\n', '"""\nqty = 2\n'),
+])
+def test_other_layouts_still_edit_only_the_number(tmp_path, text, old, new):
+    p = tmp_path / "odd.toml"
+    p.write_text(text, encoding="utf-8")
+    res = apply_changes(p, [QtyChange("resistor", 0, -1)])
+    assert load(p).resistors[0].qty == 2
+    assert res.after.decode() == text[::-1].replace(old[::-1], new[::-1], 1)[::-1]
+
+
 def test_crlf_bom_and_symlink(tmp_path):
     real = tmp_path / "real.toml"
     real.write_bytes(b"\xef\xbb\xbf" + TEXT.replace("\n", "\r\n").encode())
