@@ -27,6 +27,7 @@ import fcntl
 import hashlib
 import os
 import re
+import stat
 import tempfile
 from contextlib import contextmanager
 from dataclasses import dataclass, replace
@@ -154,7 +155,14 @@ def _edit(path, transform, expect_sha256: str | None) -> EditResult:
                 f"expected {expect_sha256[:12]}); nothing was written: load it again and retry")
         after = transform(before)
         if after != before:
-            _write_atomic(real, after, st)
+            # a file its owner made read-only stays unchanged, even for root
+            if not st.st_mode & stat.S_IWUSR or not os.access(real, os.W_OK):
+                raise StockEditError(f"{path}: the stock file is read-only; nothing was written")
+            try:
+                _write_atomic(real, after, st)
+            except OSError as exc:
+                raise StockEditError(f"{path}: cannot write the stock file "
+                                     f"({exc.strerror or exc}); it is unchanged") from None
         return EditResult(path=Path(path), before=before, after=after,
                           before_sha256=before_sha, after_sha256=_sha(after))
 

@@ -257,7 +257,7 @@ def stock_tables(stock, kinds) -> list:
                        str(x.qty), _measured(x)]
             else:
                 row = [x.name, format_si(x.gbw, "Hz"),
-                       format_si(x.slew / 1e6, "V/us") if x.slew else "", str(x.channels),
+                       f"{x.slew / 1e6:.3g} V/us" if x.slew else "", str(x.channels),
                        format_si(x.supply, "V") if x.supply else "", x.location or "",
                        str(x.qty)]
             if kind != "opamp" and x.tolerance_assumed:

@@ -247,3 +247,55 @@ def test_sigkill_mid_burst_leaves_old_or_new_file(tmp_path):
         # only qty numbers differ from the original
         diff, dlen = changed_lines(SAMPLE.read_bytes(), p.read_bytes())
         assert dlen == 0 and all(a.startswith("qty = ") for a, _ in diff)
+
+
+def test_read_only_file_refused(stockfile):
+    stockfile.chmod(0o444)
+    with pytest.raises(StockEditError, match="read-only"):
+        apply_changes(stockfile, [QtyChange("resistor", 0, -1)])
+    assert stockfile.read_bytes() == TEXT.encode()
+
+
+def test_write_failure_leaves_file_and_no_temp(stockfile, monkeypatch):
+    import stock.edit as edit
+
+    def full_disk(fd, data):
+        raise OSError(28, "No space left on device")
+
+    monkeypatch.setattr(edit.os, "write", full_disk)
+    with pytest.raises(StockEditError, match="No space left"):
+        apply_changes(stockfile, [QtyChange("resistor", 0, -1)])
+    monkeypatch.undo()
+    assert stockfile.read_bytes() == TEXT.encode()
+    assert sorted(p.name for p in stockfile.parent.iterdir()) == ["inv.toml"]
+
+
+from hypothesis import HealthCheck, given, settings  # noqa: E402
+from hypothesis import strategies as st  # noqa: E402
+
+_SAMPLE_STOCK = load(SAMPLE)
+_change = st.sampled_from(["resistor", "capacitor", "opamp"]).flatmap(
+    lambda k: st.builds(QtyChange, st.just(k),
+                        st.integers(-1, len(_SAMPLE_STOCK.lines(k))),
+                        st.integers(-30, 5)))
+
+
+@settings(max_examples=40, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@given(st.lists(_change, min_size=1, max_size=4))
+def test_edit_fuzz_all_or_nothing(tmp_path, changes):
+    # a change set either applies in full (exactly the planned qty, only qty lines differ)
+    # or is refused with the file untouched
+    p = tmp_path / "f.toml"
+    p.write_bytes(SAMPLE.read_bytes())
+    try:
+        res = apply_changes(p, changes, expect_sha256=_SAMPLE_STOCK.sha256)
+    except StockEditError:
+        assert p.read_bytes() == SAMPLE.read_bytes()
+        return
+    after = load(p)
+    for kind in ("resistor", "capacitor", "opamp"):
+        for i, line in enumerate(_SAMPLE_STOCK.lines(kind)):
+            delta = sum(c.delta for c in changes if c.kind == kind and c.index == i)
+            assert after.lines(kind)[i].qty == line.qty + delta
+    diff, dlen = changed_lines(res.before, res.after)
+    assert dlen == 0 and all(a.startswith("qty = ") for a, _ in diff)
