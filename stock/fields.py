@@ -7,6 +7,8 @@ entry's header. Plausible ranges are those of DESIGN.md section 3.
 
 from __future__ import annotations
 
+import re
+
 from stock import values as V
 from stock.errors import ValueParseError
 from stock.model import (
@@ -144,6 +146,11 @@ class EntryChecker:
             self.error("value", f"{quote(raw)} is {V.format_si(x, unit)}, not a plausible "
                                 f"{kind} ({span}){hint}")
         else:
+            if (kind == "resistor" and isinstance(raw, str)
+                    and re.search(r"[0-9.]\s*m(?![eE][gG])", raw)):
+                # SI prefixes are case-sensitive; 1m is a milliohm, a likely slip for 1M
+                self.warn("value", f"{quote(raw)} is {V.format_si(x, 'Ω')} (m is milli); "
+                                   f"write M for mega, e.g. {raw.replace('m', 'M', 1)}")
             return x
         return None
 

@@ -90,7 +90,7 @@ class LineMap:
         found = self.entries.get(kind, [])
         if len(found) == count and index < len(found):
             return found[index]
-        return self.tables.get(kind, 0), {}
+        return self.tables.get(kind) or self.top_keys.get(kind, 0), {}
 
 
 def file_sha256(path) -> str:
@@ -162,12 +162,15 @@ def _parse(text: str, src: str) -> Stock:
     except tomllib.TOMLDecodeError as exc:
         msg = str(exc)
         m = _TOML_LINE_RE.search(msg)
-        line = m[1] if m else "0"
-        detail = _TOML_LINE_RE.sub("", msg).strip() if m else msg
-        if m:
-            detail += f" (column {m[2]})"
         rows = text.split("\n")
-        bad = rows[int(line) - 1].strip() if m and 0 < int(line) <= len(rows) else ""
+        if m:
+            line = m[1]
+            detail = _TOML_LINE_RE.sub("", msg).strip() + f" (column {m[2]})"
+            bad = rows[int(line) - 1].strip() if 0 < int(line) <= len(rows) else ""
+        else:  # "(at end of document)": name the last line that has text
+            line = str(max((i + 1 for i, r in enumerate(rows) if r.strip()), default=1))
+            detail = msg.replace("(at end of document)", "at the end of the file").strip()
+            bad = rows[int(line) - 1].strip()
         quoted = f" in {quote(bad)}" if bad else ""
         raise StockFileError(f"{src}:{line}: TOML syntax: {detail}{quoted}") from None
     lines = LineMap(text)

@@ -130,6 +130,9 @@ BAD = [
     ('[resistor]\nvalue = "1k"\nqty = 1\n', 1, "resistor", "[[resistor]]"),
     ('[[resistor]]\nvalue = "1k"\nqty = 1\nqty = 2\n', 4, "TOML syntax", "'qty = 2'"),
     ('[[resistor]]\nvalue = 1k\n', 2, "TOML syntax", "'value = 1k'"),
+    ('[[resistor]]\nvalue = "1k\nqty = 1\n', 2, "TOML syntax", "'value = \"1k'"),
+    ('[[resistor]]\nnote = """open\nqty = 1\n\n', 3, "TOML syntax", "end of the file"),
+    ('# inline\nresistor = [{value = "1k", qty = -1}]\n', 2, "resistor qty", "'-1'"),
     ('\n\n[[resistor]]\nvalue = "1k"\nqty = 1\n\n[[capacitor]]\nvalue = "1n"\nqty = 1\n'
      'voltage = "5 parsec"\n', 10, "capacitor voltage", "'5 parsec'"),
 ]
@@ -172,6 +175,8 @@ def test_missing_file(tmp_path):
     ('[stock]\nowner = "me"\n' + R + 'value = "1k"\nqty = 1\n', 2, "stock owner: unknown key"),
     (R + 'value = "1k"\nqty = 1\nlocation = "A1"\n' + R + 'value = "1000"\nqty = 2\n'
      'location = "a1"\n', 5, "resistor 1k in a1 is listed twice"),
+    (R + 'value = "2m2"\nqty = 3\n', 2, "resistor value: '2m2' is 2.2 mΩ (m is milli); write M"),
+    (R + 'value = "1m"\nqty = 3\n', 2, "resistor value: '1m' is 1 mΩ"),
     (R + 'value = "1k"\nqty = 3\ntolerance = "1%"\nmeasured = ["1.2k"]\n', 5,
      "resistor measured: '1.2k' is 20.0% from the nominal"),
 ])
