@@ -17,7 +17,9 @@ Every write:
    allowed), fsyncs it, renames it over the original and fsyncs the folder, so a
    crash leaves the old file or the new one, never a partial file.
 
-A symbolic link is followed: the file it points to is replaced, the link stays.
+A symbolic link is followed: the file it points to is replaced, the link stays. A
+writer killed mid-write can leave its temporary file (``.<name>.XXXXXXXX.tmp``) beside
+the stock file; the next write removes it.
 """
 
 from __future__ import annotations
@@ -110,7 +112,27 @@ def _read_all(fd: int) -> bytes:
         chunks.append(chunk)
 
 
+def _remove_stale_temps(real: Path) -> None:
+    """Delete temporary files a killed writer left behind.
+
+    Called under the lock on the current file: a live writer only writes its temporary
+    file while it holds that lock, so any file of our naming pattern is stale.
+    """
+    prefix = f".{real.name}."
+    try:
+        names = os.listdir(real.parent)
+    except OSError:
+        return
+    for name in names:
+        if name.startswith(prefix) and name.endswith(".tmp") and len(name) == len(prefix) + 12:
+            try:
+                os.unlink(real.parent / name)
+            except OSError:
+                pass
+
+
 def _write_atomic(real: Path, data: bytes, st: os.stat_result) -> None:
+    _remove_stale_temps(real)
     fd, tmp = tempfile.mkstemp(dir=real.parent, prefix=f".{real.name}.", suffix=".tmp")
     try:
         try:

@@ -299,3 +299,37 @@ def test_edit_fuzz_all_or_nothing(tmp_path, changes):
             assert after.lines(kind)[i].qty == line.qty + delta
     diff, dlen = changed_lines(res.before, res.after)
     assert dlen == 0 and all(a.startswith("qty = ") for a, _ in diff)
+
+
+HALF = textwrap.dedent("""
+    import os, sys, time
+    import stock.edit as edit
+    real_write = os.write
+
+    def half_write(fd, data):
+        n = real_write(fd, bytes(data[:len(data) // 2]))
+        print("half", flush=True)
+        time.sleep(60)
+        return n
+
+    edit.os.write = half_write
+    edit.apply_changes(sys.argv[1], [edit.QtyChange("resistor", 0, -5)])
+""")
+
+
+def test_sigkill_while_writing_the_temp_file_keeps_the_old_file(stockfile):
+    # deterministic: the writer is stopped with half the new file written, then killed
+    proc = subprocess.Popen([sys.executable, "-c", HALF, str(stockfile)], stdout=subprocess.PIPE,
+                            cwd=ROOT)
+    assert proc.stdout.readline().strip() == b"half"
+    os.kill(proc.pid, signal.SIGKILL)
+    proc.wait()
+    proc.stdout.close()
+    assert stockfile.read_bytes() == TEXT.encode()
+    assert load(stockfile).resistors[0].qty == 20
+    left = [p.name for p in stockfile.parent.iterdir() if p.name != "inv.toml"]
+    assert len(left) == 1 and left[0].startswith(".inv.toml.") and left[0].endswith(".tmp")
+    # the next edit works (the dead writer's lock went with it) and removes its temp file
+    apply_changes(stockfile, [QtyChange("resistor", 0, -1)])
+    assert load(stockfile).resistors[0].qty == 19
+    assert sorted(p.name for p in stockfile.parent.iterdir()) == ["inv.toml"]
