@@ -250,9 +250,21 @@ def test_loader_fuzz_structured(entries):
 
 
 @settings(max_examples=150, deadline=None)
-@given(st.text(alphabet=st.sampled_from(list('[]="\'#.\n abqtyvalue1kx')), max_size=60))
+@given(st.one_of(st.text(alphabet=st.sampled_from(list('[]="\'#.\n abqtyvalue1kx')), max_size=60),
+                 st.text(max_size=40)))
 def test_loader_fuzz_text(text):
     try:
         loads(text, source="fuzz.toml")
     except StockFileError as exc:
         assert exc.problems and all(p.startswith("fuzz.toml") for p in exc.problems)
+
+
+@settings(max_examples=100, deadline=None)
+@given(st.binary(max_size=40))
+def test_loader_fuzz_bytes(tmp_path_factory, data):
+    p = tmp_path_factory.mktemp("fz") / "b.toml"
+    p.write_bytes(b'[[resistor]]\nvalue = "1k"\nqty = 1\n' + data)
+    try:
+        load(p)
+    except StockFileError as exc:
+        assert all(line.startswith(f"{p}:") for line in exc.problems)
