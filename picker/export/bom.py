@@ -76,8 +76,7 @@ def bom_rows(design: SavedDesign) -> list[BomRow]:
         rows.append(BomRow(
             kind=kind, value=format_rkm(part.nominal, kind), location=part.location,
             count=g["count"], positions=_join_positions(g["stages"], len(design.stages)),
-            tolerance=_format_tolerance(part.tolerance if part.measured is None
-                                        else _line_tolerance(design, kind, index)),
+            tolerance=_format_tolerance(_line_tolerance(part)),
             measured=tuple(format_rkm(v, kind) for v in sorted(g["measured"])),
             index=index, nominal=part.nominal))
     rows.sort(key=lambda r: (KIND_ORDER[r.kind], r.nominal, r.location or "", r.index))
@@ -91,13 +90,9 @@ def bom_rows(design: SavedDesign) -> list[BomRow]:
     return rows
 
 
-def _line_tolerance(design: SavedDesign, kind: str, index: int) -> float:
-    """The line's own tolerance: that of a nominal piece of it, else the measured one's."""
-    tols = [p.tolerance for _, _, _, p in design.parts()
-            if p.kind == kind and p.index == index]
-    nominal = [p.tolerance for _, _, _, p in design.parts()
-               if p.kind == kind and p.index == index and p.measured is None]
-    return (nominal or tols)[0]
+def _line_tolerance(part) -> float:
+    """The stock line's own tolerance (older files: the piece's)."""
+    return part.tolerance if part.line_tolerance is None else part.line_tolerance
 
 
 def bom_csv(design: SavedDesign) -> str:

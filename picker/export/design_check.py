@@ -139,6 +139,10 @@ def _read_part(r: "_Reader", x, pre: str) -> SavedPart:
     tol = r.number(x, "tolerance", pre)
     if not 0 <= tol < 1:
         raise DesignError(f"{r.source}: {pre}tolerance: {tol!r} is not a fraction in [0, 1)")
+    line_tol = r.number(x, "line_tolerance", pre, default=None)
+    if line_tol is not None and not 0 <= line_tol < 1:
+        raise DesignError(f"{r.source}: {pre}line_tolerance: {line_tol!r} is not a fraction "
+                          "in [0, 1)")
     measured = x.get("measured")
     if measured is not None:
         measured = r.index(x, "measured", pre)
@@ -148,7 +152,8 @@ def _read_part(r: "_Reader", x, pre: str) -> SavedPart:
                      measured=measured, location=r.get(x, "location", str, pre, default=None),
                      dielectric=r.get(x, "dielectric", str, pre, default=None),
                      polarized=r.get(x, "polarized", bool, pre, default=False),
-                     voltage=r.number(x, "voltage", pre, default=None))
+                     voltage=r.number(x, "voltage", pre, default=None),
+                     line_tolerance=line_tol)
 
 
 _MISSING = object()

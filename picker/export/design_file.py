@@ -44,7 +44,8 @@ Layout of the file, format 1 (keys with no value are left out: TOML has no null)
     nominal = 4700.0                        # the line's nominal value
     value = 4693.0                          # the piece's value (the reading when measured)
     measured = 0                            # index into the line's `measured` list; absent if not
-    tolerance = 0.01
+    tolerance = 0.01                        # the piece's: the meter's accuracy when measured
+    line_tolerance = 0.01                   # the stock line's own tolerance
     location = "A3"
 
 A stock line is named by kind and index *and* checked by nominal value and location
@@ -88,6 +89,8 @@ class SavedPart:
     dielectric: str | None = None
     polarized: bool = False
     voltage: float | None = None
+    line_tolerance: float | None = None   # the stock line's tolerance (a measured piece's
+                                          # own is the meter's accuracy)
 
 
 @dataclass(frozen=True)
@@ -206,7 +209,7 @@ def _stage_table(stage) -> dict:
                 "kind": line.kind, "index": line.index, "line": line.line,
                 "nominal": float(line.value), "value": float(piece.value),
                 "measured": piece.measured, "tolerance": float(piece.tolerance),
-                "location": line.location,
+                "line_tolerance": float(line.tolerance), "location": line.location,
                 "dielectric": getattr(line, "dielectric", None),
                 "polarized": True if getattr(line, "polarized", False) else None,
                 "voltage": getattr(line, "voltage", None)}))

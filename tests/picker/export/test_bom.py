@@ -103,3 +103,22 @@ def test_pick_list_without_location_last(tmp_path):
     groups = pick_list(load_design(tmp_path / "d.toml"))
     assert groups[-1].location is None and groups[-1].label == "(no location)"
     assert groups[-1].rows[0].value == "10n"
+
+
+def test_measured_only_row_shows_the_line_tolerance(tmp_path):
+    from dataclasses import replace
+    stock = stock_records(path=tmp_path / "s.toml", sha="00" * 32)
+    r910 = replace(stock.resistors[1], tolerance=0.05, meter=0.005)
+    stock = replace(stock, resistors=(stock.resistors[0], r910) + stock.resistors[2:])
+    cand = lowpass_candidate(stock)          # takes the measured 910R piece only
+    stage = cand.stages[0]
+    r2 = stage.positions[1][1]
+    pieces = (r2.parts[0], replace(r2.parts[1], line=r910, tolerance=0.005))
+    stage = replace(stage, positions=(stage.positions[0], ("R2", replace(r2, parts=pieces)),
+                                      stage.positions[2]))
+    save_design(tmp_path / "d.toml", candidate=replace(cand, stages=(stage,)), request=REQUEST,
+                stock=stock)
+    design = load_design(tmp_path / "d.toml")
+    (row,) = [r for r in bom_rows(design) if r.value == "910R"]
+    assert row.tolerance == "5%" and row.measured == ("908R5",)
+    assert design.stages[0].positions[1].parts[1].tolerance == 0.005
