@@ -66,7 +66,10 @@ def opamp_subcircuit(gbw_hz: float | None) -> list[str]:
 def spice_netlist(design: SavedDesign) -> str:
     """SPICE text of ``design`` that ``ngspice -b`` runs as is (see the module docstring)."""
     from picker.filters import get_topology
-    from stock.values import format_rkm
+    from stock.values import format_rkm, format_si
+
+    def hz(value: float) -> str:
+        return format_si(value, "Hz", digits=6, ascii_micro=True)
 
     req = design.request
     words = " ".join(str(req[k]) for k in ("type", "response") if k in req)
@@ -84,7 +87,7 @@ def spice_netlist(design: SavedDesign) -> str:
         except (KeyError, LookupError, DesignError) as exc:
             raise DesignError(f"stage {s}: unknown topology {stage.topology!r}") from exc
         t = stage.target
-        what = f"f0 {t.f0_hz:.6g} Hz" + (f", Q {t.q:.4g}" if t.q is not None else "") \
+        what = f"f0 {hz(t.f0_hz)}" + (f", Q {t.q:.4g}" if t.q is not None else "") \
             + (f", gain {t.gain:.4g}" if t.gain is not None else "")
         lines.append(f"* stage {s}: {stage.topology}, target {what}")
         nodes = {"in": "in" if s == 1 else f"s{s - 1}_out", "out": "out" if s == n else f"s{s}_out",
@@ -123,7 +126,7 @@ def spice_netlist(design: SavedDesign) -> str:
                 lines.append(f"{name} {ends[k][0]} {ends[k][1]} {_num(part.value)}")
     lines += opamp_subcircuit(None if design.opamp is None else design.opamp.gbw_hz)
     if design.opamp is not None:
-        lines.insert(4, f"* op amp: {design.opamp.name}, GBW {design.opamp.gbw_hz:.6g} Hz"
+        lines.insert(4, f"* op amp: {design.opamp.name}, GBW {hz(design.opamp.gbw_hz)}"
                         + (f", drawer {design.opamp.location}" if design.opamp.location else ""))
     f_lo, f_hi = sweep_range(design)
     lines += [f".ac dec {POINTS_PER_DECADE} {_num(f_lo)} {_num(f_hi)}",
