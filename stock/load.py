@@ -38,59 +38,91 @@ def _unquote(key: str) -> str:
     return key
 
 
+class _Keys:
+    """Line of each key in one section, scanned only when first asked (messages are rare)."""
+
+    __slots__ = ("_map", "_start", "_lines")
+
+    def __init__(self, linemap: LineMap, start: int):
+        self._map, self._start, self._lines = linemap, start, None
+
+    def get(self, key: str, default=None):
+        if self._lines is None:
+            self._lines = self._map._scan_keys(self._start)
+        return self._lines.get(key, default)
+
+
 class LineMap:
     """Where things are: header line of each [[kind]] entry, and the line of each key in it.
 
-    A plain scan of the text; multi-line strings are skipped. If the scan does not
-    agree with the parsed document (inline arrays, unusual layouts) lookups fall back
-    to the nearest line known, and finally to 0 (no line).
+    A plain scan of the text for table headers; multi-line strings are skipped. Key
+    lines are scanned per section on demand. If the scan does not agree with the
+    parsed document (inline arrays, unusual layouts) lookups fall back to the nearest
+    line known, and finally to 0 (no line).
     """
 
     def __init__(self, text: str):
-        self.entries: dict[str, list[tuple[int, dict[str, int]]]] = {k: [] for k in KINDS}
+        self.rows = text.split("\n")  # TOML lines end in \n
+        self._multi = '"""' in text or "'''" in text
+        self.entries: dict[str, list[int]] = {k: [] for k in KINDS}
         self.tables: dict[str, int] = {}
-        self.top_keys: dict[str, int] = {}
-        self.stock_keys: dict[str, int] = {}
-        current: dict[str, int] | None = self.top_keys
+        self._next: dict[int, int] = {}   # header line -> next header line
+        stock_header = 0
+        previous = 0
         in_multi: str | None = None
-        for n, raw in enumerate(text.split("\n"), start=1):  # TOML lines end in \n
+        for n, raw in enumerate(self.rows, start=1):
             if in_multi:
                 if raw.count(in_multi) % 2 == 1:
                     in_multi = None
                 continue
-            head = raw.lstrip()[:1]
-            if not head or head == "#":
-                continue
-            m = _AOT_RE.match(raw) if head == "[" else None
-            if m:
-                name = _unquote(m[1].split(".")[0])
-                self.tables.setdefault(name, n)
-                if name in self.entries and "." not in m[1]:
-                    keys: dict[str, int] = {}
-                    self.entries[name].append((n, keys))
-                    current = keys
-                else:
-                    current = None
-                continue
-            m = _TABLE_RE.match(raw) if head == "[" else None
-            if m:
-                name = _unquote(m[1].split(".")[0])
-                self.tables.setdefault(name, n)
-                current = self.stock_keys if m[1].strip() == "stock" else None
+            if raw.lstrip()[:1] == "[":
+                m = _AOT_RE.match(raw) or _TABLE_RE.match(raw)
+                if m:
+                    aot = raw.lstrip().startswith("[[")
+                    name = _unquote(m[1].split(".")[0])
+                    self.tables.setdefault(name, n)
+                    if aot and name in self.entries and "." not in m[1]:
+                        self.entries[name].append(n)
+                    if not aot and m[1].strip() == "stock" and not stock_header:
+                        stock_header = n
+                    self._next[previous] = n
+                    previous = n
+                    continue
+            if self._multi:
+                in_multi = _opens_multi(raw)
+        self._next[previous] = len(self.rows) + 1
+        self.top_keys = _Keys(self, 0)
+        self.stock_keys = _Keys(self, stock_header) if stock_header else {}
+
+    def _scan_keys(self, start: int) -> dict[str, int]:
+        keys: dict[str, int] = {}
+        in_multi: str | None = None
+        for n in range(start + 1, self._next.get(start, start + 1)):
+            raw = self.rows[n - 1]
+            if in_multi:
+                if raw.count(in_multi) % 2 == 1:
+                    in_multi = None
                 continue
             m = _KEYLINE_RE.match(raw)
-            if m and current is not None:
-                current.setdefault(_unquote(m[1]), n)
-            for delim in ('"""', "'''"):
-                if raw.count(delim) % 2 == 1:
-                    in_multi = delim
-                    break
+            if m:
+                keys.setdefault(_unquote(m[1]), n)
+            if self._multi:
+                in_multi = _opens_multi(raw)
+        return keys
 
-    def entry(self, kind: str, index: int, count: int) -> tuple[int, dict[str, int]]:
+    def entry(self, kind: str, index: int, count: int):
+        """``(header line, key lines)`` of entry ``index`` of ``kind``; key lines has ``get``."""
         found = self.entries.get(kind, [])
         if len(found) == count and index < len(found):
-            return found[index]
+            return found[index], _Keys(self, found[index])
         return self.tables.get(kind) or self.top_keys.get(kind, 0), {}
+
+
+def _opens_multi(raw: str) -> str | None:
+    for delim in ('"""', "'''"):
+        if raw.count(delim) % 2 == 1:
+            return delim
+    return None
 
 
 def file_sha256(path) -> str:

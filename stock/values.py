@@ -23,6 +23,7 @@ References
 
 from __future__ import annotations
 
+import functools
 import math
 import re
 from decimal import Decimal
@@ -81,6 +82,30 @@ def _check_number(x: float, text: str) -> float:
     return x
 
 
+def _memo_text(fn):
+    """Remember results for text inputs: stock files repeat the same few texts ("1%", "50V").
+
+    Only successes are kept (a ValueParseError is raised again each time); bounded size.
+    """
+    memo: dict = {}
+
+    @functools.wraps(fn)
+    def wrapper(text, **kw):
+        if type(text) is not str:
+            return fn(text, **kw)
+        key = (text, kw.get("kind"))
+        hit = memo.get(key)
+        if hit is None:
+            hit = fn(text, **kw)
+            if len(memo) >= 8192:
+                memo.clear()
+            memo[key] = hit
+        return hit
+
+    return wrapper
+
+
+@_memo_text
 def parse_value(text, *, kind: str | None = None) -> float:
     """Read a resistance or capacitance.
 
@@ -174,6 +199,7 @@ def _parse_with_unit(text, unit_re: str, what: str, example: str, *,
     return _scaled(m[2], _prefix_exp(m[3]), m[1], text)
 
 
+@_memo_text
 def parse_percent(text) -> float:
     """``"1%"``, ``"±0.5 %"`` -> fraction (0.01, 0.005). The percent sign is required."""
     help_ = "write a percentage like '1%' or '0.5%'"
@@ -189,6 +215,7 @@ def parse_percent(text) -> float:
     raise ValueParseError(f"'{text}' is not a percentage; {help_} (with the % sign, in quotes)")
 
 
+@_memo_text
 def parse_ppm(text) -> float:
     """``"50ppm"``, ``"-750 ppm/K"``, ``"100ppm/°C"`` -> fraction per kelvin (50e-6)."""
     help_ = "write a temperature coefficient like '100ppm' or '-750ppm/K'"
@@ -204,6 +231,7 @@ def parse_ppm(text) -> float:
     raise ValueParseError(f"'{text}' is not a temperature coefficient; {help_} (in quotes)")
 
 
+@_memo_text
 def parse_voltage(text) -> float:
     """``"50V"``, ``"6.3 V"``, ``"1kV"``, ``"6V3"`` (RKM) or a bare number -> volt."""
     if isinstance(text, str):
@@ -213,21 +241,25 @@ def parse_voltage(text) -> float:
     return _parse_with_unit(text, "[Vv]", "a voltage", "'50V' or '6.3V'")
 
 
+@_memo_text
 def parse_frequency(text) -> float:
     """``"1k"``, ``"1kHz"``, ``"2.5 MHz"`` or a bare number -> hertz."""
     return _parse_with_unit(text, "[Hh][Zz]", "a frequency", "'1kHz', '2.5 MHz' or '1k'")
 
 
+@_memo_text
 def parse_current(text) -> float:
     """``"30pA"``, ``"1 nA"`` or a bare number -> ampere."""
     return _parse_with_unit(text, "A", "a current", "'30pA' or '2nA'")
 
 
+@_memo_text
 def parse_power(text) -> float:
     """``"0.25W"``, ``"250mW"`` or a bare number -> watt."""
     return _parse_with_unit(text, "W", "a power", "'0.25W' or '250mW'")
 
 
+@_memo_text
 def parse_slew(text) -> float:
     """``"13V/us"``, ``"0.5 V/µs"``, ``"13e6 V/s"`` -> volt per second. The unit is required."""
     help_ = "write a slew rate like '13V/us' or '0.5 V/µs'"
