@@ -252,3 +252,41 @@ def test_cli_never_writes_the_bundled_sample(tmp_path, capsys):
     assert main(["undo", "--stock", str(sample), "--yes"]) == 2
     assert "bundled sample" in capsys.readouterr().err
     assert sample.read_bytes() == before
+
+
+def _no_measured(stock):
+    cand = lowpass_candidate(stock)
+    stage = cand.stages[0]
+    r2 = Arrangement("single", (Piece(stock.resistors[0], 15e3, 0.01),))
+    positions = (stage.positions[0], ("R2", r2), stage.positions[2])
+    return replace(cand, pieces=4, stages=(replace(stage, positions=positions),))
+
+
+def test_same_measured_piece_cannot_be_built_twice(tmp_path, stock_file):
+    design = _design(tmp_path, stock_file)
+    do_build(stock_file, plan_build(design, load(stock_file)))
+    with pytest.raises(StockEditError, match=r"measured piece 0 \(908R5\).*no longer lists"):
+        plan_build(design, load(stock_file))
+
+
+def test_two_builds_undone_in_turn(tmp_path, stock_file):
+    original = stock_file.read_bytes()
+    design = _design(tmp_path, stock_file, _no_measured)
+    do_build(stock_file, plan_build(design, load(stock_file)))
+    middle = stock_file.read_bytes()
+    do_build(stock_file, plan_build(design, load(stock_file)))
+    assert load(stock_file).resistors[2].qty == 3 - 2
+    assert [r.number for r in ledger.records(stock_file)] == [1, 2]
+    undo_last(stock_file)
+    assert stock_file.read_bytes() == middle
+    undo_last(stock_file)
+    assert stock_file.read_bytes() == original
+
+
+def test_cli_build_without_any_stock_path(tmp_path, stock_file, capsys):
+    from stock.file import loads
+    stock = loads(stock_file.read_text(encoding="utf-8"))      # no path: read from text
+    save_design(tmp_path / "nopath.toml", candidate=lowpass_candidate(stock), request=REQUEST,
+                stock=stock)
+    assert main(["build", str(tmp_path / "nopath.toml"), "--yes"]) == 2
+    assert "names no stock file; pass --stock FILE" in capsys.readouterr().err

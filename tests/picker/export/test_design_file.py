@@ -132,3 +132,24 @@ def test_not_toml_not_utf8_missing(tmp_path):
         load_design(bad)
     with pytest.raises(DesignError, match="nothere.toml: cannot read"):
         load_design(tmp_path / "nothere.toml")
+
+
+def test_request_values_made_plain(tmp_path):
+    from dataclasses import dataclass
+
+    import numpy as np
+
+    @dataclass(frozen=True)
+    class Limits:
+        r_min: float = 1e3
+        r_max: float | None = None
+
+    stock = stock_records(path=tmp_path / "s.toml", sha="00" * 32)
+    request = {"type": "lowpass", "bounds": Limits(), "temp": (0.0, 70.0),
+               "fc_hz": np.float64(1000.0), "path": tmp_path, "gain": float("inf")}
+    save_design(tmp_path / "d.toml", candidate=lowpass_candidate(stock), request=request,
+                stock=stock)
+    req = load_design(tmp_path / "d.toml").request
+    assert req["bounds"] == {"r_min": 1e3}
+    assert req["temp"] == [0.0, 70.0] and req["fc_hz"] == 1000.0
+    assert req["path"] == str(tmp_path) and req["gain"] == "inf"
