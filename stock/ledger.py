@@ -10,9 +10,10 @@ Build number N is two files:
     before and after, one line per change, and the state: ``pending`` while the edit is
     being made, ``done`` once made, ``undone`` once undone.
 
-Every file is written through a temporary file in the same folder, fsynced and renamed.
-A build number is claimed by creating its ``.before`` file exclusively, so two builds at
-once never share a number. This module knows nothing of filters: it stores bytes and
+Every file is written whole to a temporary file in the same folder and fsynced; a record
+is then renamed into place, and a ``.before`` copy is hard-linked to its name, which
+fails if the name exists: that claims the build number, so two builds at once never
+share one. This module knows nothing of filters: it stores bytes and
 lines of text given by its caller (``picker.building``).
 """
 
@@ -71,22 +72,23 @@ def begin(stock_path, before: bytes, *, design=None, summary=()) -> BuildRecord:
     except OSError as exc:
         raise StockEditError(f"{folder}: cannot make the build records folder: "
                              f"{exc.strerror or exc}") from exc
+    tmp = _write_temp(folder, "before", before)
     number = max((r.number for r in records(stock_path)), default=0) + 1
-    while True:
-        before_path = folder / f"build-{number:04d}.before"
-        try:
-            fd = os.open(before_path, os.O_WRONLY | os.O_CREAT | os.O_EXCL, 0o600)
-        except FileExistsError:
-            number += 1
-            continue
-        except OSError as exc:
-            raise StockEditError(f"{before_path}: cannot write: {exc.strerror or exc}") from exc
-        break
     try:
-        with os.fdopen(fd, "wb") as fh:
-            fh.write(before)
-            fh.flush()
-            os.fsync(fh.fileno())
+        while True:
+            before_path = folder / f"build-{number:04d}.before"
+            try:
+                os.link(tmp, before_path)     # atomic: whole content, fails if the name exists
+            except FileExistsError:
+                number += 1
+                continue
+            except OSError as exc:
+                raise StockEditError(f"{before_path}: cannot write: {exc.strerror or exc}") \
+                    from exc
+            break
+    finally:
+        Path(tmp).unlink(missing_ok=True)
+    try:
         record = BuildRecord(
             number=number, time=_now(), state="pending", stock=str(Path(stock_path).resolve()),
             sha256_before=hashlib.sha256(before).hexdigest(),
@@ -181,19 +183,33 @@ def _read(path: Path, number: int) -> BuildRecord:
             from exc
 
 
-def _write_atomic(path: Path, data: bytes) -> None:
-    fd, tmp = tempfile.mkstemp(dir=path.parent, prefix=f".{path.name}.", suffix=".tmp")
+def _write_temp(folder: Path, label: str, data: bytes) -> str:
+    """``data`` in a new fsynced temporary file in ``folder``; returns its path."""
+    fd, tmp = tempfile.mkstemp(dir=folder, prefix=f".{label}.", suffix=".tmp")
     try:
         with os.fdopen(fd, "wb") as fh:
             fh.write(data)
             fh.flush()
             os.fsync(fh.fileno())
+    except BaseException:
+        Path(tmp).unlink(missing_ok=True)
+        raise
+    return tmp
+
+
+def _write_atomic(path: Path, data: bytes) -> None:
+    tmp = _write_temp(path.parent, path.name, data)
+    try:
         os.replace(tmp, path)
     except BaseException:
         Path(tmp).unlink(missing_ok=True)
         raise
+    _sync_folder(path.parent)
+
+
+def _sync_folder(folder: Path) -> None:
     try:
-        dfd = os.open(path.parent, os.O_RDONLY)
+        dfd = os.open(folder, os.O_RDONLY)
     except OSError:
         return
     try:
