@@ -53,7 +53,8 @@ def _fmt(value: float, kind: str) -> str:
 def _describe_line(kind: str, line) -> str:
     value = line.name if kind == "opamp" else _fmt(line.value, kind)
     where = f" in {line.location}" if line.location else " (no location)"
-    return f"{kind} line {line.index} ({value}{where}, file line {line.line})"
+    word = "op amp" if kind == "opamp" else kind
+    return f"{word} line {line.index} ({value}{where}, file line {line.line})"
 
 
 def plan_build(design: SavedDesign, stock) -> BuildPlan:
@@ -73,70 +74,32 @@ def plan_build(design: SavedDesign, stock) -> BuildPlan:
     src = design.path or "the design"
     problems: list[str] = []
     short: list[str] = []
-    uses: dict[tuple[str, int], dict] = {}
-    for s, pos, k, part in design.parts():
-        u = uses.setdefault((part.kind, part.index), {"part": part, "count": 0,
-                                                       "measured": [], "names": []})
-        u["count"] += 1
-        u["names"].append(designator(pos.name, pos.arrangement, k)
-                          + (f" (stage {s})" if len(design.stages) > 1 else ""))
-        if part.measured is not None:
-            u["measured"].append(part)
-    changes = []
-    summary = []
-    cautions = []
-    order = {"resistor": 0, "capacitor": 1}
-    for (kind, index), u in sorted(uses.items(), key=lambda kv: (order[kv[0][0]], kv[0][1])):
-        part = u["part"]
-        want = f"{kind} line {index} ({_fmt(part.nominal, kind)} in {part.location or '-'})"
-        lines = stock.lines(kind)
-        if index >= len(lines):
-            problems.append(f"{src} names {want}, but the stock has only {len(lines)} "
-                            f"{kind} lines")
+    changes, summary, cautions = [], [], []
+    for (kind, index), use in _tally(design):
+        line = _same_line(src, kind, index, use["part"], stock, problems)
+        if line is None:
             continue
-        line = lines[index]
-        if not math.isclose(line.value, part.nominal, rel_tol=1e-9) \
-                or line.location != part.location:
-            problems.append(f"{src} names {want}, but the stock now has "
-                            f"{_describe_line(kind, line)} there")
-            continue
-        taken = []
-        for mp in u["measured"]:
-            if mp.measured >= len(line.measured) \
-                    or not math.isclose(line.measured[mp.measured], mp.value, rel_tol=1e-9):
-                problems.append(f"{src} takes the measured piece {mp.measured} "
-                                f"({_fmt(mp.value, kind)}) of {want}, but the stock no longer "
-                                f"lists that reading there")
-            taken.append(mp.measured)
-        n_nominal = u["count"] - len(taken)
-        if u["count"] > line.qty or n_nominal > line.nominal_qty:
-            short.append(f"{want} (file line {line.line}): the design takes {u['count']} "
-                         f"({n_nominal} unmeasured), the stock has {line.qty} "
-                         f"({line.nominal_qty} unmeasured)")
-        changes.append(QtyChange(kind, index, -u["count"], tuple(sorted(taken))))
+        taken = _measured_taken(src, kind, index, use, line, problems)
+        n_nominal = use["count"] - len(taken)
+        if use["count"] > line.qty or n_nominal > line.nominal_qty:
+            short.append(f"{_wanted(kind, index, use['part'])} (file line {line.line}): the "
+                         f"design takes {use['count']} ({n_nominal} unmeasured), the stock has "
+                         f"{line.qty} ({line.nominal_qty} unmeasured)")
+        changes.append(QtyChange(kind, index, -use["count"], tuple(sorted(taken))))
         summary.append(f"{kind} {_fmt(line.value, kind)} from {line.location or '(no location)'}"
-                       f": take {u['count']} for {', '.join(u['names'])}"
-                       f" (qty {line.qty} -> {line.qty - u['count']})")
-        cautions += _cautions(kind, line, u["names"], design)
+                       f": take {use['count']} for {', '.join(use['names'])}"
+                       f" (qty {line.qty} -> {line.qty - use['count']})")
+        cautions += _cautions(kind, line, use["names"], design)
     if design.opamp is not None:
-        oa = design.opamp
-        need = opamp_packages(design)
-        lines = stock.opamps
-        want = f"op amp line {oa.index} ({oa.name!r} in {oa.location or '-'})"
-        if oa.index >= len(lines):
-            problems.append(f"{src} names {want}, but the stock has only {len(lines)} "
-                            f"op amp lines")
-        elif lines[oa.index].name != oa.name or lines[oa.index].location != oa.location:
-            problems.append(f"{src} names {want}, but the stock now has "
-                            f"{_describe_line('opamp', lines[oa.index])} there")
-        else:
-            line = lines[oa.index]
+        line = _same_opamp(src, design.opamp, stock, problems)
+        if line is not None:
+            need = opamp_packages(design)
             if need > line.qty:
-                short.append(f"{want} (file line {line.line}): the design takes {need}, "
-                             f"the stock has {line.qty}")
-            changes.append(QtyChange("opamp", oa.index, -need))
-            summary.append(f"op amp {oa.name} from {oa.location or '(no location)'}: take {need}"
-                           f" (qty {line.qty} -> {line.qty - need})")
+                short.append(f"op amp line {line.index} ({line.name!r}) (file line "
+                             f"{line.line}): the design takes {need}, the stock has {line.qty}")
+            changes.append(QtyChange("opamp", line.index, -need))
+            summary.append(f"op amp {line.name} from {line.location or '(no location)'}: take "
+                           f"{need} (qty {line.qty} -> {line.qty - need})")
     if problems:
         raise StockEditError("the stock no longer matches the design; nothing was changed:\n  "
                              + "\n  ".join(problems)
@@ -160,6 +123,70 @@ def plan_build(design: SavedDesign, stock) -> BuildPlan:
                      stock_sha256=stock.sha256, changes=tuple(changes), picks=picks,
                      count=pick_count(picks), summary=tuple(summary), cautions=tuple(cautions),
                      warnings=tuple(warnings), design_path=design.path)
+
+
+_KIND_ORDER = {"resistor": 0, "capacitor": 1}
+
+
+def _tally(design: SavedDesign):
+    """Pieces per stock line: ((kind, index), {part, count, measured parts, names}), sorted."""
+    uses: dict[tuple[str, int], dict] = {}
+    for s, pos, k, part in design.parts():
+        u = uses.setdefault((part.kind, part.index), {"part": part, "count": 0,
+                                                       "measured": [], "names": []})
+        u["count"] += 1
+        u["names"].append(designator(pos.name, pos.arrangement, k)
+                          + (f" (stage {s})" if len(design.stages) > 1 else ""))
+        if part.measured is not None:
+            u["measured"].append(part)
+    return sorted(uses.items(), key=lambda kv: (_KIND_ORDER[kv[0][0]], kv[0][1]))
+
+
+def _wanted(kind: str, index: int, part) -> str:
+    return f"{kind} line {index} ({_fmt(part.nominal, kind)} in {part.location or '-'})"
+
+
+def _same_line(src, kind: str, index: int, part, stock, problems: list[str]):
+    """The stock line the part names if it is still the same line, else None (noted)."""
+    lines = stock.lines(kind)
+    want = _wanted(kind, index, part)
+    if index >= len(lines):
+        problems.append(f"{src} names {want}, but the stock has only {len(lines)} {kind} lines")
+        return None
+    line = lines[index]
+    if not math.isclose(line.value, part.nominal, rel_tol=1e-9) \
+            or line.location != part.location:
+        problems.append(f"{src} names {want}, but the stock now has "
+                        f"{_describe_line(kind, line)} there")
+        return None
+    return line
+
+
+def _measured_taken(src, kind: str, index: int, use: dict, line, problems) -> list[int]:
+    """Indices of the measured readings the design takes; a reading no longer there is noted."""
+    taken = []
+    for mp in use["measured"]:
+        if mp.measured >= len(line.measured) \
+                or not math.isclose(line.measured[mp.measured], mp.value, rel_tol=1e-9):
+            problems.append(f"{src} takes the measured piece {mp.measured} "
+                            f"({_fmt(mp.value, kind)}) of {_wanted(kind, index, use['part'])}, "
+                            f"but the stock no longer lists that reading there")
+        taken.append(mp.measured)
+    return taken
+
+
+def _same_opamp(src, oa, stock, problems: list[str]):
+    lines = stock.opamps
+    want = f"op amp line {oa.index} ({oa.name!r} in {oa.location or '-'})"
+    if oa.index >= len(lines):
+        problems.append(f"{src} names {want}, but the stock has only {len(lines)} op amp lines")
+        return None
+    line = lines[oa.index]
+    if line.name != oa.name or line.location != oa.location:
+        problems.append(f"{src} names {want}, but the stock now has "
+                        f"{_describe_line('opamp', line)} there")
+        return None
+    return line
 
 
 def _cautions(kind: str, line, names: list[str], design: SavedDesign) -> list[str]:

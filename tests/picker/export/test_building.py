@@ -290,3 +290,18 @@ def test_cli_build_without_any_stock_path(tmp_path, stock_file, capsys):
                 stock=stock)
     assert main(["build", str(tmp_path / "nopath.toml"), "--yes"]) == 2
     assert "names no stock file; pass --stock FILE" in capsys.readouterr().err
+
+
+@pytest.mark.parametrize("old, new, error, words", [
+    ('channels = 2\nsupply = "30V"\nqty = 2', 'channels = 2\nsupply = "30V"\nqty = 0',
+     NoDesignError, r"op amp line 0 \('dual JFET-input'\).*takes 1, the stock has 0"),
+    ('name = "dual JFET-input"', 'name = "dual bipolar"', StockEditError,
+     r"names op amp line 0 \('dual JFET-input' in IC tray\), but the stock now has op amp "
+     r"line 0 \(dual bipolar in IC tray"),
+])
+def test_opamp_line_checked(tmp_path, stock_file, old, new, error, words):
+    design = _design(tmp_path, stock_file)
+    stock_file.write_text(stock_file.read_text(encoding="utf-8").replace(old, new),
+                          encoding="utf-8")
+    with pytest.raises(error, match=words):
+        plan_build(design, load(stock_file))
