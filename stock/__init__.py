@@ -1,6 +1,11 @@
 """The parts on hand: values, preferred-number series, the stock file and its safe edit.
 
 Knows nothing of filters or screens.
+
+    stock.values    parse_value / format_rkm / format_si and the %, ppm, V, Hz, V/us readers
+    stock.eseries   series, nearest, series_of (IEC 60063 tables)
+    stock.file      load, loads, file_sha256; QtyChange, EditResult, apply_changes,
+                    add_line, replace_bytes (work done in stock.load, stock.fields, stock.edit)
 """
 
 from stock.errors import PickerError, StockEditError, StockError, StockFileError, ValueParseError

@@ -329,9 +329,16 @@ def _round_trip(text: str, plan) -> str:
     return tomlkit.dumps(doc)
 
 
-def _toml_value(value) -> str:
+def _toml_line(path, key, value) -> str:
     import tomlkit
-    return tomlkit.item(value).as_string()
+    if not isinstance(key, str) or not re.fullmatch(r"[A-Za-z0-9_-]+", key):
+        raise StockEditError(f"{path}: '{key}' is not a key a stock line can have; "
+                             "nothing was written")
+    try:
+        return f"{key} = {tomlkit.item(value).as_string()}"
+    except Exception:  # tomlkit raises several types for values TOML cannot hold
+        raise StockEditError(f"{path}: {key} = {value!r} cannot be written to TOML; "
+                             "nothing was written") from None
 
 
 def add_line(path, kind: str, fields: dict, *, expect_sha256: str | None = None) -> EditResult:
@@ -348,7 +355,7 @@ def add_line(path, kind: str, fields: dict, *, expect_sha256: str | None = None)
         bom, text = _text_of(before, path)
         stock = _check_loads(text, path, "the stock file has problems")
         nl = "\r\n" if "\r\n" in text else "\n"
-        body = [f"[[{kind}]]"] + [f"{k} = {_toml_value(v)}" for k, v in fields.items()]
+        body = [f"[[{kind}]]"] + [_toml_line(path, k, v) for k, v in fields.items()]
         lead = ""
         if text and not text.endswith(("\n", "\r")):
             lead = nl

@@ -134,6 +134,8 @@ def test_add_line_appends_and_keeps_bytes(stockfile):
 @pytest.mark.parametrize("fields, match", [
     ({"value": "10", "qty": 1}, "capacitor value"),
     ({"value": "1n"}, "capacitor qty"),
+    ({"value": "1n", "qty": 1, "note": None}, "cannot be written"),
+    ({"value": "1n", "qty": 1, "bad key": 1}, "not a key"),
 ])
 def test_add_line_refuses_invalid(stockfile, fields, match):
     before = stockfile.read_bytes()
