@@ -2,6 +2,10 @@
 
 from __future__ import annotations
 
+import os
+import sys
+import threading
+
 
 def run(args) -> int:
     from picker.commands.common import resolve_stock_path
@@ -10,4 +14,12 @@ def run(args) -> int:
     path, note = resolve_stock_path(getattr(args, "stock", None))
     app = PickerApp(path, note=note)
     app.run(mouse=bool(getattr(args, "mouse", False)))
-    return int(app.return_code or 0)
+    code = int(app.return_code or 0)
+    if any(t.is_alive() and t is not threading.main_thread() for t in threading.enumerate()):
+        # A search or budget still computing in a worker thread (threads cannot be
+        # stopped, and they only compute: every write to the stock file happens on
+        # the main thread and is finished). Leave now instead of waiting for it.
+        sys.stdout.flush()
+        sys.stderr.flush()
+        os._exit(code)
+    return code

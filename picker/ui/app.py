@@ -7,6 +7,7 @@ meaning is always carried by words and marks as well.
 
 from __future__ import annotations
 
+import os
 from pathlib import Path
 
 from textual.app import App
@@ -25,10 +26,13 @@ class PickerApp(App):
     ]
 
     def __init__(self, stock_path: Path | None, *, note: str | None = None) -> None:
-        super().__init__()
+        # NO_COLOR: the terminal's own colours (ansi_color) and the ANSI theme, so that
+        # Textual strips every colour instead of painting greys (TERMINAL.md)
+        no_color = "NO_COLOR" in os.environ
+        super().__init__(ansi_color=no_color)
         self.stock_path = stock_path
         self.note = note
-        if self.no_color:
+        if no_color:
             self.theme = "ansi-dark"
 
     def on_mount(self) -> None:

@@ -114,3 +114,44 @@ def f0_histogram(budget_) -> dict:
             "nominal": h.nominal, "window": dict(mc.window).get("f0", 0.0),
             "trials": mc.trials, "yield": mc.yield_, "quantity": h.quantity,
             "outside": h.outside}
+
+
+# building --------------------------------------------------------------------------
+def plan_build(candidate, stock, targets: Targets | None):
+    """The checked build plan of ``candidate`` (nothing is written yet)."""
+    import dataclasses
+    exp = need("picker.export", "design_from_candidate")
+    building = need("picker.building", "plan_build", "do_build")
+    request = dataclasses.asdict(targets) if targets is not None else {}
+    design = exp.design_from_candidate(candidate=candidate, request=request, stock=stock)
+    return building.plan_build(design, stock)
+
+
+def build_listing(plan) -> str:
+    """What the confirmation shows: the parts by drawer, cautions, the safety note."""
+    picklist = need("picker.export.picklist", "pick_list_lines")
+    building = need("picker.building", "SAFETY_NOTE")
+    lines = [f"{plan.count} item(s) to take, by drawer:"]
+    lines += picklist.pick_list_lines(plan.picks)
+    lines += [f"caution: {c}" for c in plan.cautions]
+    lines += [f"warning: {w}" for w in plan.warnings]
+    lines += ["", building.SAFETY_NOTE]
+    return "\n".join(lines)
+
+
+def do_build(plan, stock_path: Path) -> str:
+    need("picker.building", "do_build").do_build(stock_path, plan)
+    return f"{plan.count} item(s) taken out of {Path(stock_path).name}"
+
+
+def last_build(stock_path: Path) -> str:
+    """What undo would undo, in words; raises StockEditError when it cannot."""
+    record = need("picker.building", "undo_preview").undo_preview(stock_path)
+    lines = [f"build {record.number} of {record.time}:"]
+    lines += [f"  {s}" for s in record.summary]
+    return "\n".join(lines)
+
+
+def undo_last(stock_path: Path) -> str:
+    need("picker.building", "undo_last").undo_last(stock_path)
+    return f"{Path(stock_path).name} is back as it was before that build"

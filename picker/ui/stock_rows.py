@@ -26,9 +26,12 @@ class Row:
     cells: tuple[str, ...]     # the texts shown, in COLUMNS order
 
 
+ASSUMED_MARK = "*"   # after a tolerance the file does not state (the default is assumed)
+
+
 def _pct(fraction: float, assumed: bool) -> str:
     text = f"{fraction * 100:g}%"
-    return text + " (assumed)" if assumed else text
+    return text + ASSUMED_MARK if assumed else text
 
 
 def rows_of(stock, fmt_value: Callable[[float, str], str],
@@ -53,9 +56,10 @@ def rows_of(stock, fmt_value: Callable[[float, str], str],
                                                                    c.tolerance_assumed),
             c.location or "-", ", ".join(a for a in about if a))))
     for o in stock.opamps:
-        about = [o.name, f"GBW {fmt_si(o.gbw, 'Hz')}", f"{o.channels} per package"]
+        about = [o.name, f"{o.channels} per package", o.note or ""]
         rows.append(Row("opamp", o.index, o.gbw, o.qty, (
-            "op amp", o.name, str(o.qty), "", o.location or "-", ", ".join(about[1:]))))
+            "op amp", fmt_si(o.gbw, "Hz"), str(o.qty), "", o.location or "-",
+            ", ".join(a for a in about if a))))
     return rows
 
 

@@ -14,6 +14,7 @@ from rich.text import Text
 from textual import on, work
 from textual.app import ComposeResult
 from textual.binding import Binding
+from textual.lazy import Lazy
 from textual.screen import Screen
 from textual.widgets import ContentSwitcher, Footer, Static
 from textual.worker import get_current_worker
@@ -39,20 +40,25 @@ def describe(targets: Targets) -> str:
     return text + f" at {targets.fc_hz:g} Hz"
 
 
+def bar_text(current: str, *, busy: bool, stock_name: str) -> Text:
+    """The pane names with the current one in brackets, the busy mark, the file name."""
+    text = Text()
+    for n, (pane_id, label) in enumerate(PANES, 1):
+        if pane_id == current:
+            text.append(f"[{n} {label}]", style="reverse bold")
+        else:
+            text.append(f" {n} {label} ")
+        text.append(" ")
+    text.append("  [busy] " if busy else "  ", style="bold")
+    text.append(stock_name)
+    return text
+
+
 class PaneBar(Static):
     """The pane names with the current one marked by brackets, and the busy state."""
 
     def show(self, current: str, *, busy: bool, stock_name: str) -> None:
-        text = Text()
-        for n, (pane_id, label) in enumerate(PANES, 1):
-            if pane_id == current:
-                text.append(f"[{n} {label}]", style="reverse bold")
-            else:
-                text.append(f" {n} {label} ")
-            text.append(" ")
-        text.append("  [busy] " if busy else "  ", style="bold")
-        text.append(stock_name)
-        self.update(text)
+        self.update(bar_text(current, busy=busy, stock_name=stock_name))
 
 
 class MainScreen(TypingAware, Screen):
@@ -72,17 +78,23 @@ class MainScreen(TypingAware, Screen):
         self.note = note
         self.stock = None
         self.targets: Targets | None = None
+        self.result_targets: Targets | None = None    # the targets of the matches shown
         self.busy = False
         self.generation = 0
         self._timer = None
+        self._searching: Targets | None = None
+        self._pending = False
 
     def compose(self) -> ComposeResult:
-        yield PaneBar(id="pane-bar")
+        name = self.stock_path.name if self.stock_path else "no stock file"
+        yield PaneBar(bar_text("drawers", busy=False, stock_name=name), id="pane-bar")
         with ContentSwitcher(initial="drawers", id="panes"):
             yield DrawersPane(id="drawers")
-            yield TargetsPane(id="targets")
-            yield MatchesPane(id="matches")
-            yield ChosenPane(id="chosen")
+            # the hidden panes mount after the first paint (start-up time)
+            for pane in (TargetsPane(id="targets"), MatchesPane(id="matches"),
+                         ChosenPane(id="chosen")):
+                pane.display = False
+                yield Lazy(pane)
         yield Footer()
 
     def on_mount(self) -> None:
@@ -100,6 +112,8 @@ class MainScreen(TypingAware, Screen):
         self.query_one(PaneBar).show(self.current, busy=self.busy, stock_name=name)
 
     def action_pane(self, pane_id: str) -> None:
+        if not self.query(f"#{pane_id}"):
+            return                    # still mounting (the first moment after start)
         self.query_one(ContentSwitcher).current = pane_id
         self._bar()
         pane = self.query_one(f"#{pane_id}")
@@ -132,7 +146,8 @@ class MainScreen(TypingAware, Screen):
             drawers.show_error(str(exc))
             return
         drawers.show_stock(self.stock, note)
-        self.query_one(ChosenPane).set_stock(self.stock)
+        for chosen in self.query(ChosenPane):     # absent until the lazy mount is done
+            chosen.set_stock(self.stock)
         self.schedule_search()
 
     @on(DrawersPane.StockChanged)
@@ -154,9 +169,14 @@ class MainScreen(TypingAware, Screen):
 
     def _start_search(self) -> None:
         self._timer = None
-        matches = self.query_one(MatchesPane)
         if self.targets is None:
             return
+        if self.busy:
+            # a thread cannot be stopped: let the running search end, then start the newest
+            self._pending = True
+            return
+        self._pending = False
+        matches = self.query_one(MatchesPane)
         if self.stock is None:
             matches.show_message("no stock loaded: see pane 1")
             return
@@ -166,6 +186,7 @@ class MainScreen(TypingAware, Screen):
         what = describe(self.targets)
         matches.show_busy(what)
         self._search(self.stock, self.targets, self.generation, what)
+        self._searching = self.targets
 
     @work(thread=True, exclusive=True, group="search", exit_on_error=False)
     def _search(self, stock, targets: Targets, generation: int, what: str) -> None:
@@ -189,12 +210,14 @@ class MainScreen(TypingAware, Screen):
             self.app.call_from_thread(self._searched, generation, outcome, seconds, what)
 
     def _searched(self, generation: int, outcome, seconds: float, what: str) -> None:
-        if generation != self.generation:
-            return        # a newer search is on its way
         self.busy = False
         self._bar()
+        if self._pending:
+            self._start_search()      # the targets or the stock changed meanwhile
+            return
         matches = self.query_one(MatchesPane)
         kind, payload = outcome
+        self.result_targets = self._searching
         if kind == "done":
             matches.show_result(payload, seconds=seconds, what=what)
         else:
@@ -202,5 +225,7 @@ class MainScreen(TypingAware, Screen):
 
     @on(MatchesPane.Chosen)
     def _chosen(self, event: MatchesPane.Chosen) -> None:
-        self.query_one(ChosenPane).show(event.candidate, event.rank)
+        chosen = self.query_one(ChosenPane)
+        chosen.set_stock(self.stock)
+        chosen.show(event.candidate, event.rank, self.result_targets)
         self.action_pane("chosen")

@@ -38,6 +38,7 @@ class ChosenPane(VerticalScroll):
     def __init__(self, **kwargs) -> None:
         super().__init__(**kwargs)
         self.candidate = None
+        self.targets = None
         self.rank = 0
         self.stock = None
 
@@ -56,8 +57,8 @@ class ChosenPane(VerticalScroll):
         self.stock = stock
 
     # showing ---------------------------------------------------------------------
-    def show(self, candidate, rank: int) -> None:
-        self.candidate, self.rank = candidate, rank
+    def show(self, candidate, rank: int, targets=None) -> None:
+        self.candidate, self.rank, self.targets = candidate, rank, targets
         warn = f"; {len(candidate.warnings)} warning(s) below" if candidate.warnings else ""
         self.query_one("#c-title", Static).update(
             f"candidate {rank}: worst error {pct(candidate.score)}, {candidate.pieces} pieces"
@@ -142,7 +143,7 @@ class ChosenPane(VerticalScroll):
             self._status(say("error", "no stock file is open"))
             return
         try:
-            plan = backend.plan_build(self.candidate, self.stock)
+            plan = backend.plan_build(self.candidate, self.stock, self.targets)
             body = backend.build_listing(plan)
         except backend.Unavailable as exc:
             self._status(f"build: not available yet ({exc})")
@@ -157,7 +158,7 @@ class ChosenPane(VerticalScroll):
                 self._status("build cancelled: the stock file is unchanged")
                 return
             try:
-                note = backend.do_build(plan)
+                note = backend.do_build(plan, self.stock.path)
             except PickerError as exc:
                 self._status(say("refused", str(exc) + " (the stock file is unchanged)"))
                 return

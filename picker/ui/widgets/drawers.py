@@ -15,7 +15,7 @@ from textual.message import Message
 from textual.widgets import DataTable, Input, Label, Static
 
 from picker.ui import backend
-from picker.ui.stock_rows import COLUMNS, Row, matches, qty_delta, rows_of
+from picker.ui.stock_rows import ASSUMED_MARK, COLUMNS, Row, matches, qty_delta, rows_of
 from picker.ui.widgets.common import TypingAware, say
 from stock.errors import PickerError
 
@@ -72,6 +72,8 @@ class DrawersPane(TypingAware, Vertical):
             note = f"value formatting {exc}"
         self._refill()
         status = [note] if note else []
+        if any(row.cells[3].endswith(ASSUMED_MARK) for row in self.rows):
+            status.append(f"{ASSUMED_MARK} tolerance not in the file: the default is assumed")
         status += [f"warning: {w}" for w in stock.warnings]
         self.query_one("#drawers-status", Static).update("\n".join(status))
         self._describe_target()
