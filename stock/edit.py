@@ -24,7 +24,6 @@ the stock file; the next write removes it.
 
 from __future__ import annotations
 
-import errno
 import fcntl
 import hashlib
 import os
@@ -154,15 +153,16 @@ def _write_atomic(real: Path, data: bytes, st: os.stat_result) -> None:
         except OSError:
             pass
         raise
+    # make the rename itself durable; the new file is in place already, so a folder that
+    # cannot be opened or fsynced (some file systems) is not an error
     try:
         dfd = os.open(real.parent, os.O_RDONLY | os.O_DIRECTORY)
     except OSError:
         return
     try:
         os.fsync(dfd)
-    except OSError as exc:  # some file systems cannot fsync a folder
-        if exc.errno not in (errno.EINVAL, errno.EBADF):
-            raise
+    except OSError:
+        pass
     finally:
         os.close(dfd)
 
