@@ -25,7 +25,7 @@ from stock.values import format_rkm  # noqa: E402
 
 
 def generate(n_lines: int, seed: int = 1) -> str:
-    """A stock file with ``n_lines`` entries (about 70 % resistors, 28 % capacitors, 2 % op amps)."""
+    """A stock file of ``n_lines`` entries: about 70 % resistors, 28 % capacitors, 2 % op amps."""
     rng = random.Random(seed)
     e96 = series("E96")
     out = ['# generated for bench/bench_stock.py', '[stock]', 'name = "bench"', 'format = 1', '']

@@ -377,4 +377,5 @@ def replace_bytes(path, content: bytes, *, expect_sha256: str) -> EditResult:
     return _edit(path, lambda before: content, expect_sha256)
 
 
-__all__ = ["EditResult", "QtyChange", "StockChangedError", "add_line", "apply_changes", "locked", "replace_bytes"]
+__all__ = ["EditResult", "QtyChange", "StockChangedError", "add_line", "apply_changes", "locked",
+           "replace_bytes"]

@@ -95,7 +95,8 @@ def series_of(value: float, *, rel_tol: float = 1e-6) -> str | None:
     """The smallest series (E3, E6 ... E192, in that order) that contains ``value``, or None.
 
     ``series_of(4700)`` -> ``"E3"``; ``series_of(3.0e-9)`` -> ``"E24"``;
-    ``series_of(4870)`` -> ``"E48"``; ``series_of(4750)`` -> ``"E96"``; ``series_of(4.8e3)`` -> None.
+    ``series_of(4870)`` -> ``"E48"``; ``series_of(4750)`` -> ``"E96"``;
+    ``series_of(4.8e3)`` -> None.
     """
     try:
         mant, _ = _decade(value)

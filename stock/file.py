@@ -10,5 +10,5 @@ from stock.edit import (
 )
 from stock.load import decode, file_sha256, load, loads
 
-__all__ = ["EditResult", "QtyChange", "StockChangedError", "add_line", "apply_changes", "decode", "file_sha256",
-           "load", "loads", "replace_bytes"]
+__all__ = ["EditResult", "QtyChange", "StockChangedError", "add_line", "apply_changes",
+           "decode", "file_sha256", "load", "loads", "replace_bytes"]

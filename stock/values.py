@@ -40,7 +40,8 @@ _PREFIX = r"(?:[mM][eE][gG]|[fpnuµμmkKMGT])"
 _OHM = r"(?:Ω|Ω|[oO][hH][mM][sS]?|R)"
 _RKM_LETTER = r"[RFfpnuµμmkKMGT]"
 
-_SI_RE = re.compile(rf"^(?P<sign>[+-]?)(?P<num>{_NUM})\s*(?P<prefix>{_PREFIX})?\s*(?P<unit>[^\s0-9]*)$")
+_SI_RE = re.compile(rf"^(?P<sign>[+-]?)(?P<num>{_NUM})\s*(?P<prefix>{_PREFIX})?"
+                    r"\s*(?P<unit>[^\s0-9]*)$")
 _RKM_RE = re.compile(rf"^(?P<sign>[+-]?)(?P<int>[0-9]*)(?P<letter>{_RKM_LETTER})(?P<frac>[0-9]+)"
                      rf"\s*(?P<unit>[^\s0-9]*)$")
 

@@ -282,7 +282,8 @@ _change = st.sampled_from(["resistor", "capacitor", "opamp"]).flatmap(
                         st.integers(-30, 5)))
 
 
-@settings(max_examples=40, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@settings(max_examples=40, deadline=None,
+          suppress_health_check=[HealthCheck.function_scoped_fixture])
 @given(st.lists(_change, min_size=1, max_size=4))
 def test_edit_fuzz_all_or_nothing(tmp_path, changes):
     # a change set either applies in full (exactly the planned qty, only qty lines differ)

@@ -49,7 +49,8 @@ def test_e192_count_and_spot_values():
 
 def test_e192_is_the_formula_except_9_20():
     # IEC 60063 table 2 follows round(10**(i/192), 2) except 9.20 (the formula gives 9.19)
-    diff = [(i, v) for i, v in enumerate(series("E192")) if abs(round(10 ** (i / 192), 2) - v) > 1e-9]
+    diff = [(i, v) for i, v in enumerate(series("E192"))
+            if abs(round(10 ** (i / 192), 2) - v) > 1e-9]
     assert diff == [(185, 9.20)]
     for name, n in (("E48", 48), ("E96", 96)):
         assert all(abs(round(10 ** (i / n), 2) - v) < 1e-9 for i, v in enumerate(series(name)))
@@ -57,13 +58,15 @@ def test_e192_is_the_formula_except_9_20():
 
 def test_series_nest():
     # IEC 60063: each series contains the one with half as many values
-    for small, big in (("E3", "E6"), ("E6", "E12"), ("E12", "E24"), ("E48", "E96"), ("E96", "E192")):
+    for small, big in (("E3", "E6"), ("E6", "E12"), ("E12", "E24"), ("E48", "E96"),
+                       ("E96", "E192")):
         assert set(series(small)) <= set(series(big))
 
 
 @pytest.mark.parametrize("value, name, expected", [
     (37.4e3, "E12", 39e3), (9.6, "E24", 10.0), (1.04e-9, "E6", 1e-9), (2.9e3, "E24", 3.0e3),
-    (4.8e3, "E96", 4.75e3), (9.19, "E192", 9.2), (9.93, "E192", 9.88), (9.95, "E192", 10.0), (0.0305, "E12", 0.033),
+    (4.8e3, "E96", 4.75e3), (9.19, "E192", 9.2), (9.93, "E192", 9.88), (9.95, "E192", 10.0),
+    (0.0305, "E12", 0.033),
     (1e6, "E3", 1e6)])
 def test_nearest(value, name, expected):
     # expected from the IEC 60063 tables by hand (log-scale nearest)
