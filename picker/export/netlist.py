@@ -25,11 +25,12 @@ from __future__ import annotations
 
 import math
 
+from picker.analysis import A0_DEFAULT
 from picker.errors import DesignError
 from picker.export.bom import designator
 from picker.export.design_file import SavedDesign
 
-OPEN_LOOP_GAIN = 2e5   # DC open-loop gain of a general-purpose op amp (common practice)
+OPEN_LOOP_GAIN = A0_DEFAULT   # the same open-loop gain as picker.analysis (2e5, common practice)
 GM = 1e-3                   # transconductance of the macro-model's input stage, siemens
 POINTS_PER_DECADE = 50
 
