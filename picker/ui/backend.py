@@ -155,3 +155,42 @@ def last_build(stock_path: Path) -> str:
 def undo_last(stock_path: Path) -> str:
     need("picker.building", "undo_last").undo_last(stock_path)
     return f"{Path(stock_path).name} is back as it was before that build"
+
+
+# jobs for a child process (picker.ui.offload): plain arguments in, plain data out ----
+def search_job(stock, targets: Targets, top: int = 8):
+    """("done", SearchResult) or ("unavailable", message); PickerError propagates."""
+    try:
+        return "done", search(stock, plan(targets), targets, top=top)
+    except Unavailable as exc:
+        return "unavailable", f"search not available yet ({exc})"
+
+
+def detail_job(candidate, points: int = 400) -> dict:
+    """The response curve and the error budget of ``candidate``, each or its reason.
+
+    Keys: "plot" (freqs, mag_db, phase_deg lists) or "plot_note"; "budget" (the
+    Budget) or "budget_note".
+    """
+    import numpy as np
+
+    out: dict = {}
+    try:
+        lo = min(s.target.f0_hz for s in candidate.stages) / 100
+        hi = max(s.target.f0_hz for s in candidate.stages) * 100
+        freqs = np.logspace(np.log10(lo), np.log10(hi), points)
+        h = response(candidate, freqs)
+        mag = 20 * np.log10(np.maximum(np.abs(h), 1e-30))
+        phase = np.degrees(np.unwrap(np.angle(h)))
+        out["plot"] = (freqs.tolist(), mag.tolist(), phase.tolist())
+    except Unavailable as exc:
+        out["plot_note"] = f"not available yet ({exc})"
+    except Exception as exc:  # shown in the pane as text
+        out["plot_note"] = f"error: {type(exc).__name__}: {exc}"
+    try:
+        out["budget"] = budget(candidate)
+    except Unavailable as exc:
+        out["budget_note"] = f"not available yet ({exc})"
+    except Exception as exc:
+        out["budget_note"] = f"error: {type(exc).__name__}: {exc}"
+    return out

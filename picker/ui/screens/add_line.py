@@ -12,10 +12,10 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical
 from textual.screen import ModalScreen
-from textual.widgets import Footer, Input, Label, Select, Static
+from textual.widgets import Footer, Input, Label, OptionList, Select, Static
 
 from picker.ui import backend
-from picker.ui.widgets.common import say
+from picker.ui.widgets.common import put, say
 from stock.errors import PickerError, ValueParseError
 
 # field -> (label, kinds it belongs to, placeholder)
@@ -67,8 +67,15 @@ class AddLineScreen(ModalScreen[str | None]):
     """Returns a note on success (the screen then reads the file again), else None."""
 
     BINDINGS = [
+        Binding("enter", "write", "write the line", priority=True),
         Binding("ctrl+g,escape", "cancel", "cancel", key_display="^g"),
     ]
+
+    def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
+        # enter belongs to a list while the focus is on it (it opens and chooses)
+        if action == "write" and isinstance(self.focused, (Select, OptionList)):
+            return False
+        return True
 
     def __init__(self, path, sha256: str | None) -> None:
         super().__init__()
@@ -116,12 +123,12 @@ class AddLineScreen(ModalScreen[str | None]):
         try:
             value = check(self.kind, name, text)
         except backend.Unavailable as exc:
-            message.update(f"cannot check: {exc}")
+            put(message, f"cannot check: {exc}")
             return False, None
         except PickerError as exc:
-            message.update(say("error", str(exc)) if text.strip() else "")
+            put(message, say("error", str(exc)) if text.strip() else "")
             return False, None
-        message.update("ok" if text.strip() else "")
+        put(message, "ok" if text.strip() else "")
         return True, value
 
     @on(Input.Changed)
@@ -130,7 +137,9 @@ class AddLineScreen(ModalScreen[str | None]):
         if name in FIELDS:
             self._check_one(name)
 
-    @on(Input.Submitted)
+    def action_write(self) -> None:
+        self._submit()
+
     def _submit(self) -> None:
         fields, bad = {}, []
         for name, (label, kinds, _hint) in FIELDS.items():
@@ -140,21 +149,21 @@ class AddLineScreen(ModalScreen[str | None]):
             if not ok:
                 bad.append(label)
                 if not self.query_one(f"#add-{name}", Input).value.strip():
-                    self.query_one(f"#msg-{name}", Static).update(
+                    put(self.query_one(f"#msg-{name}", Static),
                         say("error", f"{label} is required"))
             elif value is not None:
                 fields[name] = value
         status = self.query_one("#add-status", Static)
         if bad:
-            status.update(say("error", "fix " + ", ".join(bad) + " first"))
+            put(status, say("error", "fix " + ", ".join(bad) + " first"))
             return
         try:
             backend.add_line(self.path, self.kind, fields, expect_sha256=self.sha256)
         except backend.Unavailable as exc:
-            status.update(f"not available yet: adding lines ({exc})")
+            put(status, f"not available yet: adding lines ({exc})")
             return
         except PickerError as exc:
-            status.update(say("error", str(exc)))
+            put(status, say("error", str(exc)))
             return
         what = fields.get("value") or fields.get("name")
         self.dismiss(f"added: {self.kind} {what}, qty {fields['qty']}"

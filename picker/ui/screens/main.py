@@ -17,9 +17,11 @@ from textual.binding import Binding
 from textual.lazy import Lazy
 from textual.screen import Screen
 from textual.widgets import ContentSwitcher, Footer, Static
-from textual.worker import get_current_worker
+from textual.worker import Worker, WorkerState, get_current_worker
 
 from picker.ui import backend
+from picker.ui import offload
+from picker.ui.offload import Cancelled, Lane
 from picker.ui.targets_form import Targets
 from picker.ui.widgets.chosen import ChosenPane
 from picker.ui.widgets.common import TypingAware
@@ -83,7 +85,7 @@ class MainScreen(TypingAware, Screen):
         self.generation = 0
         self._timer = None
         self._searching: Targets | None = None
-        self._pending = False
+        self.lane = Lane("search")
 
     def compose(self) -> ComposeResult:
         name = self.stock_path.name if self.stock_path else "no stock file"
@@ -100,7 +102,12 @@ class MainScreen(TypingAware, Screen):
     def on_mount(self) -> None:
         self._bar()
         self.query_one("#stock-table").focus()
+        # after the first paint: the fork server for searches, then the stock file
+        self.call_after_refresh(offload.start)
         self.call_after_refresh(self.read_stock, self.note or "")
+
+    def on_unmount(self) -> None:
+        self.lane.cancel()
 
     # panes -----------------------------------------------------------------------
     @property
@@ -171,11 +178,6 @@ class MainScreen(TypingAware, Screen):
         self._timer = None
         if self.targets is None:
             return
-        if self.busy:
-            # a thread cannot be stopped: let the running search end, then start the newest
-            self._pending = True
-            return
-        self._pending = False
         matches = self.query_one(MatchesPane)
         if self.stock is None:
             matches.show_message("no stock loaded: see pane 1")
@@ -190,31 +192,25 @@ class MainScreen(TypingAware, Screen):
 
     @work(thread=True, exclusive=True, group="search", exit_on_error=False)
     def _search(self, stock, targets: Targets, generation: int, what: str) -> None:
-        """Plan the stages and search the stock; numpy and scipy load here, not at start."""
+        """Plan and search in a child process; a newer search kills this one."""
         worker = get_current_worker()
         t0 = time.perf_counter()
         try:
-            stages = backend.plan(targets)
-            if worker.is_cancelled:
-                return
-            result = backend.search(stock, stages, targets)
-            outcome = ("done", result)
-        except backend.Unavailable as exc:
-            outcome = ("message", f"search not available yet ({exc})")
+            kind, payload = self.lane.run(backend.search_job, stock, targets)
+            outcome = (kind if kind == "done" else "message", payload)
+        except Cancelled:
+            return
         except PickerError as exc:
             outcome = ("message", f"no design: {exc}")
-        except Exception as exc:   # shown, never a traceback
-            outcome = ("message", f"error: {type(exc).__name__}: {exc}")
         seconds = time.perf_counter() - t0
         if not worker.is_cancelled:
             self.app.call_from_thread(self._searched, generation, outcome, seconds, what)
 
     def _searched(self, generation: int, outcome, seconds: float, what: str) -> None:
+        if generation != self.generation:
+            return                    # a newer search is on its way
         self.busy = False
         self._bar()
-        if self._pending:
-            self._start_search()      # the targets or the stock changed meanwhile
-            return
         matches = self.query_one(MatchesPane)
         kind, payload = outcome
         self.result_targets = self._searching
@@ -222,6 +218,16 @@ class MainScreen(TypingAware, Screen):
             matches.show_result(payload, seconds=seconds, what=what)
         else:
             matches.show_message(payload)
+
+    @on(Worker.StateChanged)
+    def _worker_failed(self, event: Worker.StateChanged) -> None:
+        """A search that broke: say so in the matches pane (never a traceback)."""
+        if event.worker.group == "search" and event.state == WorkerState.ERROR:
+            self.busy = False
+            self._bar()
+            error = event.worker.error
+            self.query_one(MatchesPane).show_message(
+                f"error: the search failed: {type(error).__name__}: {error}")
 
     @on(MatchesPane.Chosen)
     def _chosen(self, event: MatchesPane.Chosen) -> None:

@@ -18,6 +18,7 @@ from textual.widgets import Static
 from textual.worker import Worker, WorkerState, get_current_worker
 
 from picker.ui import backend
+from picker.ui.offload import Cancelled, Lane
 from picker.ui.widgets.common import say
 from picker.ui.widgets.matches import pct
 from picker.ui.widgets.plots import F0Histogram, ResponsePlot
@@ -39,6 +40,7 @@ class ChosenPane(VerticalScroll):
         super().__init__(**kwargs)
         self.candidate = None
         self.targets = None
+        self.lane = Lane("detail")
         self.rank = 0
         self.stock = None
 
@@ -52,6 +54,9 @@ class ChosenPane(VerticalScroll):
             yield ResponsePlot(id="c-plot")
             yield F0Histogram(id="c-hist")
         yield Static("", id="c-status", markup=False)
+
+    def on_unmount(self) -> None:
+        self.lane.cancel()
 
     def set_stock(self, stock) -> None:
         self.stock = stock
@@ -77,32 +82,19 @@ class ChosenPane(VerticalScroll):
 
     @work(thread=True, exclusive=True, group="detail", exit_on_error=False)
     def _detail(self, candidate) -> None:
-        """Response and budget of ``candidate`` (numpy/scipy are imported here)."""
+        """Response and budget of ``candidate``, computed in a child process."""
         worker = get_current_worker()
-        out: dict = {}
         try:
-            import numpy as np
-            lo = min(s.target.f0_hz for s in candidate.stages) / 100
-            hi = max(s.target.f0_hz for s in candidate.stages) * 100
-            freqs = np.logspace(np.log10(lo), np.log10(hi), 400)
-            h = backend.response(candidate, freqs)
-            mag = 20 * np.log10(np.maximum(np.abs(h), 1e-30))
-            phase = np.degrees(np.unwrap(np.angle(h)))
-            out["plot"] = (freqs.tolist(), mag.tolist(), phase.tolist())
-        except backend.Unavailable as exc:
-            out["plot_note"] = f"not available yet ({exc})"
-        except Exception as exc:  # shown in the pane; never a traceback
-            out["plot_note"] = f"error: {type(exc).__name__}: {exc}"
-        if worker.is_cancelled:
+            out = self.lane.run(backend.detail_job, candidate)
+        except Cancelled:
             return
-        try:
-            budget = backend.budget(candidate)
-            out["budget"] = budget
-            out["panel"] = backend.budget_panel(budget)
-        except backend.Unavailable as exc:
-            out.setdefault("budget_note", f"not available yet ({exc})")
-        except Exception as exc:
-            out["budget_note"] = f"error: {type(exc).__name__}: {exc}"
+        except PickerError as exc:
+            out = {"plot_note": f"error: {exc}", "budget_note": f"error: {exc}"}
+        if "budget" in out:
+            try:
+                out["panel"] = backend.budget_panel(out["budget"])
+            except backend.Unavailable as exc:
+                out["panel"] = Text(f"error budget panel: not available yet ({exc})")
         if not worker.is_cancelled:
             self.app.call_from_thread(self._detail_done, candidate, out)
 
@@ -118,6 +110,8 @@ class ChosenPane(VerticalScroll):
         hist = self.query_one(F0Histogram)
         if "panel" in out:
             budget_static.update(out["panel"])
+        elif "budget_note" not in out:
+            budget_static.update(Text("error budget: none"))
         else:
             budget_static.update(Text(f"error budget: {out.get('budget_note', '')}"))
         if "budget" in out:

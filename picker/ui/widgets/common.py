@@ -41,3 +41,14 @@ class Tick(Checkbox):
         super().watch_value()
         self.BUTTON_INNER = "x" if self.value else " "
         self.refresh()
+
+
+def put(static, content) -> None:
+    """``static.update(content)`` only when the content changes.
+
+    An update re-lays the screen out; on every keystroke that is the main cost of
+    typing in a form, and most keystrokes leave the message beside a field as it was.
+    """
+    if getattr(static, "_picker_shown", None) != content:
+        static._picker_shown = content
+        static.update(content)

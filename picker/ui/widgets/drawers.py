@@ -16,7 +16,7 @@ from textual.widgets import DataTable, Input, Label, Static
 
 from picker.ui import backend
 from picker.ui.stock_rows import ASSUMED_MARK, COLUMNS, Row, matches, qty_delta, rows_of
-from picker.ui.widgets.common import TypingAware, say
+from picker.ui.widgets.common import TypingAware, put, say
 from stock.errors import PickerError
 
 
@@ -59,7 +59,7 @@ class DrawersPane(TypingAware, Vertical):
     def on_mount(self) -> None:
         table = self.query_one(DataTable)
         table.add_columns(*COLUMNS)
-        self.query_one("#find-count", Static).update("reading the stock file…")
+        put(self.query_one("#find-count", Static), "reading the stock file…")
 
     # data in ---------------------------------------------------------------------
     def show_stock(self, stock, note: str = "") -> None:
@@ -75,15 +75,15 @@ class DrawersPane(TypingAware, Vertical):
         if any(row.cells[3].endswith(ASSUMED_MARK) for row in self.rows):
             status.append(f"{ASSUMED_MARK} tolerance not in the file: the default is assumed")
         status += [f"warning: {w}" for w in stock.warnings]
-        self.query_one("#drawers-status", Static).update("\n".join(status))
+        put(self.query_one("#drawers-status", Static), "\n".join(status))
         self._describe_target()
 
     def show_error(self, text: str) -> None:
         self.stock = None
         self.rows = []
         self._refill()
-        self.query_one("#find-count", Static).update("no stock")
-        self.query_one("#drawers-status", Static).update(say("error", text))
+        put(self.query_one("#find-count", Static), "no stock")
+        put(self.query_one("#drawers-status", Static), say("error", text))
 
     def _refill(self) -> None:
         table = self.query_one(DataTable)
@@ -102,7 +102,7 @@ class DrawersPane(TypingAware, Vertical):
             for i, row in enumerate(self.shown):
                 if (row.kind, row.index) == (keep.kind, keep.index):
                     table.move_cursor(row=i)
-        self.query_one("#find-count", Static).update(
+        put(self.query_one("#find-count", Static),
             f"{len(self.shown)} of {len(self.rows)} lines" if self.stock else "")
 
     def current_row(self) -> Row | None:
@@ -117,9 +117,9 @@ class DrawersPane(TypingAware, Vertical):
         row = self.current_row()
         label = self.query_one("#qty-message", Static)
         if row is None:
-            label.update("")
+            put(label, "")
         else:
-            label.update(f"for {row.cells[0]} {row.cells[1]} in {row.cells[4]} "
+            put(label, f"for {row.cells[0]} {row.cells[1]} in {row.cells[4]} "
                          f"(now {row.qty})")
 
     # events ----------------------------------------------------------------------
@@ -149,9 +149,9 @@ class DrawersPane(TypingAware, Vertical):
         try:
             delta = qty_delta(event.value, row.qty)
         except PickerError as exc:
-            self.query_one("#qty-message", Static).update(say("error", str(exc)))
+            put(self.query_one("#qty-message", Static), say("error", str(exc)))
             return
-        self.query_one("#qty-message", Static).update(
+        put(self.query_one("#qty-message", Static),
             f"enter: {row.qty} -> {row.qty + delta} for {row.cells[0]} {row.cells[1]}"
             f" in {row.cells[4]}")
 
@@ -160,20 +160,20 @@ class DrawersPane(TypingAware, Vertical):
         row = self.current_row()
         message = self.query_one("#qty-message", Static)
         if row is None or self.stock is None:
-            message.update(say("error", "no line chosen: move the cursor in the table"))
+            put(message, say("error", "no line chosen: move the cursor in the table"))
             return
         try:
             delta = qty_delta(event.value, row.qty)
             if delta == 0:
-                message.update(f"unchanged: {row.qty} on hand")
+                put(message, f"unchanged: {row.qty} on hand")
                 return
             backend.change_qty(self.stock.path, row.kind, row.index, delta,
                                expect_sha256=self.stock.sha256)
         except backend.Unavailable as exc:
-            message.update(f"not available yet: editing ({exc})")
+            put(message, f"not available yet: editing ({exc})")
             return
         except PickerError as exc:
-            message.update(say("error", str(exc)))
+            put(message, say("error", str(exc)))
             return
         event.input.value = ""
         self.post_message(self.StockChanged(
@@ -194,7 +194,7 @@ class DrawersPane(TypingAware, Vertical):
 
     def action_add_line(self) -> None:
         if self.stock is None or self.stock.path is None:
-            self.query_one("#drawers-status", Static).update(
+            put(self.query_one("#drawers-status", Static),
                 say("error", "no stock file is open"))
             return
         from picker.ui.screens.add_line import AddLineScreen

@@ -15,7 +15,7 @@ from textual.widgets import Checkbox, Input, Label, Select, Static
 
 from picker.ui.targets_form import (FAMILIES, RESPONSE_TYPES, RESPONSES, TEXT_FIELDS,
                                     FormError, Targets, read_field, read_targets)
-from picker.ui.widgets.common import Tick, say
+from picker.ui.widgets.common import Tick, put, say
 from stock.errors import PickerError
 
 HINTS = {
@@ -88,13 +88,13 @@ class TargetsPane(VerticalScroll):
                 allow_polarized=self.query_one("#t-polarized", Checkbox).value)
         except FormError as exc:
             for name, text in exc.errors.items():
-                self.query_one(f"#m-{name}", Static).update(say("error", text))
-            status.update(say("waiting", "fix the fields marked error"))
+                put(self.query_one(f"#m-{name}", Static), say("error", text))
+            put(status, say("waiting", "fix the fields marked error"))
             return
         except Exception as exc:   # a parser of the core missing or broken
-            status.update(say("error", f"cannot read the form: {exc}"))
+            put(status, say("error", f"cannot read the form: {exc}"))
             return
-        status.update("")
+        put(status, "")
         if targets != self.targets:
             self.targets = targets
             self.post_message(self.Changed(targets))
@@ -108,11 +108,11 @@ class TargetsPane(VerticalScroll):
         try:
             read_field(name, event.value)
         except PickerError as exc:
-            message.update(say("error", str(exc)))
+            put(message, say("error", str(exc)))
         except Exception as exc:
-            message.update(say("error", f"cannot check: {exc}"))
+            put(message, say("error", f"cannot check: {exc}"))
         else:
-            message.update(HINTS[name])
+            put(message, HINTS[name])
         self._read_all()
 
     @on(Select.Changed)
