@@ -1,0 +1,257 @@
+"""One stage: every assignment scoring ``<= t``, exactly, with the stage's own quantities.
+
+``StageProblem.within(t)`` returns every assignment of the stage's positions (over the
+value arrays given) whose score is ``<= t`` and that takes no unit more often than it
+has pieces. Proof sketch: a plan's windows are necessary conditions (see
+:mod:`picker.search.plans`), so the join keeps every assignment of each group that
+could score ``<= t``; a group's ``determines`` errors are part of the stage score, so
+dropping group rows whose partial error exceeds ``t`` drops nothing that passes; the
+cross product of the surviving group rows is then scored exactly with
+``Topology.characteristics`` and filtered by ``score <= t``. ``t = inf`` (or ``t >=
+plans.WIDE``) uses no windows, i.e. the plain enumeration.
+
+``StageProblem.best(need)`` finds the smallest ``t`` that holds ``need`` assignments:
+a cheap probe (the join with zero-width windows plus each window's nearest neighbours)
+gives real assignments whose ``need``-th score is an upper bound, and ``within`` at
+that bound is exact; if the probe finds too few, ``t`` grows until enough are found or
+the space is exhausted.
+"""
+
+from __future__ import annotations
+
+import itertools
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from picker.search import join
+from picker.search.plans import WIDE, plan_for, windows
+
+PROBE_KEEP = 64            # rows per group kept by the probe of a multi-group plan
+PROBE_ROWS = 1024          # rows per block kept by the probe of a one-group plan
+PROBE_OUTER = 32           # outer values the probe of a one-group plan tries
+
+
+@dataclass(frozen=True)
+class StageRows:
+    """Assignments of one stage, best first. ``units``: rows x (2 * positions) unit ids."""
+
+    idx: dict[str, np.ndarray]
+    score: np.ndarray
+    pieces: np.ndarray
+    tol_max: np.ndarray
+    tol_sum: np.ndarray
+    units: np.ndarray
+
+    def __len__(self) -> int:
+        return int(self.score.size)
+
+    def take(self, sel) -> StageRows:
+        return StageRows({p: i[sel] for p, i in self.idx.items()}, self.score[sel],
+                         self.pieces[sel], self.tol_max[sel], self.tol_sum[sel],
+                         self.units[sel])
+
+
+def scores(topology, target, values: dict, only=("f0", "q", "gain")) -> np.ndarray:
+    """Worst relative error over the targets in ``only`` (DESIGN.md 5); nan -> inf."""
+    f0, q, gain = topology.characteristics(values)
+    errs = []
+    with np.errstate(divide="ignore", invalid="ignore"):
+        if "f0" in only:
+            errs.append(np.abs(np.asarray(f0, float) / target.f0_hz - 1.0))
+        if "q" in only and target.q is not None and q is not None:
+            errs.append(np.abs(np.asarray(q, float) / target.q - 1.0))
+        if "gain" in only and target.gain is not None and topology.sets_gain:
+            errs.append(np.abs(np.asarray(gain, float) / target.gain - 1.0))
+    out = np.maximum.reduce(np.broadcast_arrays(*errs)) if len(errs) > 1 else errs[0]
+    return np.where(np.isnan(out), np.inf, out)
+
+
+class StageProblem:
+    """Search of one stage over given value arrays (one per position)."""
+
+    def __init__(self, topology, target, space, arrays: dict, label: str = "stage"):
+        self.topology, self.target, self.space = topology, target, space
+        self.arrays = arrays
+        self.names = topology.position_names()
+        self.plan = plan_for(topology)
+        self.label = label
+        self.limits = {k: _limits(space.values[k]) for k in ("resistor", "capacitor")}
+        self._cache: tuple[float, StageRows] | None = None
+
+    def empty(self) -> bool:
+        return any(len(self.arrays[n]) == 0 for n in self.names)
+
+    # ------------------------------------------------------------------ exact list
+    def within(self, t: float) -> StageRows:
+        if self._cache is not None and t <= self._cache[0]:
+            rows = self._cache[1]
+            return rows.take(slice(0, int(np.searchsorted(rows.score, t, side="right"))))
+        rows = self._rows(t, probe=False)
+        self._cache = (t, rows)
+        return rows
+
+    def best(self, need: int = 1) -> tuple[StageRows, float]:
+        """At least ``need`` best assignments (fewer only if the space has fewer), and the
+        threshold ``t`` they were searched at (every assignment ``<= t`` is among them)."""
+        if self.empty():
+            return self._rows(math.inf, probe=False), math.inf
+        if self._cache is not None and len(self._cache[1]) >= need:
+            rows = self._cache[1]
+            t = float(rows.score[need - 1])
+            return self.within(t), t
+        probe = self._rows(0.0, probe=True)
+        t = float(probe.score[min(need, len(probe)) - 1]) if len(probe) else 1e-4
+        while True:
+            rows, t_end = self._rows(t, probe=False, shrink=need), t
+            if len(rows) >= need:
+                t_end = float(rows.score[need - 1])
+                rows = rows.take(slice(0, int(np.searchsorted(rows.score, t_end, "right"))))
+            if len(rows) >= need or math.isinf(t):
+                if self._cache is None or t_end > self._cache[0]:
+                    self._cache = (t_end, rows)
+                return rows, t_end
+            t = math.inf if t >= WIDE else max(4.0 * t, 1e-9)
+
+    # ------------------------------------------------------------------ machinery
+    def _ctx(self, t: float, probe: bool):
+        return windows(self.target, 0.0 if probe else t, self.limits) \
+            if probe or t < WIDE else None
+
+    def _rows(self, t: float, *, probe: bool, shrink: int | None = None) -> StageRows:
+        """Rows with score <= t (probe: rows near the zero-width windows, any score).
+
+        ``shrink``: lower ``t`` to the ``shrink``-th best score found so far after each
+        block of outer values (branch and bound); rows above the final ``t`` may remain.
+        """
+        if self.empty():
+            return self._finish({n: np.zeros(0, np.int64) for n in self.names}, t, probe)
+        groups = self.plan.groups
+        if len(groups) == 1:
+            state = {"t": t, "best": np.zeros(0)}
+            outer = None
+            if probe:
+                n = len(self.arrays[groups[0].steps[0].position])
+                outer = np.arange(0, n, max(1, n // PROBE_OUTER), dtype=np.int64)
+            kept = []
+            for rows in join.group_rows(groups[0], self.arrays,
+                                        lambda: self._ctx(state["t"], probe),
+                                        neighbors=probe, outer=outer):
+                k = self._filter(rows, state["t"], probe)
+                if k is None:
+                    continue
+                kept.append(k)
+                if shrink:
+                    state["best"] = np.sort(np.concatenate([state["best"], k[1]]))[:shrink]
+                    if state["best"].size >= shrink:
+                        state["t"] = min(state["t"], float(state["best"][-1]))
+            if not kept:
+                return self._finish({n: np.zeros(0, np.int64) for n in self.names}, t, probe)
+            merged = {n: np.concatenate([k[0][n] for k in kept]) for n in self.names}
+            return self._finish(merged, t, probe,
+                                np.concatenate([k[1] for k in kept]))
+        parts = []
+        ctx = self._ctx(t, probe)
+        for group in groups:
+            rows = join.collect(join.group_rows(group, self.arrays, ctx, neighbors=probe),
+                                f"{self.label} ({self.topology.key})")
+            if not rows:
+                return self._finish({n: np.zeros(0, np.int64) for n in self.names}, t, probe)
+            part = scores(self.topology, self.target, self._values(rows), group.determines)
+            order = np.argsort(part, kind="stable")
+            if probe:
+                order = order[:PROBE_KEEP]
+            else:
+                order = order[part[order] <= t]
+            parts.append({p: i[order] for p, i in rows.items()})
+        kept = [k for k in (self._filter(rows, t, probe) for rows in _cross(parts))
+                if k is not None]
+        if not kept:
+            return self._finish({n: np.zeros(0, np.int64) for n in self.names}, t, probe)
+        merged = {n: np.concatenate([k[0][n] for k in kept]) for n in self.names}
+        return self._finish(merged, t, probe, np.concatenate([k[1] for k in kept]))
+
+    def _filter(self, rows, t, probe):
+        s = scores(self.topology, self.target, self._values(rows))
+        if probe:                     # the probe only needs its best few
+            keep = np.argsort(s, kind="stable")[:PROBE_ROWS]
+        else:
+            keep = np.flatnonzero(s <= t)
+        keep = keep[self._feasible({n: rows[n][keep] for n in self.names})]
+        if not keep.size:
+            return None
+        return {n: rows[n][keep] for n in self.names}, s[keep]
+
+    def _values(self, rows) -> dict:
+        n = next(iter(rows.values())).size
+        return {p: (self.arrays[p].value[rows[p]] if p in rows else np.ones(n))
+                for p in self.names}
+
+    def _units(self, rows) -> np.ndarray:
+        cols = []
+        for p in self.names:
+            arr = self.arrays[p]
+            cols += [arr.unit_a[rows[p]], arr.unit_b[rows[p]]]
+        return np.stack(cols, axis=1)
+
+    def _feasible(self, rows) -> np.ndarray:
+        """No unit taken more often than its count within the row (vectorised)."""
+        units = np.sort(self._units(rows), axis=1)
+        ok = np.ones(units.shape[0], bool)
+        counts = self.space.counts
+        for j in range(units.shape[1]):
+            col = units[:, j]
+            occurs = (units == col[:, None]).sum(axis=1)
+            ok &= (col < 0) | (occurs <= counts[np.maximum(col, 0)])
+        return ok
+
+    def _finish(self, rows, t, probe, s=None) -> StageRows:
+        if s is None:
+            n = rows[self.names[0]].size
+            s = scores(self.topology, self.target, self._values(rows)) if n else np.zeros(0)
+            keep = (np.ones(s.size, bool) if probe else s <= t)
+            if n:
+                keep &= self._feasible(rows)
+            rows = {p: rows[p][keep] for p in self.names}
+            s = s[keep]
+        pieces = sum(self.arrays[p].pieces[rows[p]] for p in self.names)
+        tol_max = np.maximum.reduce([self.arrays[p].tol_max[rows[p]] for p in self.names])
+        tol_sum = sum(self.arrays[p].tol_sum[rows[p]] for p in self.names)
+        keys = [rows[p] for p in reversed(self.names)] + [tol_sum, tol_max, pieces, s]
+        order = np.lexsort(keys) if s.size else np.zeros(0, np.int64)
+        out = StageRows(rows, s, np.asarray(pieces, np.int64), np.asarray(tol_max, float),
+                        np.asarray(tol_sum, float), self._units(rows) if s.size else
+                        np.zeros((0, 2 * len(self.names)), np.int64))
+        return out.take(order)
+
+
+def _limits(values) -> tuple[float, float]:
+    if len(values) == 0:
+        return (1.0, 1.0)
+    return float(values.value[0]), float(values.value[-1])
+
+
+def _cross(parts: list[dict], block: int = join.BLOCK):
+    """Blocks of the cross product of group rows (position -> index arrays)."""
+    sizes = [next(iter(p.values())).size for p in parts]
+    rest = math.prod(sizes[1:])
+    step = max(1, block // max(rest, 1))
+    for start in range(0, sizes[0], step):
+        first = {p: i[start:start + step] for p, i in parts[0].items()}
+        local = [first] + parts[1:]
+        grids = np.meshgrid(*[np.arange(next(iter(p.values())).size) for p in local],
+                            indexing="ij")
+        out = {}
+        for part, grid in zip(local, grids):
+            flat = grid.ravel()
+            for p, idx in part.items():
+                out[p] = idx[flat]
+        yield out
+
+
+def patterns(n_positions: int, singles: bool):
+    """Piece counts per position: every mix of singles (1) and pairs (2)."""
+    if singles:
+        return [(1,) * n_positions]
+    return list(itertools.product((1, 2), repeat=n_positions))
