@@ -36,6 +36,11 @@ def magnitude_db(chars, freqs: np.ndarray) -> np.ndarray:
     """
     freqs = np.asarray(freqs, dtype=float)
     f = freqs[None, :] if freqs.ndim == 1 else freqs
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        return _magnitude_db(chars, f)
+
+
+def _magnitude_db(chars, f):
     total = None
     for topology, f0, q, gain in chars:
         u2 = (f / np.asarray(f0, dtype=float)[:, None]) ** 2

@@ -97,6 +97,10 @@ def budget(candidate: Candidate, *, trials: int = 10000, distribution: str = "un
         values = {k: float(v) for k, v in sp.positions(sp.nominal).items()}
         f0, q, gain = (None if a is None else float(a[()]) for a in evaluate(topo, values))
         tol = tolerance(topo, sp, sets_gain=topo.sets_gain, seed=seed + i)
+        if tol.q is not None and not (0 < tol.q[0] <= tol.q[1] < math.inf):
+            warnings.append(f"Stage {i + 1}: within the parts' tolerance the stage can become "
+                            f"unstable (Q reaches {tol.q[0]:.3g}..{tol.q[1]:.3g}; a negative "
+                            "or unbounded Q oscillates); lower the gain or use closer parts.")
         if not tol.exhaustive:
             warnings.append(f"Stage {i + 1}: {tol.method}; the tolerance range may be narrow.")
         tp = temperature(topo, sp, span, sets_gain=topo.sets_gain)

@@ -38,9 +38,11 @@ class Histogram:
     outside: int                     # trials with no such frequency on the search grid
 
     def to_json(self) -> dict:
+        def num(x):
+            return float(x) if np.isfinite(x) else None
         return {"quantity": self.quantity, "unit": "Hz", "edges": list(self.edges),
-                "counts": list(self.counts), "nominal": self.nominal, "target": self.target,
-                "outside": self.outside}
+                "counts": list(self.counts), "nominal": num(self.nominal),
+                "target": num(self.target), "outside": self.outside}
 
 
 @dataclass(frozen=True)

@@ -86,8 +86,14 @@ def topology_of(key: str):
 
 
 def evaluate(topology, values: dict[str, np.ndarray]):
-    """(f0_hz, q or None, gain) as float arrays broadcast to the shape of the values."""
-    f0, q, gain = topology.characteristics(values)
+    """(f0_hz, q or None, gain) as float arrays broadcast to the shape of the values.
+
+    Division by zero is allowed: a stage pushed past its stability limit (e.g. a
+    Sallen-Key with a large gain) gives an infinite or negative Q, which the callers
+    report instead of failing.
+    """
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        f0, q, gain = topology.characteristics(values)
     shape = np.broadcast(*values.values()).shape
     f0 = np.broadcast_to(np.asarray(f0, dtype=float), shape)
     q = None if q is None else np.broadcast_to(np.asarray(q, dtype=float), shape)

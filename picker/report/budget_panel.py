@@ -64,7 +64,8 @@ class BudgetPanel:
         text = Text()
         text.append("Yield ", style="bold")
         text.append(f"{mc.yield_ * 100:.1f} %", style="bold")
-        text.append(f" (+/-{mc.std_error * 100:.1f}) of {mc.trials:,} trials, {mc.distribution}; "
+        text.append(f" (standard error {mc.std_error * 100:.1f} %) of {mc.trials:,} trials, "
+                    f"{mc.distribution}; "
                     f"inside f0 +/-{w['f0'] * 100:g} %, Q +/-{w['q'] * 100:g} %, "
                     f"gain +/-{w['gain'] * 100:g} % of the targets")
         return text

@@ -139,3 +139,30 @@ def test_budget_json_carries_corner_ranges_and_value_error():
     assert tol["value_error"]["f0"] == pytest.approx(1 / 1.01 - 1, rel=1e-9)
     assert tol["value_error"]["q"] == pytest.approx(0.0, abs=1e-12)
     assert np.isfinite(tol["q"]).all()
+
+
+def test_stage_pushed_past_its_stability_limit_is_reported():
+    """Sallen-Key with K = 1 + RB/RA: Q's denominator C2 (R1 + R2) + R1 C1 (1 - K) is zero
+    at K = 3 for equal parts (standard result, from memory); K = 2.95 with 5 % parts can
+    cross it."""
+    choice = stage("sallen-key-lowpass-gain", {"R1": 10e3, "R2": 10e3, "C1": 10e-9,
+                                               "C2": 10e-9, "RA": 10e3, "RB": 19.5e3},
+                   tol=0.05)
+    b = budget(candidate(choice, choice), trials=500)
+    assert any("can become unstable" in w for w in b.warnings)
+    assert b.stage_json(0)["tolerance"]["q"][1] is None      # unbounded: null in JSON
+    safe = stage("sallen-key-lowpass-gain", {"R1": 10e3, "R2": 10e3, "C1": 10e-9,
+                                             "C2": 10e-9, "RA": 10e3, "RB": 10e3}, tol=0.01)
+    assert not any("unstable" in w for w in budget(candidate(safe), trials=50).warnings)
+
+
+def test_too_many_pieces_fall_back_to_sampled_corners(monkeypatch):
+    from picker.budget import tolerance as tol_mod
+    monkeypatch.setattr(tol_mod, "MAX_CORNER_PIECES", 3)
+    choice = sk_gain_stage()
+    res = tol_mod.tolerance(get_topology(choice.topology), stage_pieces(choice), sets_gain=True)
+    assert not res.exhaustive and res.corners == 8 and "seeded random corners" in res.method
+    f0s = [c[0] for c in enumerate_corners(choice)]
+    assert min(f0s) <= res.f0[0] <= res.f0[1] <= max(f0s)
+    b = budget(candidate(choice), trials=50)
+    assert any("too many for every corner" in w for w in b.warnings)
