@@ -118,12 +118,15 @@ def cascade_frequency(chars, *, around: tuple[float, float] | None = None):
     """One frequency per trial for the cascade ``chars`` = [(topology, f0, q, gain), ...].
 
     Low-pass or high-pass cascades: the -3 dB corner relative to the passband maximum (the
-    product of the stage gains, or the top of an even-order Chebyshev ripple). Anything else: sqrt(f_lo f_hi) of the outer -3 dB edges
-    around the peak. ``around`` = (lower edge, upper edge) of the nominal design narrows
-    the grid to a factor 2 outside them (trials beyond that give NaN); without it a wide
-    grid spans the stage f0 values by a factor 30.
+    product of the stage gains, or the top of an even-order Chebyshev ripple). Anything
+    else: sqrt(f_lo f_hi) of the outer -3 dB edges around the peak. ``around`` = (lower
+    edge, upper edge) of the nominal design narrows the grid to a factor 2 outside them
+    (trials beyond that give NaN); without it a wide grid spans the stage f0 values by a
+    factor 30. Each crossing is interpolated in log f and refined by regula falsi on the
+    exact magnitude (``_crossing``).
 
-    Returns ``(values, quantity)``; ``quantity`` names what was measured.
+    Returns ``(values, lower edges, upper edges, quantity)``; ``quantity`` names what was
+    measured (for low- and high-pass all three arrays are the corner).
     """
     kind = _kind(chars)
     if around is None:

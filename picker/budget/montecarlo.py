@@ -108,6 +108,7 @@ def _nominal_chars(stages, which: str):
         if which == "target":
             t = choice.target
             f0 = np.array([t.f0_hz])
+            # a second-order target always carries Q; 1/sqrt(2) only guards a malformed one
             q = None if topology.order == 1 else np.array([t.q if t.q is not None else 0.7071])
             gain = np.array([t.gain if t.gain is not None else 1.0])
         else:

@@ -28,7 +28,8 @@ class ToleranceResult:
     corners: int                     # corners evaluated
     exhaustive: bool                 # True when every corner was evaluated
     method: str                      # how the ranges were found, in words
-    sensitivities: tuple[tuple[str, float, float | None, float], ...]  # (position, S_f0, S_q, S_gain)
+    # (position, S_f0, S_q or None, S_gain), each d ln y / d ln x
+    sensitivities: tuple[tuple[str, float, float | None, float], ...]
 
 
 def corner_matrix(n: int) -> np.ndarray:

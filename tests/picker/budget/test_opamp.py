@@ -7,7 +7,6 @@ import math
 import numpy as np
 import pytest
 
-from picker.analysis import nodal_response
 from picker.budget import budget
 from picker.budget.opamp import effective, input_impedance
 from picker.filters import REGISTRY, get_topology
