@@ -50,15 +50,17 @@ class Budget:
 
     # JSON -----------------------------------------------------------------------
     def stage_json(self, i: int) -> dict:
-        """The per-stage ``budget`` object of DESIGN.md 6 (Hz for f0; plain numbers)."""
+        """The per-stage ``budget`` object of DESIGN.md 6 (Hz for f0; plain numbers).
+
+        Keys: ``tolerance`` (corner ranges, how found), ``temperature`` (ranges over the
+        span, the figure used per piece), ``opamp`` (ideal vs finite GBW, slew), plus
+        ``value_error`` (achieved / target - 1), ``sensitivity`` (d ln y / d ln x per
+        position) and, for stage 1, ``input_impedance``.
+        """
         s = self.stages[i]
         t, tp = s.tolerance, s.temperature
         tol = {"f0": _rng(t.f0), "gain": _rng(t.gain), "q": _rng(t.q),
-               "corners": t.corners, "exhaustive": t.exhaustive, "method": t.method,
-               "value_error": {"f0": _num(s.value_error[0]), "q": _num(s.value_error[1]),
-                               "gain": _num(s.value_error[2])},
-               "sensitivity": {name: {"f0": _num(a), "q": _num(b), "gain": _num(c)}
-                               for name, a, b, c in t.sensitivities}}
+               "corners": t.corners, "exhaustive": t.exhaustive, "method": t.method}
         temp = {"span_c": [_num(tp.span_c[0]), _num(tp.span_c[1])], "reference_c": 25.0,
                 "f0": _rng(tp.f0), "gain": _rng(tp.gain), "q": _rng(tp.q),
                 "parts": {d.label: {"change": [_num(d.lo), _num(d.hi)], "figure": d.figure,
@@ -73,7 +75,11 @@ class Budget:
                   "shift": dict(zip(("f0", "q", "gain"), map(_num, o.shift))),
                   "gbw_needed_hz": _num(o.gbw_needed_hz), "slew_v_per_s": _num(o.slew),
                   "vout_peak": _num(o.vout_peak), "full_power_hz": _num(o.full_power_hz)}
-        out = {"tolerance": tol, "temperature": temp, "opamp": oa}
+        out = {"tolerance": tol, "temperature": temp, "opamp": oa,
+               "value_error": {"f0": _num(s.value_error[0]), "q": _num(s.value_error[1]),
+                               "gain": _num(s.value_error[2])},
+               "sensitivity": {name: {"f0": _num(a), "q": _num(b), "gain": _num(c)}
+                               for name, a, b, c in t.sensitivities}}
         if s.input_impedance is not None:
             out["input_impedance"] = {"lowest_ohm": _num(s.input_impedance[0]),
                                       "at_hz": _num(s.input_impedance[1])}

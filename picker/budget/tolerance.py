@@ -144,7 +144,9 @@ def sensitivities(topology, sp: StagePieces, *, step: float = 1e-5):
     f0, q, gain = evaluate(topology, values)
 
     def sens(y, i):
-        return float((np.log(y[2 * i]) - np.log(y[2 * i + 1])) / (2 * step))
+        # ln |y|: the relative sensitivity stays defined for a negative (unstable) Q
+        with np.errstate(divide="ignore", invalid="ignore"):
+            return float((np.log(abs(y[2 * i])) - np.log(abs(y[2 * i + 1]))) / (2 * step))
 
     out = []
     for i, k in enumerate(names):

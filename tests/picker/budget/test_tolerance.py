@@ -133,11 +133,13 @@ def test_budget_json_carries_corner_ranges_and_value_error():
     target = StageTarget(choice.achieved.f0_hz * 1.01, choice.achieved.q, choice.achieved.gain)
     choice = type(choice)(choice.topology, target, choice.achieved, choice.positions)
     b = budget(candidate(choice), trials=200)
-    tol = b.stage_json(0)["tolerance"]
+    js = b.stage_json(0)
+    tol = js["tolerance"]
     f0s = [c[0] for c in enumerate_corners(choice)]
     assert tol["f0"] == pytest.approx([min(f0s), max(f0s)], rel=1e-12)
-    assert tol["value_error"]["f0"] == pytest.approx(1 / 1.01 - 1, rel=1e-9)
-    assert tol["value_error"]["q"] == pytest.approx(0.0, abs=1e-12)
+    assert js["value_error"]["f0"] == pytest.approx(1 / 1.01 - 1, rel=1e-9)
+    assert js["value_error"]["q"] == pytest.approx(0.0, abs=1e-12)
+    assert js["sensitivity"]["R2"]["f0"] == pytest.approx(-0.5, abs=1e-6)
     assert np.isfinite(tol["q"]).all()
 
 
