@@ -103,8 +103,9 @@ def plan_build(design: SavedDesign, stock) -> BuildPlan:
     if problems:
         raise StockEditError("the stock no longer matches the design; nothing was changed:\n  "
                              + "\n  ".join(problems)
-                             + "\nthe stock file was reordered or edited since the design was "
-                               "saved: run the design again and save it anew")
+                             + "\nthe stock file changed since the design was saved (lines "
+                               "reordered or edited, or pieces taken by a build): run the "
+                               "design again and save it anew")
     if short:
         raise NoDesignError("the stock cannot supply this build; nothing was changed:\n  "
                             + "\n  ".join(short))

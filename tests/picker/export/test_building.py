@@ -305,3 +305,12 @@ def test_opamp_line_checked(tmp_path, stock_file, old, new, error, words):
                           encoding="utf-8")
     with pytest.raises(error, match=words):
         plan_build(design, load(stock_file))
+
+
+def test_cli_stock_before_the_subcommand(tmp_path, stock_file):
+    _design(tmp_path, stock_file)
+    assert main(["--stock", str(stock_file), "build", str(tmp_path / "design.toml"),
+                 "--yes"]) == 0
+    assert load(stock_file).resistors[2].qty == 2
+    assert main(["--stock", str(stock_file), "undo", "--yes"]) == 0
+    assert load(stock_file).resistors[2].qty == 3
