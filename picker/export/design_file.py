@@ -26,11 +26,18 @@ Layout of the file, format 1 (keys with no value are left out: TOML has no null)
     gbw_hz = 3000000.0
     channels = 2
     location = "IC tray"
+    supply = 30.0                           # maximum total supply, volt, when known
 
     [[candidate.stage]]
     topology = "inverting-lowpass"          # registry key of picker.filters
-    target = { f0_hz = 1000.0, gain = 2.0 }
-    achieved = { f0_hz = 1001.2, gain = 2.0 }
+
+    [candidate.stage.target]                # what the stage must do: f0_hz, q, gain
+    f0_hz = 1000.0
+    gain = 2.0
+
+    [candidate.stage.achieved]              # what these parts give
+    f0_hz = 1001.2
+    gain = 2.0
 
     [[candidate.stage.position]]
     name = "R1"                             # reference designator of the topology
@@ -47,6 +54,7 @@ Layout of the file, format 1 (keys with no value are left out: TOML has no null)
     tolerance = 0.01                        # the piece's: the meter's accuracy when measured
     line_tolerance = 0.01                   # the stock line's own tolerance
     location = "A3"
+    # capacitors also: dielectric, polarized (when true), voltage (rating, volt)
 
 A stock line is named by kind and index *and* checked by nominal value and location
 when the design is built, so a reordered stock file is caught (picker.building).
