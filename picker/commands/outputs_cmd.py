@@ -99,6 +99,20 @@ def bom_table(rows):
     return table
 
 
+def design_heading(design) -> str:
+    """One line naming the design: what it is, how close, which stock it came from."""
+    req = design.request
+    what = " ".join(str(req[k]) for k in ("type", "response") if k in req) or "filter"
+    if "order" in req:
+        what += f", order {req['order']}"
+    if "fc_hz" in req:
+        from stock.values import format_si
+        what += f", fc {format_si(float(req['fc_hz']), 'Hz')}"
+    stock = f"; stock {design.stock_path}" if design.stock_path else ""
+    return (f"{what}: {len(design.stages)} stage(s), {design.pieces} pieces, worst error "
+            f"{design.score * 100:.3g} %{stock}")
+
+
 # --------------------------------------------------------------------------- commands
 
 def run_bom(args) -> int:
@@ -109,6 +123,7 @@ def run_bom(args) -> int:
         sys.stdout.write(bom_csv(design))
         return 0
     console = _console()
+    console.print(design_heading(design))
     console.print(bom_table(bom_rows(design)))
     console.print(pick_table(pick_list(design)))
     return 0
