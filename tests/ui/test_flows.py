@@ -173,13 +173,16 @@ async def choose_first(pilot, app):
     assert app.screen.query_one("#panes").current == "chosen"
 
 
-async def test_pick_a_candidate_shows_budget_and_plot(stock_copy):
+async def test_pick_a_candidate_then_build_and_undo(stock_copy):
+    """Choose the best match: its plot and budget; build it (after a no), undo it."""
     import numpy as np
     from scipy import signal
 
     from picker.ui.widgets.chosen import ChosenPane
+    from picker.ui.screens.confirm import ConfirmScreen
     from picker.ui.widgets.plots import F0Histogram, ResponsePlot
 
+    before = stock_copy.read_bytes()
     app = PickerApp(stock_copy)
     async with app.run_test(size=SIZE) as pilot:
         await settle(pilot, app)
@@ -206,16 +209,6 @@ async def test_pick_a_candidate_shows_budget_and_plot(stock_copy):
         assert "inside the window" in str(hist.render())
         budget_text = str(pane.query_one("#c-budget").render())
         assert "not available" not in budget_text and "error:" not in budget_text
-
-
-async def test_build_then_undo_restores_the_file(stock_copy):
-    from picker.ui.screens.confirm import ConfirmScreen
-
-    before = stock_copy.read_bytes()
-    app = PickerApp(stock_copy)
-    async with app.run_test(size=SIZE) as pilot:
-        await settle(pilot, app)
-        await choose_first(pilot, app)
         await pilot.press("b")
         await pilot.pause()
         assert isinstance(app.screen, ConfirmScreen)

@@ -57,8 +57,6 @@ class DrawersPane(TypingAware, Vertical):
         yield Static("", id="drawers-status", markup=False)
 
     def on_mount(self) -> None:
-        table = self.query_one(DataTable)
-        table.add_columns(*COLUMNS)
         put(self.query_one("#find-count", Static), "reading the stock file…")
 
     # data in ---------------------------------------------------------------------
@@ -95,7 +93,12 @@ class DrawersPane(TypingAware, Vertical):
         except backend.Unavailable:
             parser = None
         self.shown = [row for row in self.rows if matches(row, words, parser)]
-        table.clear()
+        # columns too, with widths measured here: left to itself the table can keep
+        # the widths of the headings and cut "op amp" to "op a"
+        table.clear(columns=True)
+        for k, label in enumerate(COLUMNS):
+            width = max([len(label)] + [len(row.cells[k]) for row in self.rows])
+            table.add_column(label, width=width)
         for row in self.shown:
             table.add_row(*row.cells, key=f"{row.kind}:{row.index}")
         if keep is not None:
