@@ -1,20 +1,24 @@
 """Joint allocation across stages with quantities shared (DESIGN.md 5).
 
-Given, per stage, the list of its own feasible assignments with score ``<= t`` (sorted
-best first), :func:`combine` finds the ``top`` best combinations (one row per stage)
-that take no unit more often than it has pieces, under the key
-``(max score, total pieces, worst tolerance, sum of tolerances)``. Depth-first search
-over the stages with a shared usage counter; branch and bound: a branch stops when its
-lower bound (its own key combined with the best remaining score and fewest remaining
-pieces of the later stages) cannot beat the ``top``-th key found. Because each list is
-sorted by score, the first row whose score alone exceeds the bound ends the loop.
+Each stage offers its assignments in *classes* by piece count ``j`` (one class per
+total of pieces in the stage, see :mod:`picker.search.tradeoff`); a class is described
+by its best score ``b_j`` and a loader that returns every feasible assignment of that
+class with score ``<= t`` (sorted by score), called only when the search reaches it.
+:func:`combine` finds the ``top`` best combinations (one assignment per stage) that
+take no unit more often than it has pieces, under the key ``(max score, total pieces,
+worst tolerance, sum of tolerances)``: depth-first over the stages with a shared usage
+counter, classes in increasing ``j``, rows in increasing score; branch and bound: a
+class or row is skipped when the lower bound of its key (its own score and pieces,
+the best scores and fewest pieces the later stages can offer) cannot beat the
+``top``-th key found, and a class's loop ends at the first row whose score alone is
+too high. Classes are loaded lazily, so a large class that the bound rules out is
+never enumerated.
 
 Exactness across stages (the caller's loop in :mod:`picker.search.api`): every
-combination with joint score ``<= t`` has each stage's score ``<= t``, so it is made of
-rows of these lists; the search over them is exhaustive up to the bound, so the
-combinations it returns are the best of all combinations with joint score ``<= t``.
-If it finds fewer than needed, the caller raises ``t`` and asks again; the first ``t``
-that yields enough gives the exact answer for the whole space.
+combination with joint score ``<= t`` consists of rows of these classes within ``t``;
+the search is exhaustive up to the bound, so what it returns is the best of all
+combinations with joint score ``<= t``. If it finds fewer than needed, the caller
+raises ``t``; the first ``t`` that yields enough gives the exact answer for the space.
 """
 
 from __future__ import annotations
@@ -24,69 +28,82 @@ import bisect
 import numpy as np
 
 
-def combine(lists, counts: np.ndarray, *, top: int = 1, pieces_total: int | None = None):
-    """Best ``top`` combinations: list of (key, tuple of row index per stage), best first."""
-    n = len(lists)
-    if any(len(rows) == 0 for rows in lists):
-        return []
-    min_score = [float(r.score[0]) for r in lists]
-    min_pieces = [int(r.pieces.min()) for r in lists]
-    max_pieces = [int(r.pieces.max()) for r in lists]
-    rest_score = [0.0] * (n + 1)
-    rest_min = [0] * (n + 1)
-    rest_max = [0] * (n + 1)
+def combine(stages, counts: np.ndarray, *, top: int = 1, pieces_total: int | None = None):
+    """Best ``top`` combinations.
+
+    ``stages``: per stage a list of ``(j, best_score, loader)`` classes (only classes
+    with ``best_score <= t``). Returns ``[(key, ((j, row), ...))]``, best first, and the
+    loaded lists as ``{(stage, j): StageRows}``.
+    """
+    n = len(stages)
+    loaded: dict[tuple[int, int], object] = {}
+    if any(not classes for classes in stages):
+        return [], loaded
+    stages = [sorted(c, key=lambda x: x[0]) for c in stages]
+    min_score = [min(b for _, b, _ in c) for c in stages]
+    min_j = [min(j for j, _, _ in c) for c in stages]
+    max_j = [max(j for j, _, _ in c) for c in stages]
+    rest_score, rest_min, rest_max = [0.0] * (n + 1), [0] * (n + 1), [0] * (n + 1)
     for s in range(n - 1, -1, -1):
         rest_score[s] = max(rest_score[s + 1], min_score[s])
-        rest_min[s] = rest_min[s + 1] + min_pieces[s]
-        rest_max[s] = rest_max[s + 1] + max_pieces[s]
-    cols = [(r.score.tolist(), r.pieces.tolist(), r.tol_max.tolist(), r.tol_sum.tolist())
-            for r in lists]
-    usage_cache: list[dict[int, list]] = [{} for _ in lists]
+        rest_min[s] = rest_min[s + 1] + min_j[s]
+        rest_max[s] = rest_max[s + 1] + max_j[s]
+    columns: dict[tuple[int, int], tuple] = {}
+    usage: dict[tuple[int, int, int], list] = {}
     used: dict[int, int] = {}
     found: list[tuple] = []
-    chosen: list[int] = []
+    chosen: list[tuple[int, int]] = []
 
-    def needs(s, i):
-        cache = usage_cache[s]
-        if i not in cache:
-            ids, mult = np.unique(lists[s].units[i], return_counts=True)
-            cache[i] = [(int(u), int(m)) for u, m in zip(ids, mult) if u >= 0]
-        return cache[i]
+    def rows_of(s, j, loader):
+        if (s, j) not in columns:
+            rows = loader()
+            loaded[(s, j)] = rows
+            columns[(s, j)] = (rows.score.tolist(), rows.tol_max.tolist(),
+                               rows.tol_sum.tolist())
+        return columns[(s, j)]
 
-    def worst():
-        return found[-1][0] if len(found) >= top else None
+    def needs(s, j, i):
+        key = (s, j, i)
+        if key not in usage:
+            ids, mult = np.unique(loaded[(s, j)].units[i], return_counts=True)
+            usage[key] = [(int(u), int(m)) for u, m in zip(ids, mult) if u >= 0]
+        return usage[key]
 
     def visit(s, score, pieces, tmax, tsum):
         if s == n:
-            if pieces_total is not None and pieces != pieces_total:
-                return
-            key = (score, pieces, tmax, tsum, tuple(chosen))
-            bisect.insort(found, (key[:4] + (key[4],), tuple(chosen)))
-            del found[top:]
+            if pieces_total is None or pieces == pieces_total:
+                bisect.insort(found, ((score, pieces, tmax, tsum, tuple(chosen)),
+                                      tuple(chosen)))
+                del found[top:]
             return
-        sc, pc, tm, ts = cols[s]
-        for i in range(len(sc)):
-            bound = worst()
-            lb_score = max(score, sc[i], rest_score[s + 1])
-            if bound is not None and lb_score > bound[0]:
-                break
-            p = pieces + pc[i]
+        for j, b, loader in stages[s]:
+            p = pieces + j
             if pieces_total is not None and not (
                     p + rest_min[s + 1] <= pieces_total <= p + rest_max[s + 1]):
                 continue
-            if bound is not None and (lb_score, p + rest_min[s + 1],
-                                      max(tmax, tm[i])) > bound[:3]:
+            bound = found[-1][0] if len(found) >= top else None
+            if bound is not None and (max(score, b, rest_score[s + 1]),
+                                      p + rest_min[s + 1]) > bound[:2]:
                 continue
-            need = needs(s, i)
-            if any(used.get(u, 0) + m > counts[u] for u, m in need):
-                continue
-            for u, m in need:
-                used[u] = used.get(u, 0) + m
-            chosen.append(i)
-            visit(s + 1, max(score, sc[i]), p, max(tmax, tm[i]), tsum + ts[i])
-            chosen.pop()
-            for u, m in need:
-                used[u] -= m
+            sc, tm, ts = rows_of(s, j, loader)
+            for i in range(len(sc)):
+                bound = found[-1][0] if len(found) >= top else None
+                lb = max(score, sc[i], rest_score[s + 1])
+                if bound is not None:
+                    if lb > bound[0]:
+                        break
+                    if (lb, p + rest_min[s + 1], max(tmax, tm[i])) > bound[:3]:
+                        continue
+                need = needs(s, j, i)
+                if any(used.get(u, 0) + m > counts[u] for u, m in need):
+                    continue
+                for u, m in need:
+                    used[u] = used.get(u, 0) + m
+                chosen.append((j, i))
+                visit(s + 1, max(score, sc[i]), p, max(tmax, tm[i]), tsum + ts[i])
+                chosen.pop()
+                for u, m in need:
+                    used[u] -= m
 
     visit(0, 0.0, 0, 0.0, 0.0)
-    return [(key[:4], rows) for key, rows in found]
+    return [(key[:4], rows) for key, rows in found], loaded

@@ -23,6 +23,7 @@ from picker.search.opamp import choose_opamp
 from picker.search.plans import WIDE
 from picker.search.space import Bounds, Space, build_space
 from picker.search.stage import StageProblem
+from picker.search.tradeoff import StageClasses
 
 
 @dataclass(frozen=True)
@@ -63,49 +64,51 @@ def search(stock, stages, *, singles: bool = False, allow_polarized: bool = Fals
     space = build_space(stock, singles=singles, allow_polarized=allow_polarized,
                         bounds=bounds)
     check_supply(space, stages, bounds)
-    problems = [StageProblem(topo, target, space,
-                             {p.name: space.values[p.kind] for p in topo.positions},
-                             label=f"stage {i + 1}")
-                for i, (topo, target) in enumerate(stages)]
-    found, lists = best_combinations(problems, space, top=top)
+    classes = [StageClasses(topo, target, space, singles=singles, label=f"stage {i + 1}")
+               for i, (topo, target) in enumerate(stages)]
+    if len(stages) == 1:
+        topo, target = stages[0]
+        problem = StageProblem(topo, target, space,
+                               {p.name: space.values[p.kind] for p in topo.positions})
+        rows, _ = problem.best(top)
+        found = [((float(rows.score[i]),), ((None, i),)) for i in range(min(top, len(rows)))]
+        loaded = {(0, None): rows}
+    else:
+        found, loaded = best_combinations(classes, space, top=top)
     if not found:
         raise NoDesignError("no combination of the parts on hand fills every position of "
                             "every stage with the quantities in stock")
     opamp, warnings = choose_opamp(stock.opamps, stages)
-    candidates = [build_candidate(problems, lists, space, rows, key, opamp, warnings)
+    candidates = [build_candidate(stages, loaded, space, rows, key, opamp, warnings)
                   for key, rows in found]
-    curve = trade(stages, space, singles=singles) if tradeoff else []
+    curve = trade(classes, space.counts) if tradeoff else []
     return SearchResult(candidates, curve)
 
 
-def best_combinations(problems, space: Space, *, top: int, pieces_total=None):
-    """(exact ``top`` joint combinations, the per-stage lists they index)."""
-    if len(problems) == 1 and pieces_total is None:
-        rows, _ = problems[0].best(top)
-        found = [((float(rows.score[i]), int(rows.pieces[i]), float(rows.tol_max[i]),
-                   float(rows.tol_sum[i])), (i,)) for i in range(min(top, len(rows)))]
-        return found, [rows]
-    t = max(p.best(1)[1] for p in problems)
+def best_combinations(classes, space: Space, *, top: int):
+    """(exact ``top`` joint combinations, the loaded class lists they index)."""
+    t = max(min(c.best().values(), default=math.inf) for c in classes)
     while True:
-        lists = [p.within(t) for p in problems]
-        found = combine(lists, space.counts, top=top, pieces_total=pieces_total)
+        found, loaded = combine([c.classes(t) for c in classes], space.counts, top=top)
         if len(found) >= top or math.isinf(t):
-            return found, lists
+            return found, loaded
         t = grow(t)
 
 
-def build_candidate(problems, lists, space, rows, key, opamp, warnings) -> Candidate:
+def build_candidate(stages, loaded, space, rows, key, opamp, warnings) -> Candidate:
     """The picker.parts record of one combination (the boundary conversion)."""
     choices = []
-    for problem, stage_rows, i in zip(problems, lists, rows):
-        topo = problem.topology
+    pieces = 0
+    for s, ((topo, target), (j, i)) in enumerate(zip(stages, rows)):
+        stage_rows = loaded[(s, j)]
+        pieces += int(stage_rows.pieces[i])
         positions = tuple((p.name, space.arrangement(p.kind, int(stage_rows.idx[p.name][i])))
                           for p in topo.positions)
         values = {name: arr.value for name, arr in positions}
         f0, q, gain = topo.characteristics(values)
         achieved = StageTarget(float(f0), None if q is None else float(q), float(gain))
-        choices.append(StageChoice(topo.key, problem.target, achieved, positions))
-    return Candidate(score=float(key[0]), pieces=int(key[1]), stages=tuple(choices),
+        choices.append(StageChoice(topo.key, target, achieved, positions))
+    return Candidate(score=float(key[0]), pieces=pieces, stages=tuple(choices),
                      opamp=opamp, warnings=tuple(warnings))
 
 

@@ -1,0 +1,136 @@
+"""The human report of ``picker design``: ranked candidates, trade-off, schematic, warnings.
+
+A rich renderable (``__rich_console__``) that fits 80 columns; the same object can sit
+in a Textual ``Static``.
+"""
+
+from __future__ import annotations
+
+from rich.console import Console, ConsoleOptions, Group, RenderResult
+from rich.table import Table
+from rich.text import Text
+
+from picker.report.schematic import arrangement_text, schematic
+from stock.values import format_si
+
+
+def pct(score: float) -> str:
+    """A relative error as percent with sensible digits: 0.0123 % , 1.2 %."""
+    p = 100.0 * score
+    if p == 0:
+        return "0 %"
+    if p >= 1:
+        return f"{p:.2f} %"
+    return f"{p:.2g} %" if p >= 1e-4 else f"{p:.1e} %"
+
+
+class DesignReport:
+    """Report of a search result.
+
+    Parameters
+    ----------
+    result : picker.search.SearchResult
+    title : str
+        One line saying what was asked (type, corner, order ...).
+    budget_panel : renderable, optional
+        The error-budget panel of rank 1.
+    warnings : list of str
+        Warnings of the design as a whole (the op amp, the budget's practical checks).
+    """
+
+    def __init__(self, result, *, title: str = "", budget_panel=None, warnings=()):
+        self.result = result
+        self.title = title
+        self.budget_panel = budget_panel
+        self.warnings = list(warnings)
+
+    def _candidates(self) -> Table:
+        table = Table(title="candidates, best first", title_justify="left", expand=False,
+                      show_lines=True, pad_edge=False)
+        table.add_column("#", justify="right")
+        table.add_column("worst error", justify="right")
+        table.add_column("pieces", justify="right")
+        table.add_column("parts (position value drawer)", overflow="fold")
+        for rank, cand in enumerate(self.result.candidates, 1):
+            parts = []
+            for s, choice in enumerate(cand.stages):
+                items = []
+                for name, arr in choice.positions:
+                    value, drawer = arrangement_text(arr)
+                    items.append(f"{name} {value} @{drawer}")
+                prefix = f"{s + 1}: " if len(cand.stages) > 1 else ""
+                parts.append(prefix + ", ".join(items))
+            table.add_row(str(rank), pct(cand.score), str(cand.pieces), "\n".join(parts))
+        return table
+
+    def _tradeoff(self) -> Table | None:
+        if not self.result.tradeoff:
+            return None
+        table = Table(title="parts vs precision (best worst-error for each piece count)",
+                      title_justify="left", pad_edge=False)
+        table.add_column("pieces", justify="right")
+        table.add_column("best worst error", justify="right")
+        for pieces, score in self.result.tradeoff:
+            table.add_row(str(pieces), pct(score))
+        return table
+
+    def __rich_console__(self, console: Console, options: ConsoleOptions) -> RenderResult:
+        parts = []
+        if self.title:
+            parts.append(Text(self.title, style="bold"))
+        if not self.result.candidates:
+            parts.append(Text("no candidate"))
+            yield Group(*parts)
+            return
+        best = self.result.candidates[0]
+        parts.append(self._candidates())
+        trade = self._tradeoff()
+        if trade is not None:
+            parts.append(trade)
+        parts.append(Text("best candidate (rank 1):", style="bold"))
+        parts.append(schematic(best))
+        for choice in best.stages:
+            t, a = choice.target, choice.achieved
+            line = (f"{choice.topology}: f0 {format_si(a.f0_hz, 'Hz')} for "
+                    f"{format_si(t.f0_hz, 'Hz')}")
+            if t.q is not None:
+                line += f", Q {a.q:.4g} for {t.q:.4g}"
+            if t.gain is not None:
+                line += f", gain {a.gain:.4g} for {t.gain:.4g}"
+            parts.append(Text("  " + line))
+        if self.budget_panel is not None:
+            parts.append(self.budget_panel)
+        warnings = list(best.warnings) + [w for w in self.warnings if w not in best.warnings]
+        for w in warnings:
+            parts.append(Text(f"warning: {w}"))
+        yield Group(*parts)
+
+
+def design_json(result, budgets=None) -> dict:
+    """The ``--json`` object of DESIGN.md 6 (``budgets``: one Budget or None per candidate)."""
+    budgets = list(budgets or [])
+    budgets += [None] * (len(result.candidates) - len(budgets))
+    out = []
+    for cand, bud in zip(result.candidates, budgets):
+        stages = []
+        for i, choice in enumerate(cand.stages):
+            t, a = choice.target, choice.achieved
+            stages.append({
+                "topology": choice.topology,
+                "order": 1 if t.q is None else 2,
+                "targets": {"f0": t.f0_hz, "q": t.q, "gain": t.gain},
+                "achieved": {"f0": a.f0_hz, "q": a.q, "gain": a.gain},
+                "positions": {name: {
+                    "value": arr.value, "arrangement": arr.arrangement,
+                    "parts": [{"kind": p.kind, "value": p.value, "location": p.location}
+                              for p in arr.parts]} for name, arr in choice.positions},
+                "budget": bud.stage_json(i) if bud is not None else None,
+            })
+        warnings = list(cand.warnings)
+        if bud is not None:
+            warnings += [w for w in bud.warnings if w not in warnings]
+        out.append({"score": cand.score, "pieces": cand.pieces, "stages": stages,
+                    "budget": bud.candidate_json() if bud is not None else None,
+                    "warnings": warnings})
+    return {"candidates": out,
+            "tradeoff": [{"pieces": k, "score": s} for k, s in result.tradeoff]}
