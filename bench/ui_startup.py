@@ -24,13 +24,31 @@ ROOT = Path(__file__).resolve().parent.parent
 POLL_S = float(os.environ.get("POLL_S", "0.005"))
 
 
-def one_run(stock: Path, marker: str) -> tuple[float, float]:
+BASELINE = """\
+from textual.app import App
+from textual.widgets import Footer, Static
+class Baseline(App):
+    def compose(self):
+        yield Static("[1 drawers] 100R")
+        yield Footer()
+    BINDINGS = [("e", "bell", "e quantity")]
+Baseline().run(mouse=False)
+"""
+
+
+def one_run(stock: Path, marker: str, baseline: bool = False) -> tuple[float, float]:
     name = f"picker-bench-{os.getpid()}-{time.monotonic_ns()}"
     base = ["tmux", "-L", name, "-f", "/dev/null"]
     with tempfile.TemporaryDirectory() as tmp:
         stamp = Path(tmp) / "t0"
+        if baseline:
+            script = Path(tmp) / "baseline.py"
+            script.write_text(BASELINE)
+            what = shlex.quote(str(script))
+        else:
+            what = f"-m picker --stock {shlex.quote(str(stock))}"
         command = (f"date +%s.%N > {shlex.quote(str(stamp))}; exec env -u COLUMNS -u LINES "
-                   f"{shlex.quote(sys.executable)} -m picker --stock {shlex.quote(str(stock))}")
+                   f"{shlex.quote(sys.executable)} {what}")
         env = {k: v for k, v in os.environ.items() if k not in ("COLUMNS", "LINES")}
         subprocess.run(base + ["new-session", "-d", "-x", "80", "-y", "24", command],
                        check=True, env=env)
@@ -62,12 +80,19 @@ def main() -> int:
     args = parser.parse_args()
     if shutil.which("tmux") is None:
         raise SystemExit("tmux is not installed")
-    runs = [one_run(Path(args.stock), args.marker) for _ in range(args.runs)]
-    for label, k in (("first paint (pane bar)", 0), ("stock table and footer", 1)):
-        values = [r[k] for r in runs]
+    # alternate with a minimal Textual app run the same way, so the load of the
+    # machine at the time shows in the numbers
+    runs, base = [], []
+    for _ in range(args.runs):
+        runs.append(one_run(Path(args.stock), args.marker))
+        base.append(one_run(Path(args.stock), "100R", baseline=True))
+    for label, values in (("first paint (pane bar)", [r[0] for r in runs]),
+                          ("stock table and footer", [r[1] for r in runs]),
+                          ("minimal Textual app", [r[1] for r in base])):
         print(f"{label:24s} median {statistics.median(values) * 1000:6.0f} ms   "
               f"min {min(values) * 1000:6.0f}   max {max(values) * 1000:6.0f}   "
               f"({len(values)} runs)")
+    print(f"load average: {os.getloadavg()[0]:.2f} on {os.cpu_count()} CPUs")
     return 0
 
 

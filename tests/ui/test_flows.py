@@ -11,7 +11,12 @@ SIZE = (80, 24)
 
 
 async def settle(pilot, app, seconds: float = 0.05) -> None:
+    """Wait for start-up (panes mount a moment after the first paint) and the workers."""
     await pilot.pause(seconds)
+    for _ in range(200):
+        if getattr(app.screen, "started", True):
+            break
+        await pilot.pause(0.05)
     await app.workers.wait_for_complete()
     await pilot.pause()
 

@@ -18,6 +18,10 @@ async def settled(pilot) -> None:
     """Wait for the searches and budgets; stop cursors blinking so the picture is fixed."""
     app = pilot.app
     await pilot.pause(0.4)
+    for _ in range(200):             # the panes mount a moment after the first paint
+        if getattr(app.screen, "started", True):
+            break
+        await pilot.pause(0.05)
     await app.workers.wait_for_complete()
     for field in app.screen.query(Input):
         field.cursor_blink = False

@@ -14,7 +14,6 @@ from rich.text import Text
 from textual import on, work
 from textual.app import ComposeResult
 from textual.binding import Binding
-from textual.lazy import Lazy
 from textual.screen import Screen
 from textual.widgets import ContentSwitcher, Footer, Static
 from textual.worker import Worker, WorkerState, get_current_worker
@@ -33,6 +32,7 @@ from stock.errors import PickerError, StockFileError
 PANES = (("drawers", "drawers"), ("targets", "targets"), ("matches", "matches"),
          ("chosen", "chosen"))
 DEBOUNCE_S = 0.3
+PAUSE_S = 0.15          # between the steps of start-up
 # where the focus lands when a pane is shown (else its first focusable widget)
 FIRST_FOCUS = {"drawers": "#stock-table", "matches": "#m-table", "chosen": "#chosen"}
 
@@ -85,26 +85,42 @@ class MainScreen(TypingAware, Screen):
         self.generation = 0
         self._timer = None
         self._searching: Targets | None = None
+        self.started = False                # True once every pane is mounted
+        self._wanted_pane: str | None = None
         self.lane = Lane("search")
 
     def compose(self) -> ComposeResult:
         name = self.stock_path.name if self.stock_path else "no stock file"
         yield PaneBar(bar_text("drawers", busy=False, stock_name=name), id="pane-bar")
         with ContentSwitcher(initial="drawers", id="panes"):
-            yield DrawersPane(id="drawers")
-            # the hidden panes mount after the first paint (start-up time)
-            for pane in (TargetsPane(id="targets"), MatchesPane(id="matches"),
-                         ChosenPane(id="chosen")):
-                pane.display = False
-                yield Lazy(pane)
+            yield DrawersPane(id="drawers")       # the other panes come after the first paint
         yield Footer()
 
     def on_mount(self) -> None:
         self._bar()
         self.query_one("#stock-table").focus()
-        # after the first paint: the fork server for searches, then the stock file
-        self.call_after_refresh(offload.start)
-        self.call_after_refresh(self.read_stock, self.note or "")
+        # Start-up in steps, each a moment after the last so that the frame before it
+        # reaches the terminal (Textual writes frames from a thread that needs the
+        # interpreter too): first paint, then the stock file, then the other panes.
+        # (a timer, not call_after_refresh: with nothing else to redraw that could wait
+        # for a refresh that never comes)
+        self.set_timer(PAUSE_S, self._second_step)
+
+    def _second_step(self) -> None:
+        offload.start()                 # the fork server imports the core meanwhile
+        self.read_stock(self.note or "")
+        self.set_timer(PAUSE_S, self._third_step)
+
+    async def _third_step(self) -> None:
+        panes = [TargetsPane(id="targets"), MatchesPane(id="matches"), ChosenPane(id="chosen")]
+        for pane in panes:
+            pane.display = False
+        await self.query_one(ContentSwitcher).mount_all(panes)
+        for chosen in self.query(ChosenPane):
+            chosen.set_stock(self.stock)
+        self.started = True
+        if self._wanted_pane is not None:       # a pane key pressed in the first moment
+            self.action_pane(self._wanted_pane)
 
     def on_unmount(self) -> None:
         self.lane.cancel()
@@ -120,7 +136,8 @@ class MainScreen(TypingAware, Screen):
 
     def action_pane(self, pane_id: str) -> None:
         if not self.query(f"#{pane_id}"):
-            return                    # still mounting (the first moment after start)
+            self._wanted_pane = pane_id     # still mounting: go there once it is
+            return
         self.query_one(ContentSwitcher).current = pane_id
         self._bar()
         pane = self.query_one(f"#{pane_id}")
