@@ -54,13 +54,24 @@ def parse_value(text: str, kind: str | None = None) -> float:
     return need("stock.values", "parse_value").parse_value(text, kind=kind)
 
 
+def refuse_sample(path: Path) -> None:
+    """The bundled sample is read only here, as in the CLI: StockEditError saying why."""
+    from stock.errors import StockEditError
+    common = need("picker.commands.common", "is_bundled_sample")
+    if path is not None and common.is_bundled_sample(path):
+        raise StockEditError("this is the bundled sample, which picker does not change: copy "
+                             "it to ./inventory.toml (or name your own with --stock FILE)")
+
+
 def change_qty(path: Path, kind: str, index: int, delta: int, *, expect_sha256: str | None):
+    refuse_sample(path)
     mod = need("stock.file", "apply_changes", "QtyChange")
     return mod.apply_changes(path, [mod.QtyChange(kind, index, delta)],
                              expect_sha256=expect_sha256)
 
 
 def add_line(path: Path, kind: str, fields: dict, *, expect_sha256: str | None):
+    refuse_sample(path)
     return need("stock.file", "add_line").add_line(path, kind, fields,
                                                    expect_sha256=expect_sha256)
 
@@ -120,6 +131,7 @@ def f0_histogram(budget_) -> dict:
 def plan_build(candidate, stock, targets: Targets | None):
     """The checked build plan of ``candidate`` (nothing is written yet)."""
     import dataclasses
+    refuse_sample(stock.path)
     exp = need("picker.export", "design_from_candidate")
     building = need("picker.building", "plan_build", "do_build")
     request = dataclasses.asdict(targets) if targets is not None else {}
@@ -140,12 +152,14 @@ def build_listing(plan) -> str:
 
 
 def do_build(plan, stock_path: Path) -> str:
+    refuse_sample(stock_path)
     need("picker.building", "do_build").do_build(stock_path, plan)
     return f"{plan.count} item(s) taken out of {Path(stock_path).name}"
 
 
 def last_build(stock_path: Path) -> str:
     """What undo would undo, in words; raises StockEditError when it cannot."""
+    refuse_sample(stock_path)
     record = need("picker.building", "undo_preview").undo_preview(stock_path)
     lines = [f"build {record.number} of {record.time}:"]
     lines += [f"  {s}" for s in record.summary]
@@ -153,6 +167,7 @@ def last_build(stock_path: Path) -> str:
 
 
 def undo_last(stock_path: Path) -> str:
+    refuse_sample(stock_path)
     need("picker.building", "undo_last").undo_last(stock_path)
     return f"{Path(stock_path).name} is back as it was before that build"
 

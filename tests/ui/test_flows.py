@@ -236,3 +236,18 @@ async def test_pick_a_candidate_then_build_and_undo(stock_copy):
         await pilot.press("y")
         await settle(pilot, app)
         assert stock_copy.read_bytes() == before
+
+
+async def test_bundled_sample_is_read_only():
+    from picker.commands.common import bundled_sample_path
+
+    sample = bundled_sample_path()
+    before = sample.read_bytes()
+    app = PickerApp(sample, note="using the bundled sample")
+    async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
+        await pilot.press("e", *"+1", "enter")
+        await pilot.pause()
+        message = str(app.screen.query_one("#qty-message").render())
+        assert message.startswith("error:") and "bundled sample" in message
+    assert sample.read_bytes() == before
