@@ -35,6 +35,7 @@ from dataclasses import dataclass, replace
 from pathlib import Path
 
 from stock.errors import StockEditError, StockFileError
+from stock.fields import MAX_COUNT
 from stock.load import KINDS, LineMap, loads
 from stock.values import format_rkm
 
@@ -272,6 +273,10 @@ def _plan(stock, changes, path) -> dict:
         if new_qty < 0:
             raise StockEditError(f"{path}: {_describe(item)} has qty {item.qty}; taking "
                                  f"{-delta} would go below zero; nothing was written")
+        if new_qty > MAX_COUNT:
+            raise StockEditError(f"{path}: {_describe(item)} has qty {item.qty}; adding "
+                                 f"{delta} would make {new_qty}, more than the "
+                                 f"{MAX_COUNT:,} pieces a line may hold; nothing was written")
         left = len(measured) - len(removed)
         if new_qty < left:
             raise StockEditError(f"{path}: {_describe(item)} would keep {left} measured "

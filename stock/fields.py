@@ -19,6 +19,10 @@ from stock.model import (
 # plausible nominal ranges (DESIGN.md section 3): resistor 1 mOhm .. 1 TOhm, capacitor 0.1 pF .. 1 F
 RANGES = {"resistor": (1e-3, 1e12, "1 mΩ .. 1 TΩ"), "capacitor": (1e-13, 1.0, "0.1 pF .. 1 F")}
 GBW_RANGE = (1e3, 1e11)
+# Largest qty (and channels) a line may hold: a million pieces is far beyond any drawer
+# or reel set, and it keeps every sum of counts well inside 64-bit integers (TOML's
+# integer range) for the search.
+MAX_COUNT = 1_000_000
 
 KEYS = {
     "resistor": ("value", "qty", "tolerance", "tempco", "power", "location", "note",
@@ -102,7 +106,8 @@ class EntryChecker:
             return None
         return raw.strip() or None
 
-    def _int(self, key, *, required, minimum, default=None, what="a whole number"):
+    def _int(self, key, *, required, minimum, default=None, what="a whole number",
+             maximum=MAX_COUNT):
         if key not in self.entry:
             if required:
                 self.error(key, f"missing; every [[{self.kind}]] needs {key} = <{what}>")
@@ -112,14 +117,20 @@ class EntryChecker:
             self.error(key, f"{quote(raw)} is not a number; write {key} = <{what}>")
             return None
         if isinstance(raw, str):
-            self.error(key, f"{quote(raw)} is text; write the number without quotes, "
-                            f"{key} = {raw.strip() or 1}")
+            digits = raw.strip().replace("_", "")
+            hint = (f"write the number without quotes, {key} = {digits}" if digits.isdigit()
+                    else f"write {key} = <{what}>, a number without quotes")
+            self.error(key, f"{quote(raw)} is text; {hint}")
             return None
         if isinstance(raw, float):
             self.error(key, f"{quote(raw)} is fractional; {key} must be {what}")
             return None
         if raw < minimum:
             self.error(key, f"{quote(raw)} is below {minimum}; {key} must be {what}")
+            return None
+        if raw > maximum:
+            self.error(key, f"{quote(raw)} is not a plausible count (at most {maximum:,}); "
+                            f"{key} must be {what}")
             return None
         return raw
 

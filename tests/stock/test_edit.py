@@ -70,6 +70,11 @@ def test_only_the_number_changes(stockfile):
     assert res.before_sha256 == s.sha256 and res.after_sha256 == file_sha256(stockfile)
 
 
+def test_qty_up_to_the_cap_is_written(stockfile):
+    apply_changes(stockfile, [QtyChange("capacitor", 0, 1_000_000 - 8)])
+    assert load(stockfile).capacitors[0].qty == 1_000_000
+
+
 def test_mode_kept_and_no_temp_left(stockfile):
     apply_changes(stockfile, [QtyChange("capacitor", 0, 2)])
     assert stat.S_IMODE(stockfile.stat().st_mode) == 0o640
@@ -95,6 +100,10 @@ def test_measured_pieces_removed(stockfile):
     ([QtyChange("resistor", 0, -1, remove_measured=(2,))], "cannot remove"),
     ([QtyChange("resistor", 0, -2, remove_measured=(1, 1))], "cannot remove"),
     ([QtyChange("capacitor", 0, -1), QtyChange("resistor", 0, -99)], "below zero"),
+    # TOML integers are 64-bit (TOML v1.0.0, "Integer"); a count past the project's cap
+    # (stock.fields.MAX_COUNT) is refused so the file stays loadable
+    ([QtyChange("resistor", 0, 10 ** 23)], "more than the 1,000,000"),
+    ([QtyChange("capacitor", 0, 1_000_000 - 8 + 1)], "more than the 1,000,000"),
 ])
 def test_refused_edits_leave_file_untouched(stockfile, changes, match):
     before = stockfile.read_bytes()
@@ -136,6 +145,7 @@ def test_add_line_appends_and_keeps_bytes(stockfile):
     ({"value": "1n"}, "capacitor qty"),
     ({"value": "1n", "qty": 1, "note": None}, "cannot be written"),
     ({"value": "1n", "qty": 1, "bad key": 1}, "not a key"),
+    ({"value": "1n", "qty": 2 ** 63 - 1}, "plausible count"),
 ])
 def test_add_line_refuses_invalid(stockfile, fields, match):
     before = stockfile.read_bytes()

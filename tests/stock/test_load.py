@@ -108,6 +108,12 @@ BAD = [
     (R + 'value = "1k"\nqty = 2.5\n', 3, "resistor qty", "'2.5'"),
     (R + 'value = "1k"\nqty = "20"\n', 3, "resistor qty", "'20'"),
     (R + 'value = "1k"\nqty = true\n', 3, "resistor qty", "true"),
+    # TOML v1.0.0 "Integer": 64-bit; picker caps counts at 1,000,000 (stock.fields)
+    (R + 'value = "1k"\nqty = 1000001\n', 3, "resistor qty", "'1000001'"),
+    (R + 'value = "1k"\nqty = 999999999999999999999\n', 3, "resistor qty", "plausible"),
+    (R + 'value = "1k"\nqty = "ten"\n', 3, "resistor qty", "a number without quotes"),
+    ('[[opamp]]\ngbw = "3MHz"\nqty = 1\nchannels = 10000000\n', 4, "opamp channels",
+     "plausible"),
     (R + 'value = "1k"\nqty = 1\ntolerance = "5"\n', 4, "resistor tolerance", "'5'"),
     (R + 'value = "1k"\nqty = 1\ntolerance = 0.05\n', 4, "resistor tolerance", "'0.05'"),
     (R + 'value = "1k"\nqty = 1\ntolerance = "150%"\n', 4, "resistor tolerance", "'150%'"),
