@@ -34,13 +34,21 @@ def register(subparsers) -> None:
 
     c = sub.add_parser("check", help="validate a stock file",
                        description="Validate a stock file: exit 0 when it loads (warnings are "
-                                   "printed), 2 with every error, one per line.")
+                                   "printed), 2 with every error, one per line.",
+                       epilog="examples:\n  picker stock check inventory.toml\n"
+                              "  picker stock check          (./inventory.toml or "
+                              "$PICKER_STOCK)",
+                       formatter_class=argparse.RawDescriptionHelpFormatter)
     c.add_argument("file", nargs="?", metavar="FILE", help="stock file (default: --stock, "
                    "$PICKER_STOCK, ./inventory.toml, else the bundled sample)")
     c.set_defaults(run=run_check)
 
     ls = sub.add_parser("list", help="show the parts on hand",
-                        description="Show the parts on hand grouped by kind.")
+                        description="Show the parts on hand grouped by kind.",
+                        epilog="examples:\n  picker stock list inventory.toml\n"
+                               "  picker stock list --kind capacitor\n"
+                               "  picker stock list --json > stock.json",
+                        formatter_class=argparse.RawDescriptionHelpFormatter)
     ls.add_argument("file", nargs="?", metavar="FILE", help="stock file (default as for check)")
     ls.add_argument("--kind", type=_kind, metavar="K", help="resistor, capacitor or opamp")
     ls.add_argument("--json", action="store_true", help="print one JSON object")
@@ -48,7 +56,15 @@ def register(subparsers) -> None:
 
     a = sub.add_parser("adjust", help="change the quantity of one stock line",
                        description="Change the qty of one line of the stock file in place "
-                                   "(comments and layout are kept).")
+                                   "(comments and layout are kept).",
+                       epilog="examples:\n"
+                              "  picker stock adjust --stock inventory.toml --kind resistor "
+                              "--value 4k7 --location B1 --by -2\n"
+                              "  picker stock adjust --kind capacitor --value 10n --line 619 "
+                              "--by 5\n"
+                              "  picker stock adjust --kind opamp --value \"dual JFET-input, "
+                              "3 MHz\" --by 1",
+                       formatter_class=argparse.RawDescriptionHelpFormatter)
     a.add_argument("--stock", metavar="FILE", default=argparse.SUPPRESS,
                    help="stock file to change (default: $PICKER_STOCK, else ./inventory.toml)")
     a.add_argument("--kind", type=_kind, required=True, metavar="K",
@@ -56,6 +72,9 @@ def register(subparsers) -> None:
     a.add_argument("--value", required=True, metavar="V",
                    help="value as in the file (4k7, 10n ...), or the op amp's name")
     a.add_argument("--location", metavar="L", help="drawer, when the value is in several")
+    a.add_argument("--line", type=int, metavar="N",
+                   help="file line of the entry's [[...]] header, when value and drawer "
+                        "are not enough (picker lists the lines that match)")
     a.add_argument("--by", type=int, required=True, metavar="N",
                    help="pieces to add (negative to take), e.g. --by -1")
     a.set_defaults(run=run_adjust)
@@ -110,7 +129,8 @@ def _describe(item) -> str:
     return f"{item.kind} {name} {where}"
 
 
-def _matches(stock, kind: str, value_text: str, location: str | None):
+def _matches(stock, kind: str, value_text: str, location: str | None,
+             line: int | None = None):
     from stock.errors import ValueParseError
     from stock.values import parse_value
     lines = stock.lines(kind)
@@ -118,15 +138,37 @@ def _matches(stock, kind: str, value_text: str, location: str | None):
         want = value_text.strip().lower()
         found = [o for o in lines if o.name.strip().lower() == want]
     else:
+        from stock.fields import RANGES
         try:
             target = parse_value(value_text, kind=kind)
         except ValueParseError as exc:
             raise ValueParseError(f"--value: {exc}") from None
+        lo, hi, span = RANGES[kind]
+        if not lo <= target <= hi:
+            from stock.values import format_si
+            unit = "Ω" if kind == "resistor" else "F"
+            raise ValueParseError(f"--value: '{value_text}' is {format_si(target, unit)}, not "
+                                  f"a plausible {kind} ({span})"
+                                  + ("; write 10p, 10n or 10u" if kind == "capacitor" else ""))
         found = [x for x in lines if abs(x.value - target) <= 1e-9 * abs(target)]
     if location is not None:
         loc = location.strip().lower()
         found = [x for x in found if (x.location or "").strip().lower() == loc]
+    if line is not None:
+        found = [x for x in found if x.line == line]
     return found
+
+
+def _detail(item) -> str:
+    """What tells two lines of the same value and drawer apart."""
+    bits = []
+    if item.kind == "capacitor" and item.dielectric:
+        bits.append(item.dielectric)
+    if item.kind != "opamp":
+        bits.append(_tol(item) + " tolerance")
+    if item.note:
+        bits.append(item.note)
+    return f" ({', '.join(bits)})" if bits else ""
 
 
 def run_adjust(args) -> int:
@@ -163,14 +205,20 @@ ADJUST_ATTEMPTS = 50
 
 def _pick_line(path, stock, args):
     from stock.errors import StockEditError
-    found = _matches(stock, args.kind, args.value, args.location)
-    what = f"{args.kind} {args.value}" + (f" in {args.location}" if args.location else "")
+    line = getattr(args, "line", None)
+    found = _matches(stock, args.kind, args.value, args.location, line)
+    what = (f"{args.kind} {args.value}" + (f" in {args.location}" if args.location else "")
+            + (f" at line {line}" if line is not None else ""))
     if not found:
-        raise StockEditError(f"{path}: no {what} in the stock file")
+        hint = ""
+        if args.kind == "opamp" and stock.opamps:
+            hint = "; the op amps in it: " + ", ".join(f"'{o.name}'" for o in stock.opamps)
+        raise StockEditError(f"{path}: no {what} in the stock file{hint}")
     if len(found) > 1:
-        rows = [f"  line {x.line}: {_describe(x)}, qty {x.qty}" for x in found]
+        rows = [f"  line {x.line}: {_describe(x)}{_detail(x)}, qty {x.qty}" for x in found]
+        how = "--line" if args.location else "--location (or --line)"
         raise StockEditError("\n".join([f"{path}: {len(found)} lines match {what}; add "
-                                        "--location to say which:"] + rows))
+                                        f"{how} to say which:"] + rows))
     item = found[0]
     new_qty = item.qty + args.by
     if new_qty < 0:

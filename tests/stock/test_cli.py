@@ -98,7 +98,13 @@ def test_adjust_top_level_stock_option(inv, capsys):
      "3 measured pieces"),
     (["--kind", "resistor", "--value", "4k8", "--by", "1"], "no resistor 4k8"),
     (["--kind", "capacitor", "--value", "4x", "--by", "1"], "--value: unknown unit 'x'"),
-    (["--kind", "opamp", "--value", "octal", "--by", "1"], "no opamp octal"),
+    (["--kind", "opamp", "--value", "octal", "--by", "1"], "the op amps in it: 'dual JFET"),
+    # DESIGN.md section 3: "10" for a capacitor is 10 F, implausible (0.1 pF .. 1 F)
+    (["--kind", "capacitor", "--value", "10", "--by", "1"], "'10' is 10 F, not a plausible"),
+    (["--kind", "resistor", "--value", "4k7", "--location", "B1", "--by", "2000000"],
+     "more than the 1,000,000"),
+    (["--kind", "resistor", "--value", "4k7", "--line", "1", "--by", "1"],
+     "no resistor 4k7 at line 1"),
 ])
 def test_adjust_refusals(inv, capsys, argv, message):
     before = inv.read_bytes()
@@ -114,6 +120,22 @@ def test_adjust_ambiguous_lists_lines(inv, capsys):
     err = capsys.readouterr().err.splitlines()
     lines = {r.line for r in load(inv).resistors if r.value == 1000.0}
     assert len(err) == 3 and {int(e.split("line ")[1].split(":")[0]) for e in err[1:]} == lines
+
+
+def test_adjust_same_value_and_drawer_picked_by_line(inv, capsys):
+    # the sample's film box holds a polypropylene and a polyester 10n line
+    argv = ["stock", "adjust", "--stock", str(inv), "--kind", "capacitor", "--value", "10n",
+            "--location", "film box", "--by", "-1"]
+    assert main(argv) == 2
+    err = capsys.readouterr().err
+    assert "add --line to say which" in err
+    assert "(polypropylene, 2.5% tolerance)" in err and "(polyester, 5% tolerance)" in err
+    polyester = next(c for c in load(inv).capacitors
+                     if c.value == 1e-8 and c.dielectric == "polyester")
+    assert main(argv + ["--line", str(polyester.line)]) == 0
+    after = {c.line: c.qty for c in load(inv).capacitors}
+    assert after[polyester.line] == polyester.qty - 1
+    assert sum(after.values()) == sum(c.qty for c in load(SAMPLE).capacitors) - 1
 
 
 def test_adjust_refuses_bundled_sample(monkeypatch, tmp_path, capsys):
