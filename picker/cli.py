@@ -24,10 +24,28 @@ COMMAND_MODULES = (
 )
 
 
+EXAMPLES = """\
+examples:
+  picker stock check inventory.toml            is my stock file valid?
+  picker stock list --kind capacitor           what is in the drawers
+  picker design lowpass --fc 1k --order 2 --save d.toml
+  picker bom d.toml                            parts, and which drawer to open
+  picker netlist d.toml > d.cir && ngspice -b d.cir
+  picker build d.toml --stock inventory.toml   take the parts (asks first)
+  picker undo --stock inventory.toml           put the stock back as it was
+  picker --stock inventory.toml                the terminal UI
+
+Each command has its own help: picker design --help, picker stock adjust --help.
+Exit codes: 0 done, 1 no design is possible from this stock, 2 bad input."""
+
+
 def build_parser() -> argparse.ArgumentParser:
     parser = argparse.ArgumentParser(
         prog="picker",
-        description="Design active analog filters from the parts in your own drawers.",
+        description="Design active analog filters from the parts in your own drawers. "
+                    "Without a COMMAND, picker opens its terminal UI on the stock file.",
+        epilog=EXAMPLES,
+        formatter_class=argparse.RawDescriptionHelpFormatter,
     )
     parser.add_argument("--stock", metavar="FILE",
                         help="stock file (default: $PICKER_STOCK, ./inventory.toml, "
@@ -51,6 +69,11 @@ def main(argv: list[str] | None = None) -> int:
     args = parser.parse_args(argv)
     try:
         if args.command is None:
+            if not (sys.stdin.isatty() and sys.stdout.isatty()):
+                print("picker: the terminal UI needs a terminal (standard input and output "
+                      "are not one here); for scripts use a command, see picker --help",
+                      file=sys.stderr)
+                return 2
             from picker.commands.ui_cmd import run as run_ui
             return run_ui(args)
         return int(args.run(args) or 0)

@@ -18,20 +18,33 @@ from pathlib import Path
 def register(subparsers) -> None:
     p = subparsers.add_parser("bom", help="bill of materials and pick list of a saved design",
                               description="Bill of materials of a saved design, then the "
-                                          "parts to take drawer by drawer.")
+                                          "parts to take drawer by drawer.",
+                              epilog="examples:\n  picker bom d.toml\n"
+                                     "  picker bom d.toml --csv > parts.csv",
+                              formatter_class=argparse.RawDescriptionHelpFormatter)
     p.add_argument("design", metavar="DESIGN.toml", help="a design saved with picker design --save")
     p.add_argument("--csv", action="store_true", help="print the BOM as CSV (RFC 4180)")
     p.set_defaults(run=run_bom)
 
     p = subparsers.add_parser("netlist", help="SPICE netlist of a saved design",
-                              description="Print a SPICE netlist that `ngspice -b` runs as is.")
-    p.add_argument("design", metavar="DESIGN.toml")
+                              description="Print a SPICE netlist that `ngspice -b` runs as "
+                                          "is: AC source on node in, output on node out, "
+                                          "each op amp as a one-pole model with its GBW.",
+                              epilog="examples:\n  picker netlist d.toml > d.cir && ngspice -b "
+                                     "d.cir\n  picker netlist d.toml | ngspice -b",
+                              formatter_class=argparse.RawDescriptionHelpFormatter)
+    p.add_argument("design", metavar="DESIGN.toml", help="a design saved with picker design --save")
     p.set_defaults(run=run_netlist)
 
     p = subparsers.add_parser("build", help="take a saved design's parts out of the stock file",
                               description="Take exactly the design's pieces out of the stock "
-                                          "file (undo with `picker undo`).")
-    p.add_argument("design", metavar="DESIGN.toml")
+                                          "file (undo with `picker undo`). Shows the pick "
+                                          "list and asks first; without a terminal it needs "
+                                          "--yes.",
+                              epilog="examples:\n  picker build d.toml --stock inventory.toml\n"
+                                     "  picker build d.toml --stock inventory.toml --yes",
+                              formatter_class=argparse.RawDescriptionHelpFormatter)
+    p.add_argument("design", metavar="DESIGN.toml", help="a design saved with picker design --save")
     p.add_argument("--stock", metavar="FILE", default=argparse.SUPPRESS,
                    help="stock file to take from (default: the one the design was saved from)")
     p.add_argument("--yes", action="store_true", help="do not ask for confirmation")
@@ -39,7 +52,10 @@ def register(subparsers) -> None:
 
     p = subparsers.add_parser("undo", help="undo the last build on a stock file",
                               description="Put the stock file back byte for byte as it was "
-                                          "before its last build.")
+                                          "before its last build; run it again to undo the "
+                                          "build before that.",
+                              epilog="example:\n  picker undo --stock inventory.toml",
+                              formatter_class=argparse.RawDescriptionHelpFormatter)
     p.add_argument("--stock", metavar="FILE", default=argparse.SUPPRESS,
                    help="stock file (default: $PICKER_STOCK, else ./inventory.toml)")
     p.add_argument("--yes", action="store_true", help="do not ask for confirmation")
