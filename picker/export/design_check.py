@@ -20,6 +20,11 @@ from picker.parts import StageTarget, combine
 def check_document(doc: dict, *, source: str = "<design>", path=None) -> SavedDesign:
     """Check a parsed design document (see ``design_file``) and build the SavedDesign."""
     r = _Reader(source)
+    if "candidate" not in doc and "format" not in doc:
+        stock_like = any(k in doc for k in ("resistor", "capacitor", "opamp", "stock"))
+        raise DesignError(f"{source}: not a design saved by picker ("
+                          + ("it looks like a stock file; " if stock_like else "")
+                          + "save one with: picker design ... --save DESIGN.toml)")
     fmt = r.get(doc, "format", int, "")
     if fmt != FORMAT:
         raise DesignError(f"{source}: format: this picker reads design format {FORMAT}, "

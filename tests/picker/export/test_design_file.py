@@ -6,6 +6,8 @@ import os
 import stat
 import tomllib
 
+from pathlib import Path
+
 import pytest
 
 from picker.errors import DesignError
@@ -132,6 +134,18 @@ def test_not_toml_not_utf8_missing(tmp_path):
         load_design(bad)
     with pytest.raises(DesignError, match="nothere.toml: cannot read"):
         load_design(tmp_path / "nothere.toml")
+
+
+def test_stock_file_given_as_design_says_so(tmp_path):
+    # a user passing the stock file where a design goes (picker bom inventory.toml)
+    sample = Path(__file__).resolve().parents[3] / "sample_inventory.toml"
+    with pytest.raises(DesignError, match="not a design saved by picker .it looks like a "
+                                          "stock file; save one with: picker design"):
+        load_design(sample)
+    empty = tmp_path / "empty.toml"
+    empty.write_text("", encoding="utf-8")
+    with pytest.raises(DesignError, match=r"empty.toml: not a design saved by picker \(save"):
+        load_design(empty)
 
 
 def test_request_values_made_plain(tmp_path):
