@@ -101,11 +101,14 @@ def plan_build(design: SavedDesign, stock) -> BuildPlan:
             summary.append(f"op amp {line.name} from {line.location or '(no location)'}: take "
                            f"{need} (qty {line.qty} -> {line.qty - need})")
     if problems:
+        same_stock = bool(design.stock_sha256) and design.stock_sha256 == stock.sha256
+        why = ("the stock file is the very one the design was saved from, so the design file "
+               "was edited after it was saved: save it again with picker design ... --save"
+               if same_stock else
+               "the stock file changed since the design was saved (lines reordered or edited, "
+               "or pieces taken by a build): run the design again and save it anew")
         raise StockEditError("the stock no longer matches the design; nothing was changed:\n  "
-                             + "\n  ".join(problems)
-                             + "\nthe stock file changed since the design was saved (lines "
-                               "reordered or edited, or pieces taken by a build): run the "
-                               "design again and save it anew")
+                             + "\n  ".join(problems) + "\n" + why)
     if short:
         raise NoDesignError("the stock cannot supply this build; nothing was changed:\n  "
                             + "\n  ".join(short))

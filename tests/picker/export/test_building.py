@@ -101,6 +101,22 @@ def test_reordered_stock_refused(tmp_path, stock_file):
     assert stock_file.read_bytes() == before
 
 
+def test_hand_edited_design_blamed_not_the_stock(tmp_path, stock_file):
+    # the stock is byte for byte the one saved (same sha256), so the design file changed
+    design = _design(tmp_path, stock_file)
+    path = tmp_path / "design.toml"
+    text = path.read_text(encoding="utf-8")
+    nominal = design.stages[0].positions[0].parts[0].nominal
+    old = f"nominal = {nominal!r}"
+    assert old in text
+    path.write_text(text.replace(old, f"nominal = {nominal * 1.1!r}", 1), encoding="utf-8")
+    with pytest.raises(StockEditError) as info:
+        plan_build(load_design(path), load(stock_file))
+    msg = str(info.value)
+    assert "the design file was edited after it was saved" in msg
+    assert "stock file changed" not in msg
+
+
 def test_unrelated_edit_warns_and_builds(tmp_path, stock_file):
     design = _design(tmp_path, stock_file)
     text = stock_file.read_text(encoding="utf-8").replace(
