@@ -3,7 +3,7 @@
 Conventions of the text written here:
 
 * the first line is the title (SPICE reads line one as the title, never as an element);
-* the source is ``V1 in 0 AC 1`` on node ``in``; the filter's output is node ``out``;
+* the source is ``V1 in 0 DC 0 AC 1`` on node ``in``; the filter's output is node ``out``;
 * stages are cascaded: stage k drives node ``s<k>_out`` (the last one drives ``out``);
   a stage's own inner nodes are ``s<k>_<node>``;
 * every piece is named by its reference designator and its stage: ``R1_S2`` is R1 of
@@ -80,7 +80,7 @@ def spice_netlist(design: SavedDesign) -> str:
     lines = [title,
              "* written by picker; run with: ngspice -b <this file>",
              "* names: <designator>_S<stage>; pair pieces end in a and b; op amps XU<n>_S<stage>",
-             "V1 in 0 AC 1"]
+             "V1 in 0 DC 0 AC 1"]
     n = len(design.stages)
     for s, stage in enumerate(design.stages, start=1):
         try:

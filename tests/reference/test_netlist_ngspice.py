@@ -67,6 +67,19 @@ def test_netlist_runs_as_is(tmp_path):
                           timeout=60)
     assert proc.returncode == 0, proc.stdout + proc.stderr
     assert "vdb(out)" in proc.stdout          # the .print table of the batch run
+    # ngspice notes a source without a DC value ("has no value, DC 0 assumed"); the
+    # netlist gives DC 0 so a batch run prints no such note
+    assert "has no value" not in proc.stdout + proc.stderr
+
+
+def test_netlist_runs_from_a_pipe(tmp_path):
+    # the README's `picker netlist d.toml | ngspice -b`: ngspice reads the netlist on stdin
+    stock = stock_records(path=tmp_path / "s.toml", sha="00" * 32)
+    proc = subprocess.run(["ngspice", "-b"], input=_export(tmp_path, lowpass_candidate(stock),
+                                                          stock),
+                          capture_output=True, text=True, timeout=60)
+    assert proc.returncode == 0, proc.stdout + proc.stderr
+    assert "vdb(out)" in proc.stdout and "has no value" not in proc.stdout + proc.stderr
 
 
 def test_inverting_lowpass_gain_and_corner(tmp_path):

@@ -29,7 +29,7 @@ def _elements(text):
 def test_source_nodes_and_names(text):
     lines = text.splitlines()
     assert not lines[0].startswith("*") and "lowpass" in lines[0]      # SPICE title line
-    assert "V1 in 0 AC 1" in lines
+    assert "V1 in 0 DC 0 AC 1" in lines
     assert lines[-1] == ".end"
     els = _elements(text)
     names = [e[0] for e in els]
