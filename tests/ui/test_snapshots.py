@@ -19,7 +19,7 @@ async def settled(pilot) -> None:
     app = pilot.app
     await pilot.pause(0.4)
     for _ in range(200):             # the panes mount a moment after the first paint
-        if getattr(app.screen, "started", True):
+        if getattr(app.screen, "idle", True):
             break
         await pilot.pause(0.05)
     await app.workers.wait_for_complete()

@@ -39,7 +39,7 @@ class Terminal:
     def screen(self, *, escapes: bool = False) -> str:
         return self.tmux("capture-pane", "-p", *(["-e"] if escapes else []))
 
-    def wait_for(self, text: str, timeout: float = 15.0) -> str:
+    def wait_for(self, text: str, timeout: float = 30.0) -> str:
         end = time.monotonic() + timeout
         while True:
             shown = self.screen()

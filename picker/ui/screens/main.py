@@ -125,6 +125,11 @@ class MainScreen(TypingAware, Screen):
     def on_unmount(self) -> None:
         self.lane.cancel()
 
+    @property
+    def idle(self) -> bool:
+        """Started, with no search waiting for its pause or running (for tests)."""
+        return self.started and self._timer is None and not self.busy
+
     # panes -----------------------------------------------------------------------
     @property
     def current(self) -> str:
