@@ -125,7 +125,8 @@ def design_heading(design) -> str:
         from stock.values import format_si
         what += f", fc {format_si(float(req['fc_hz']), 'Hz')}"
     stock = f"; stock {design.stock_path}" if design.stock_path else ""
-    return (f"{what}: {len(design.stages)} stage(s), {design.pieces} pieces, worst error "
+    n = len(design.stages)
+    return (f"{what}: {n} stage{'' if n == 1 else 's'}, {design.pieces} pieces, worst error "
             f"{design.score * 100:.3g} %{stock}")
 
 

@@ -247,11 +247,14 @@ def test_cli_bom_csv_and_netlist(tmp_path, stock_file, capsys):
     assert main(["bom", str(tmp_path / "design.toml")]) == 0
     out = capsys.readouterr().out
     assert "Bill of materials" in out and "Pick list by drawer" in out
-    assert out.startswith("lowpass butterworth, order 1, fc 1 kHz: 1 stage(s), 5 pieces")
+    assert out.startswith("lowpass butterworth, order 1, fc 1 kHz: 1 stage, 5 pieces")
     assert main(["netlist", str(tmp_path / "design.toml")]) == 0
     assert "V1 in 0 DC 0 AC 1" in capsys.readouterr().out
     assert main(["bom", str(tmp_path / "missing.toml")]) == 2
     assert "missing.toml: cannot read" in capsys.readouterr().err
+    _design(tmp_path, stock_file, two_stage_candidate)
+    assert main(["bom", str(tmp_path / "design.toml")]) == 0
+    assert ": 2 stages, " in capsys.readouterr().out
 
 
 
