@@ -92,9 +92,12 @@ class StageProblem:
         self._cache = (t, rows)
         return rows
 
-    def best(self, need: int = 1) -> tuple[StageRows, float]:
+    def best(self, need: int = 1, *, cap: float = math.inf) -> tuple[StageRows, float]:
         """At least ``need`` best assignments (fewer only if the space has fewer), and the
-        threshold ``t`` they were searched at (every assignment ``<= t`` is among them)."""
+        threshold ``t`` they were searched at (every assignment ``<= t`` is among them).
+
+        ``cap``: only assignments scoring ``<= cap`` are wanted (a caller that already
+        holds a better one elsewhere); fewer than ``need``, even none, may come back."""
         if self.empty():
             return self._rows(math.inf, probe=False), math.inf
         if self._cache is not None and len(self._cache[1]) >= need:
@@ -103,16 +106,17 @@ class StageProblem:
             return self.within(t), t
         probe = self._rows(0.0, probe=True)
         t = float(probe.score[min(need, len(probe)) - 1]) if len(probe) else 1e-4
+        t = min(t, cap)
         while True:
             rows, t_end = self._rows(t, probe=False, shrink=need), t
             if len(rows) >= need:
                 t_end = float(rows.score[need - 1])
                 rows = rows.take(slice(0, int(np.searchsorted(rows.score, t_end, "right"))))
-            if len(rows) >= need or math.isinf(t):
+            if len(rows) >= need or math.isinf(t) or t >= cap:
                 if self._cache is None or t_end > self._cache[0]:
                     self._cache = (t_end, rows)
                 return rows, t_end
-            t = math.inf if t >= WIDE else max(4.0 * t, 1e-9)
+            t = min(cap, math.inf if t >= WIDE else max(4.0 * t, 1e-9))
 
     # ------------------------------------------------------------------ machinery
     def _ctx(self, t: float, probe: bool):

@@ -47,8 +47,10 @@ class StageClasses:
             self._best = {}
             for j, problems in self.by_j.items():
                 b = math.inf
-                for problem, _ in problems:
-                    rows, _ = problem.best(1)
+                # densest patterns (most pairs on the resistor side) first: their best
+                # caps the search of the others in the class
+                for problem, _ in sorted(problems, key=lambda pb: -_density(pb[0])):
+                    rows, _ = problem.best(1, cap=b)
                     if len(rows):
                         b = min(b, float(rows.score[0]))
                 if math.isfinite(b):
@@ -73,6 +75,10 @@ class StageClasses:
             parts.append(StageRows({n: back[n][i] for n, i in rows.idx.items()}, rows.score,
                                    rows.pieces, rows.tol_max, rows.tol_sum, rows.units))
         return merge(parts)
+
+
+def _density(problem) -> int:
+    return sum(len(a) for a in problem.arrays.values())
 
 
 def merge(parts: list[StageRows]) -> StageRows:
