@@ -43,10 +43,20 @@ async def test_filter_stock(stock_copy):
 
 
 async def test_edit_quantity_changes_exactly_that_number(stock_copy):
+    """A bad quantity is refused beside the field; a good one changes just that line."""
     before = stock_copy.read_text(encoding="utf-8")
     app = PickerApp(stock_copy)
     async with app.run_test(size=SIZE) as pilot:
         await settle(pilot, app)
+        await pilot.press("e", *"-11", "enter")      # 4k7 has 10
+        message = str(app.screen.query_one("#qty-message").render())
+        assert "only 10 on hand" in message and message.startswith("error:")
+        await pilot.press(*["backspace"] * 3, *"2x")
+        message = str(app.screen.query_one("#qty-message").render())
+        assert "'2x'" in message
+        assert stock_copy.read_text(encoding="utf-8") == before
+        await pilot.press("backspace", "backspace", "shift+tab")   # back to the table
+        assert isinstance(app.focused, DataTable)
         await pilot.press("down")            # second line: 10k, qty 20
         await pilot.press("e")
         assert isinstance(app.focused, Input) and app.focused.id == "qty"
@@ -59,20 +69,6 @@ async def test_edit_quantity_changes_exactly_that_number(stock_copy):
     diff = [(a, b) for a, b in zip(before.splitlines(), after.splitlines()) if a != b]
     assert diff == [("qty = 20", "qty = 17")]
     assert len(before.splitlines()) == len(after.splitlines())
-
-
-async def test_bad_quantity_is_refused_in_place(stock_copy):
-    before = stock_copy.read_bytes()
-    app = PickerApp(stock_copy)
-    async with app.run_test(size=SIZE) as pilot:
-        await settle(pilot, app)
-        await pilot.press("e", *"-11", "enter")      # 4k7 has 10
-        message = str(app.screen.query_one("#qty-message").render())
-        assert "only 10 on hand" in message and message.startswith("error:")
-        await pilot.press(*["backspace"] * 3, *"2x")
-        message = str(app.screen.query_one("#qty-message").render())
-        assert "'2x'" in message
-    assert stock_copy.read_bytes() == before
 
 
 async def test_add_line_validates_in_place_then_appends(stock_copy):
@@ -97,13 +93,14 @@ async def test_add_line_validates_in_place_then_appends(stock_copy):
     assert 'value = "6k8"' in text
 
 
-async def test_help_lists_keys_and_cautions(stock_copy):
+async def test_help_and_pane_keys_and_letters_inside_fields(stock_copy):
+    from picker.ui.screens.help import CAUTIONS, KEYS, HelpScreen
+
     app = PickerApp(stock_copy)
     async with app.run_test(size=SIZE) as pilot:
         await settle(pilot, app)
         await pilot.press("question_mark")
         await pilot.pause()
-        from picker.ui.screens.help import CAUTIONS, KEYS, HelpScreen
         assert isinstance(app.screen, HelpScreen)
         cautions = " ".join(CAUTIONS.split())
         for words in ("Discharge capacitors", "Isolate", "rated", "voltage margin",
@@ -113,12 +110,6 @@ async def test_help_lists_keys_and_cautions(stock_copy):
         await pilot.press("q")
         await pilot.pause()
         assert not isinstance(app.screen, HelpScreen)
-
-
-async def test_pane_keys_and_letters_inside_fields(stock_copy):
-    app = PickerApp(stock_copy)
-    async with app.run_test(size=SIZE) as pilot:
-        await settle(pilot, app)
         await pilot.press("2")
         assert app.screen.query_one("#panes").current == "targets"
         fc = app.screen.query_one("#t-fc", Input)
@@ -141,9 +132,16 @@ async def search_from_targets(pilot, app):
 
 
 async def test_enter_targets_then_matches_are_ranked(stock_copy):
+    """A bad fc is explained beside the field; a good one gives ranked matches."""
     app = PickerApp(stock_copy)
     async with app.run_test(size=SIZE) as pilot:
         await settle(pilot, app)
+        await pilot.press("2")
+        app.screen.query_one("#t-fc", Input).focus()
+        await pilot.press("ctrl+u", *"12q")
+        await pilot.pause()
+        message = str(app.screen.query_one("#m-fc").render())
+        assert message.startswith("error:") and "'12q'" in message
         await search_from_targets(pilot, app)
         screen = app.screen
         assert screen.targets.fc_hz == 1200.0 and screen.result_targets.fc_hz == 1200.0
@@ -157,18 +155,6 @@ async def test_enter_targets_then_matches_are_ranked(stock_copy):
         from picker.ui import backend
         direct = backend.search(screen.stock, backend.plan(screen.targets), screen.targets)
         assert direct.candidates[0] == pane.candidates[0]
-
-
-async def test_bad_target_shows_the_message_beside_the_field(stock_copy):
-    app = PickerApp(stock_copy)
-    async with app.run_test(size=SIZE) as pilot:
-        await settle(pilot, app)
-        await pilot.press("2")
-        app.screen.query_one("#t-fc", Input).focus()
-        await pilot.press("ctrl+u", *"12q")
-        await pilot.pause()
-        message = str(app.screen.query_one("#m-fc").render())
-        assert message.startswith("error:") and "'12q'" in message
 
 
 async def choose_first(pilot, app):
