@@ -23,6 +23,8 @@ import numpy as np
 from picker.search.allocate import combine
 from picker.search.stage import StageProblem, StageRows, patterns
 
+TRUNCATE = 256      # rows per class the trade-off loads first (more only if needed)
+
 
 class StageClasses:
     """The pattern sub-problems of one stage, grouped by piece count."""
@@ -57,24 +59,36 @@ class StageClasses:
                     self._best[j] = b
         return self._best
 
-    def classes(self, t: float):
-        """``[(j, b_j, loader)]`` for the classes that have an assignment ``<= t``."""
+    def classes(self, t: float, *, keep: int | None = None, tails: dict | None = None):
+        """``[(j, b_j, loader)]`` for the classes that have an assignment ``<= t``.
+
+        ``keep``: a loader returns only the best ``keep`` rows of its class within ``t``;
+        when it cuts, ``tails[j]`` receives the score of the last row kept (every row
+        left out scores at least that)."""
         out = []
         for j, b in sorted(self.best().items()):
             if b <= t:
-                out.append((j, b, lambda j=j: self.rows(j, t)))
+                out.append((j, b, lambda j=j: self.rows(j, t, keep=keep, tails=tails)))
         return out
 
 
-    def rows(self, j: int, t: float) -> StageRows:
-        """Every assignment of class ``j`` with score ``<= t``, indices into the full
-        value arrays of the space (so :meth:`Space.arrangement` reads them)."""
+    def rows(self, j: int, t: float, *, keep: int | None = None,
+             tails: dict | None = None) -> StageRows:
+        """Every assignment of class ``j`` with score ``<= t`` (or its best ``keep``),
+        indices into the full value arrays (so :meth:`Space.arrangement` reads them)."""
         parts = []
         for problem, back in self.by_j[j]:
-            rows = problem.within(t)
+            rows = problem.within(t) if keep is None else problem.best(keep, cap=t)[0]
             parts.append(StageRows({n: back[n][i] for n, i in rows.idx.items()}, rows.score,
                                    rows.pieces, rows.tol_max, rows.tol_sum, rows.units))
-        return merge(parts)
+        merged = merge(parts)
+        merged = merged.take(slice(0, int(np.searchsorted(merged.score, t, side="right"))))
+        if keep is not None and len(merged) > keep:
+            merged = merged.take(slice(0, keep))
+            tails[j] = float(merged.score[-1])
+        elif keep is not None and len(merged) == keep:
+            tails[j] = float(merged.score[-1])
+        return merged
 
 
 def _density(problem) -> int:
@@ -114,13 +128,25 @@ def tradeoff(classes: list[StageClasses], counts) -> list[tuple[int, float]]:
         lb = nxt
     curve = []
     for k in sorted(lb):
-        t = lb[k]
+        t, keep = lb[k], TRUNCATE
         while True:
-            found, _ = combine([c.classes(t) for c in classes], counts, top=1,
-                               pieces_total=k)
+            tails: dict = {}
+            stage_classes = [c.classes(t, keep=keep, tails=tails.setdefault(s, {}))
+                             for s, c in enumerate(classes)]
+            found, loaded = combine(stage_classes, counts, top=1, pieces_total=k)
+            # a class cut to its best `keep` rows is exact when nothing it left out
+            # could beat the score found: every left-out row scores >= its tail
+            cut = [tails[s][j] for (s, j) in loaded if j in tails[s]]
+            if not found and cut:
+                keep *= 8                  # the cut rows may hold the feasible ones
+                continue
             if found:
-                curve.append((k, float(found[0][0][0])))
-                break
+                score = float(found[0][0][0])
+                if all(score <= tail for tail in cut):
+                    curve.append((k, score))
+                    break
+                keep *= 8
+                continue
             if math.isinf(t):
                 break
             t = grow(t)
