@@ -239,3 +239,19 @@ async def test_bundled_sample_is_read_only():
         message = str(app.screen.query_one("#qty-message").render())
         assert message.startswith("error:") and "bundled sample" in message
     assert sample.read_bytes() == before
+
+
+async def test_matches_are_marked_old_while_the_targets_have_an_error(stock_copy):
+    app = PickerApp(stock_copy)
+    async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
+        await pilot.press("2")
+        app.screen.query_one("#t-order", Input).focus()
+        await pilot.press("backspace", "9")          # order 9: out of range
+        await pilot.pause()
+        status = str(app.screen.query_one("#m-status").render())
+        assert status.startswith("[old]") and "pane 2" in status
+        await pilot.press("backspace", "3")
+        await settle(pilot, app, 0.5)
+        status = str(app.screen.query_one("#m-status").render())
+        assert status.startswith("done:") and "order 3" in status

@@ -190,6 +190,16 @@ class MainScreen(TypingAware, Screen):
         self.targets = event.targets
         self.schedule_search()
 
+    @on(TargetsPane.Invalid)
+    def _targets_invalid(self) -> None:
+        self.targets = None
+        if self._timer is not None:
+            self._timer.stop()
+            self._timer = None
+        self.query_one(MatchesPane).show_stale(
+            "the targets have a field marked error (pane 2): these matches answer "
+            "the earlier targets")
+
     def schedule_search(self) -> None:
         """Search again after DEBOUNCE_S of quiet: typing restarts the pause."""
         if self._timer is not None:

@@ -81,7 +81,8 @@ class DrawersPane(TypingAware, Vertical):
         self.rows = []
         self._refill()
         put(self.query_one("#find-count", Static), "no stock")
-        put(self.query_one("#drawers-status", Static), say("error", text))
+        put(self.query_one("#drawers-status", Static),
+            say("error", text) + "\n(fix the file, then press r to read it again)")
 
     def _refill(self) -> None:
         table = self.query_one(DataTable)

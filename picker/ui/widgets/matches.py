@@ -60,6 +60,7 @@ class MatchesPane(Vertical):
     def __init__(self, **kwargs) -> None:
         super().__init__(**kwargs)
         self.candidates: list = []
+        self.last_status = ""
 
     def compose(self) -> ComposeResult:
         yield Static("no search yet: fill in the targets (pane 2)", id="m-status",
@@ -70,14 +71,22 @@ class MatchesPane(Vertical):
     def on_mount(self) -> None:
         self.query_one(DataTable).add_columns(*COLUMNS)
 
+    def show_stale(self, text: str) -> None:
+        """Keep the rows, but say first that they answer other targets."""
+        self.query_one("#m-status", Static).update(f"[old] {text}\n{self.last_status}")
+
+    def _show_status(self, text: str) -> None:
+        self.last_status = text
+        self.query_one("#m-status", Static).update(text)
+
     def show_busy(self, what: str) -> None:
-        self.query_one("#m-status", Static).update(f"[busy] searching: {what} …")
+        self._show_status(f"[busy] searching: {what} …")
 
     def show_message(self, text: str) -> None:
         self.candidates = []
         self.query_one(DataTable).clear()
         self.query_one("#m-tradeoff", Static).update("")
-        self.query_one("#m-status", Static).update(text)
+        self._show_status(text)
 
     def show_result(self, result, *, seconds: float, what: str) -> None:
         self.candidates = list(result.candidates)
@@ -89,9 +98,8 @@ class MatchesPane(Vertical):
             table.add_row(str(rank), pct(c.score), str(c.pieces), stage_names(c), opamp,
                           notes, key=str(rank))
         n = len(self.candidates)
-        self.query_one("#m-status", Static).update(
-            f"done: {n} candidate(s) for {what} in {seconds:.2f} s"
-            + ("; enter on a row: look closer" if n else ""))
+        self._show_status(f"done: {n} candidate(s) for {what} in {seconds:.2f} s"
+                     + ("; enter on a row: look closer" if n else ""))
         self.query_one("#m-tradeoff", Static).update(tradeoff_text(result.tradeoff))
 
     @on(DataTable.RowSelected, "#m-table")

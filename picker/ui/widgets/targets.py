@@ -39,6 +39,9 @@ class TargetsPane(VerticalScroll):
             self.targets = targets
             super().__init__()
 
+    class Invalid(Message):
+        """Some field cannot be read: the matches shown no longer answer the form."""
+
     def __init__(self, **kwargs) -> None:
         super().__init__(**kwargs)
         self.targets: Targets | None = None
@@ -90,6 +93,9 @@ class TargetsPane(VerticalScroll):
             for name, text in exc.errors.items():
                 put(self.query_one(f"#m-{name}", Static), say("error", text))
             put(status, say("waiting", "fix the fields marked error"))
+            if self.targets is not None:
+                self.targets = None
+                self.post_message(self.Invalid())
             return
         except Exception as exc:   # a parser of the core missing or broken
             put(status, say("error", f"cannot read the form: {exc}"))
