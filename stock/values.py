@@ -66,13 +66,17 @@ def _scaled(digits: str, exp: int, sign: str, text) -> float:
     return _check_number(-x if sign == "-" else x, str(text))
 
 
-def _unit_kind(unit: str) -> str | None:
-    """'resistor', 'capacitor', '' for no unit, or None for a unit we do not know."""
+def _unit_kind(unit: str, *, after_prefix: bool = False) -> str | None:
+    """'resistor', 'capacitor', '' for no unit, or None for a unit we do not know.
+
+    A lower-case ``f`` counts as farads only after a prefix (``100nf``, ``4.7 uf``,
+    common practice on bag labels); alone it stays the femto prefix.
+    """
     if not unit:
         return ""
     if re.fullmatch(_OHM, unit):
         return "resistor"
-    if unit == "F":
+    if unit == "F" or (unit == "f" and after_prefix):
         return "capacitor"
     return None
 
@@ -148,7 +152,7 @@ def parse_value(text, *, kind: str | None = None) -> float:
         unit = m["unit"]
         digits = f"{m['int'] or '0'}.{m['frac']}"
         exp = 0 if letter in "RF" else PREFIXES[letter]
-        uk = _unit_kind(unit)
+        uk = _unit_kind(unit, after_prefix=letter not in "RF")
         if uk is None:
             raise ValueParseError(f"unknown unit '{unit}' in '{text}'; {VALUE_HELP}")
         implied = {"R": "resistor", "F": "capacitor"}.get(letter, "")
@@ -166,7 +170,7 @@ def parse_value(text, *, kind: str | None = None) -> float:
         prefix = m["prefix"]
         unit = m["unit"]
         exp = _prefix_exp(prefix)
-        uk = _unit_kind(unit)
+        uk = _unit_kind(unit, after_prefix=bool(prefix))
         if uk is None:
             raise ValueParseError(f"unknown unit '{unit}' in '{text}'; {VALUE_HELP}")
         value_kind = uk

@@ -46,6 +46,21 @@ def test_si_notation(text, expected):
     assert parse_value(text) == pytest.approx(expected, rel=1e-12)
 
 
+# Lower-case "f" for farads after a prefix, as bags are often labelled (common practice);
+# alone it is still the femto prefix (BIPM SI brochure, 9th ed., table 7).
+@pytest.mark.parametrize("text, expected", [
+    ("2.2 nf", 2.2e-9), ("100nf", 100e-9), ("4.7uf", 4.7e-6), ("10 µf", 10e-6),
+    ("2n2f", 2.2e-9), ("15f", 15e-15),
+])
+def test_lower_case_farad_after_a_prefix(text, expected):
+    assert parse_value(text, kind="capacitor") == pytest.approx(expected, rel=1e-12)
+
+
+def test_lower_case_farad_is_not_a_resistor():
+    with pytest.raises(ValueParseError, match="in farads, not a resistor"):
+        parse_value("4.7nf", kind="resistor")
+
+
 def test_values_round_once():
     # the decimal is scaled exactly, so "2n2" is the same float as the literal 2.2e-9
     assert parse_value("2n2") == 2.2e-9
