@@ -16,9 +16,10 @@ def run(args) -> int:
     app.run(mouse=bool(getattr(args, "mouse", False)))
     code = int(app.return_code or 0)
     if any(t.is_alive() and t is not threading.main_thread() for t in threading.enumerate()):
-        # A search or budget still computing in a worker thread (threads cannot be
-        # stopped, and they only compute: every write to the stock file happens on
-        # the main thread and is finished). Leave now instead of waiting for it.
+        # A worker thread still waiting on a search or budget (their child processes
+        # are killed when the screen closes; the threads only read results, and every
+        # write to the stock file happens on the main thread and is finished). Leave
+        # now rather than wait for them.
         sys.stdout.flush()
         sys.stderr.flush()
         os._exit(code)

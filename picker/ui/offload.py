@@ -24,6 +24,8 @@ PRELOAD = ["numpy", "stock.file", "stock.values",
            "picker.search", "picker.budget", "picker.ui.backend"]
 _context = None
 _context_lock = threading.Lock()
+_started = threading.Event()        # set once start() has run on the main thread
+START_WAIT_S = 30.0
 
 
 def context():
@@ -52,6 +54,7 @@ def start() -> None:
         forkserver.ensure_running()
     finally:
         sys.stdout, sys.stderr = saved
+    _started.set()
 
 
 class Cancelled(Exception):
@@ -85,6 +88,8 @@ class Lane:
         self._proc = None
 
     def run(self, fn: Callable, *args):
+        if not _started.wait(START_WAIT_S):
+            raise JobError("the helper process for searches was not started")
         ctx = context()
         receive, send = ctx.Pipe(duplex=False)
         proc = ctx.Process(target=_child, args=(send, fn, args), daemon=True,

@@ -107,11 +107,11 @@ class MainScreen(TypingAware, Screen):
         self.set_timer(PAUSE_S, self._second_step)
 
     def _second_step(self) -> None:
-        offload.start()                 # the fork server imports the core meanwhile
         self.read_stock(self.note or "")
         self.set_timer(PAUSE_S, self._third_step)
 
     async def _third_step(self) -> None:
+        offload.start()                 # the fork server imports the core meanwhile
         panes = [TargetsPane(id="targets"), MatchesPane(id="matches"), ChosenPane(id="chosen")]
         for pane in panes:
             pane.display = False
