@@ -246,6 +246,10 @@ def do_build(stock_path, plan: BuildPlan, *, expect_sha256=None):
 def undo_preview(stock_path) -> ledger.BuildRecord:
     """The build ``undo_last`` would undo, checked; raises StockEditError if it cannot."""
     path = Path(stock_path)
+    if not path.is_file():
+        why = "is a directory" if path.is_dir() else "does not exist"
+        raise StockEditError(f"{path}: {why}; name the stock file the build changed, "
+                             "e.g. --stock inventory.toml")
     while True:
         record = ledger.last_build(path)
         if record is None:

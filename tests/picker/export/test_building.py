@@ -117,6 +117,14 @@ def test_hand_edited_design_blamed_not_the_stock(tmp_path, stock_file):
     assert "stock file changed" not in msg
 
 
+def test_undo_of_a_folder_or_missing_file_says_so(tmp_path, capsys):
+    assert main(["undo", "--stock", str(tmp_path), "--yes"]) == 2
+    assert f"{tmp_path}: is a directory; name the stock file" in capsys.readouterr().err
+    assert main(["undo", "--stock", str(tmp_path / "gone.toml"), "--yes"]) == 2
+    assert "gone.toml: does not exist" in capsys.readouterr().err
+    assert list(tmp_path.iterdir()) == []              # no ledger folder made
+
+
 def test_unrelated_edit_warns_and_builds(tmp_path, stock_file):
     design = _design(tmp_path, stock_file)
     text = stock_file.read_text(encoding="utf-8").replace(
