@@ -177,6 +177,22 @@ def test_missing_file(tmp_path):
         load(tmp_path / "nope.toml")
 
 
+def test_folder_and_unreadable_file(tmp_path, monkeypatch):
+    with pytest.raises(StockFileError, match=f"{tmp_path}: cannot read the stock file: Is a "
+                                             "directory"):
+        load(tmp_path)
+    p = tmp_path / "locked.toml"
+    p.write_text('[[resistor]]\nvalue = "1k"\nqty = 1\n', encoding="utf-8")
+
+    def denied(self):
+        raise PermissionError(13, "Permission denied", str(self))
+    # root reads a mode-000 file anyway, so the refusal of the OS is simulated
+    monkeypatch.setattr(Path, "read_bytes", denied)
+    with pytest.raises(StockFileError, match="locked.toml: cannot read the stock file: "
+                                             "Permission denied"):
+        load(p)
+
+
 @pytest.mark.parametrize("text, line, start", [
     (R + 'value = "1k"\nqty = 1\ncolour = "brown"\n', 4, "resistor colour: unknown key"),
     ('[drawer]\nx = 1\n' + R + 'value = "1k"\nqty = 1\n', 1, "unknown table 'drawer'"),
