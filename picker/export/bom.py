@@ -59,19 +59,24 @@ def _join_positions(by_stage: dict[int, list[str]], stages: int) -> str:
 
 
 def bom_rows(design: SavedDesign) -> list[BomRow]:
-    """One row per stock line used, resistors then capacitors by value, then the op amp."""
+    """One row per stock line used, resistors then capacitors by value, then the op amp.
+
+    A measured piece gets a row of its own (after its line's plain pieces), so its
+    reading stands beside the one position it goes to.
+    """
     from stock.values import format_rkm
 
-    groups: dict[tuple[str, int], dict] = {}
+    groups: dict[tuple[str, int, int], dict] = {}
     for s, pos, k, part in design.parts():
-        g = groups.setdefault((part.kind, part.index), {
+        which = -1 if part.measured is None else part.measured
+        g = groups.setdefault((part.kind, part.index, which), {
             "part": part, "count": 0, "stages": {}, "measured": []})
         g["count"] += 1
         g["stages"].setdefault(s, []).append(designator(pos.name, pos.arrangement, k))
         if part.measured is not None:
             g["measured"].append(part.value)
     rows = []
-    for (kind, index), g in groups.items():
+    for (kind, index, _which), g in groups.items():
         part = g["part"]
         rows.append(BomRow(
             kind=kind, value=format_rkm(part.nominal, kind), location=part.location,
@@ -79,7 +84,8 @@ def bom_rows(design: SavedDesign) -> list[BomRow]:
             tolerance=_format_tolerance(_line_tolerance(part)),
             measured=tuple(format_rkm(v, kind) for v in sorted(g["measured"])),
             index=index, nominal=part.nominal))
-    rows.sort(key=lambda r: (KIND_ORDER[r.kind], r.nominal, r.location or "", r.index))
+    rows.sort(key=lambda r: (KIND_ORDER[r.kind], r.nominal, r.location or "", r.index,
+                             r.measured))
     if design.opamp is not None:
         oa = design.opamp
         n = len(design.stages)

@@ -10,6 +10,7 @@ import pytest
 
 from picker.export import bom_csv, bom_rows, load_design, pick_count, pick_list, pick_list_lines
 from picker.export.bom import CSV_HEADER
+from picker.parts import Piece
 from tests.picker.export.helpers import (
     REQUEST, lowpass_candidate, stock_records, two_stage_candidate,
 )
@@ -122,3 +123,25 @@ def test_measured_only_row_shows_the_line_tolerance(tmp_path):
     (row,) = [r for r in bom_rows(design) if r.value == "910R"]
     assert row.tolerance == "5%" and row.measured == ("908R5",)
     assert design.stages[0].positions[1].parts[1].tolerance == 0.005
+
+
+def test_measured_piece_has_its_own_row_beside_its_position(tmp_path):
+    # one 910R line (qty 2, one piece measured at 908.5 ohm): R1b takes a plain piece,
+    # R2b the measured one; the reading must stand beside R2b only
+    from dataclasses import replace
+    stock = stock_records(path=tmp_path / "s.toml", sha="00" * 32)
+    r910 = stock.resistors[1]
+    cand = lowpass_candidate(stock)
+    stage = cand.stages[0]
+    r1 = stage.positions[0][1]
+    plain = Piece(r910, 910.0, 0.01)
+    stage = replace(stage, positions=(("R1", replace(r1, parts=(r1.parts[0], plain))),)
+                    + stage.positions[1:])
+    save_design(tmp_path / "d.toml", candidate=replace(cand, stages=(stage,)), request=REQUEST,
+                stock=stock)
+    design = load_design(tmp_path / "d.toml")
+    rows = [(r.positions, r.count, r.measured) for r in bom_rows(design) if r.value == "910R"]
+    assert rows == [("R1b", 1, ()), ("R2b", 1, ("908R5",))]
+    csv_lines = bom_csv(design).splitlines()
+    assert "resistor,910R,1%,A2,1,R1b," in csv_lines
+    assert "resistor,910R,1%,A2,1,R2b,908R5" in csv_lines
