@@ -100,7 +100,10 @@ class DesignReport:
             parts.append(Text("  " + line))
         if self.budget_panel is not None:
             parts.append(self.budget_panel)
-        warnings = list(best.warnings) + [w for w in self.warnings if w not in best.warnings]
+        warnings = list(best.warnings)
+        for w in list(self.warnings) + list(getattr(self.result, "notes", ())):
+            if w not in warnings:
+                warnings.append(w)
         for w in warnings:
             parts.append(Text(f"warning: {w}"))
         yield Group(*parts)
@@ -127,6 +130,7 @@ def design_json(result, budgets=None) -> dict:
                 "budget": bud.stage_json(i) if bud is not None else None,
             })
         warnings = list(cand.warnings)
+        warnings += [n for n in getattr(result, "notes", ()) if n not in warnings]
         if bud is not None:
             warnings += [w for w in bud.warnings if w not in warnings]
         out.append({"score": cand.score, "pieces": cand.pieces, "stages": stages,

@@ -28,17 +28,28 @@ import bisect
 import numpy as np
 
 
-def combine(stages, counts: np.ndarray, *, top: int = 1, pieces_total: int | None = None):
+STEPS = 300_000     # rows the depth-first search may try before it stops (see combine)
+
+
+class Incomplete(Exception):
+    """The search stopped after ``STEPS`` rows; what it found is not proven best."""
+
+
+def combine(stages, counts: np.ndarray, *, top: int = 1, pieces_total: int | None = None,
+            steps: int | None = STEPS):
     """Best ``top`` combinations.
 
     ``stages``: per stage a list of ``(j, best_score, loader)`` classes (only classes
-    with ``best_score <= t``). Returns ``[(key, ((j, row), ...))]``, best first, and the
-    loaded lists as ``{(stage, j): StageRows}``.
+    with ``best_score <= t``). Returns ``[(key, ((j, row), ...))]``, best first, the
+    loaded lists as ``{(stage, j): StageRows}``, and whether the search was complete:
+    when scarce pieces make the stages block each other, the depth-first search can
+    need very many steps; after ``steps`` rows it stops and returns what it has, marked
+    incomplete (then not proven optimal; the caller says so).
     """
     n = len(stages)
     loaded: dict[tuple[int, int], object] = {}
     if any(not classes for classes in stages):
-        return [], loaded
+        return [], loaded, True
     stages = [sorted(c, key=lambda x: x[0]) for c in stages]
     min_score = [min(b for _, b, _ in c) for c in stages]
     min_j = [min(j for j, _, _ in c) for c in stages]
@@ -53,6 +64,7 @@ def combine(stages, counts: np.ndarray, *, top: int = 1, pieces_total: int | Non
     used: dict[int, int] = {}
     found: list[tuple] = []
     chosen: list[tuple[int, int]] = []
+    tried = [0]
 
     def rows_of(s, j, loader):
         if (s, j) not in columns:
@@ -87,6 +99,9 @@ def combine(stages, counts: np.ndarray, *, top: int = 1, pieces_total: int | Non
                 continue
             sc, tm, ts = rows_of(s, j, loader)
             for i in range(len(sc)):
+                tried[0] += 1
+                if steps is not None and tried[0] > steps:
+                    raise Incomplete
                 bound = found[-1][0] if len(found) >= top else None
                 lb = max(score, sc[i], rest_score[s + 1])
                 if bound is not None:
@@ -105,5 +120,9 @@ def combine(stages, counts: np.ndarray, *, top: int = 1, pieces_total: int | Non
                 for u, m in need:
                     used[u] -= m
 
-    visit(0, 0.0, 0, 0.0, 0.0)
-    return [(key[:4], rows) for key, rows in found], loaded
+    complete = True
+    try:
+        visit(0, 0.0, 0, 0.0, 0.0)
+    except Incomplete:
+        complete = False
+    return [(key[:4], rows) for key, rows in found], loaded, complete

@@ -28,8 +28,11 @@ from picker.search.tradeoff import StageClasses
 
 @dataclass(frozen=True)
 class SearchResult:
+    """Candidates best first; trade-off as (total pieces, best score); notes for people."""
+
     candidates: list[Candidate]
     tradeoff: list[tuple[int, float]] = field(default_factory=list)
+    notes: tuple[str, ...] = ()
 
 
 def grow(t: float) -> float:
@@ -66,6 +69,7 @@ def search(stock, stages, *, singles: bool = False, allow_polarized: bool = Fals
     check_supply(space, stages, bounds)
     classes = [StageClasses(topo, target, space, singles=singles, label=f"stage {i + 1}")
                for i, (topo, target) in enumerate(stages)]
+    notes: list[str] = []
     if len(stages) == 1:
         topo, target = stages[0]
         problem = StageProblem(topo, target, space,
@@ -74,24 +78,38 @@ def search(stock, stages, *, singles: bool = False, allow_polarized: bool = Fals
         found = [((float(rows.score[i]),), ((None, i),)) for i in range(min(top, len(rows)))]
         loaded = {(0, None): rows}
     else:
-        found, loaded = best_combinations(classes, space, top=top)
+        found, loaded, note = best_combinations(classes, space, top=top)
+        if note:
+            notes.append(note)
     if not found:
         raise NoDesignError("no combination of the parts on hand fills every position of "
                             "every stage with the quantities in stock")
     opamp, warnings = choose_opamp(stock.opamps, stages)
-    candidates = [build_candidate(stages, loaded, space, rows, key, opamp, warnings)
+    candidates = [build_candidate(stages, loaded, space, rows, key, opamp, warnings + notes)
                   for key, rows in found]
-    curve = trade(classes, space.counts) if tradeoff else []
-    return SearchResult(candidates, curve)
+    curve = []
+    if tradeoff:
+        curve, skipped = trade(classes, space.counts)
+        if skipped:
+            notes.append("trade-off: piece counts " + ", ".join(map(str, skipped))
+                         + " left out (the joint allocation hit its step limit there)")
+    return SearchResult(candidates, curve, tuple(notes))
 
 
 def best_combinations(classes, space: Space, *, top: int):
-    """(exact ``top`` joint combinations, the loaded class lists they index)."""
+    """(``top`` joint combinations, the loaded class lists they index, note or None).
+
+    Exact unless the allocation stopped at its step limit (then the note says so)."""
     t = max(min(c.best().values(), default=math.inf) for c in classes)
     while True:
-        found, loaded = combine([c.classes(t) for c in classes], space.counts, top=top)
+        found, loaded, complete = combine([c.classes(t) for c in classes], space.counts,
+                                          top=top)
+        if not complete and found:
+            return found, loaded, (
+                "the stages compete for scarce pieces and the joint allocation stopped at "
+                f"its step limit: these are the best combinations found, not proven optimal")
         if len(found) >= top or math.isinf(t):
-            return found, loaded
+            return found, loaded, None
         t = grow(t)
 
 

@@ -102,8 +102,10 @@ class StageProblem:
             return self._rows(math.inf, probe=False), math.inf
         if self._cache is not None and len(self._cache[1]) >= need:
             rows = self._cache[1]
-            t = float(rows.score[need - 1])
+            t = min(float(rows.score[need - 1]), cap)
             return self.within(t), t
+        if self._cache is not None and self._cache[0] >= cap:
+            return self.within(cap), cap        # every row <= cap is already known
         probe = self._rows(0.0, probe=True)
         t = float(probe.score[min(need, len(probe)) - 1]) if len(probe) else 1e-4
         t = min(t, cap)

@@ -108,15 +108,16 @@ def merge(parts: list[StageRows]) -> StageRows:
     return merged.take(order)
 
 
-def tradeoff(classes: list[StageClasses], counts) -> list[tuple[int, float]]:
-    """[(total pieces, best score)] for every reachable piece count, fewest pieces first."""
+def tradeoff(classes: list[StageClasses], counts):
+    """([(total pieces, best score)] for every reachable piece count, fewest pieces first,
+    [piece counts left out because the joint allocation hit its step limit])."""
     from picker.search.api import grow
 
     best = [c.best() for c in classes]
     if any(not b for b in best):
-        return []
+        return [], []
     if len(classes) == 1:
-        return sorted((j, s) for j, s in best[0].items() if math.isfinite(s))
+        return sorted((j, s) for j, s in best[0].items() if math.isfinite(s)), []
     lb = {0: 0.0}
     for b in best:                      # LB(k) by dynamic programming over the stages
         nxt: dict[int, float] = {}
@@ -126,14 +127,17 @@ def tradeoff(classes: list[StageClasses], counts) -> list[tuple[int, float]]:
                 if v < nxt.get(k + j, math.inf):
                     nxt[k + j] = v
         lb = nxt
-    curve = []
+    curve, skipped = [], []
     for k in sorted(lb):
         t, keep = lb[k], TRUNCATE
         while True:
             tails: dict = {}
             stage_classes = [c.classes(t, keep=keep, tails=tails.setdefault(s, {}))
                              for s, c in enumerate(classes)]
-            found, loaded = combine(stage_classes, counts, top=1, pieces_total=k)
+            found, loaded, complete = combine(stage_classes, counts, top=1, pieces_total=k)
+            if not complete:
+                skipped.append(k)
+                break
             # a class cut to its best `keep` rows is exact when nothing it left out
             # could beat the score found: every left-out row scores >= its tail
             cut = [tails[s][j] for (s, j) in loaded if j in tails[s]]
@@ -150,4 +154,4 @@ def tradeoff(classes: list[StageClasses], counts) -> list[tuple[int, float]]:
             if math.isinf(t):
                 break
             t = grow(t)
-    return curve
+    return curve, skipped

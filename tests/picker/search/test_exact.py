@@ -46,7 +46,7 @@ def test_sallen_key_highpass(stock, f0, q):
     check_against_brute(stock, [(get_topology("sallen-key-highpass"), StageTarget(f0, q))])
 
 
-@settings(max_examples=25, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@settings(max_examples=12, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 @given(stocks(r=(2, 2), c=(2, 3)), F0, st.sampled_from((0.7071, 1.3)),
        st.sampled_from((1.5, 2.0)), st.sampled_from(("lowpass", "highpass")))
 def test_sallen_key_gain(stock, f0, q, gain, kind):
@@ -70,7 +70,7 @@ def test_cascade_competes_for_pieces(stock, f0, ratio):
     check_against_brute(stock, stages)
 
 
-@settings(max_examples=30, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@settings(max_examples=15, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 @given(stocks(r=(2, 3), c=(2, 3), qty_max=2), F0, st.floats(1.5, 4.0))
 def test_cascade_with_gain_stage(stock, f0, gain):
     stages = [(get_topology("non-inverting-lowpass-gain"), StageTarget(f0, None, gain)),
