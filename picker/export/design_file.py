@@ -177,7 +177,33 @@ def save_design(path, *, candidate: Candidate, request: dict, stock) -> None:
         The stock the candidate was found in: its path and sha256 are recorded.
     """
     doc = design_document(candidate=candidate, request=request, stock=stock)
-    write_atomic(Path(path), tomli_w.dumps(doc).encode("utf-8"))
+    path = Path(path)
+    _check_target(path, stock)
+    write_atomic(path, tomli_w.dumps(doc).encode("utf-8"))
+
+
+def _check_target(path: Path, stock) -> None:
+    """Refuse to replace a folder, the stock file or any file that is not a saved design."""
+    hint = "pick another name, e.g. d.toml; nothing was written"
+    if path.is_dir():
+        raise DesignError(f"{path}: is a folder, not a file name; {hint}")
+    if not path.exists():
+        return
+    stock_path = getattr(stock, "path", None)
+    try:
+        same = stock_path is not None and path.samefile(stock_path)
+    except OSError:
+        same = False
+    if same:
+        raise DesignError(f"{path}: is the stock file the design came from; saving there "
+                          f"would replace your stock; {hint}")
+    try:
+        old = tomllib.loads(path.read_bytes().decode("utf-8"))
+    except (OSError, UnicodeDecodeError, tomllib.TOMLDecodeError):
+        old = None
+    if not (isinstance(old, dict) and "candidate" in old and "format" in old):
+        raise DesignError(f"{path}: exists and is not a design saved by picker, so it is not "
+                          f"replaced; {hint}")
 
 
 def design_document(*, candidate: Candidate, request: dict, stock) -> dict:
@@ -279,11 +305,14 @@ def write_atomic(path: Path, data: bytes) -> None:
             os.fsync(fh.fileno())
         os.chmod(tmp, mode)
         os.replace(tmp, path)
-    except BaseException:
+    except BaseException as exc:
         try:
             os.unlink(tmp)
         except FileNotFoundError:
             pass
+        if isinstance(exc, OSError):
+            raise DesignError(f"{path}: cannot write the design: "
+                              f"{exc.strerror or exc}") from exc
         raise
     try:
         dfd = os.open(folder, os.O_RDONLY)

@@ -12,8 +12,9 @@ import pytest
 
 from picker.errors import DesignError
 from picker.export import load_design, save_design
+from stock.file import load
 from tests.picker.export.helpers import (
-    REQUEST, lowpass_candidate, stock_records, two_stage_candidate,
+    REQUEST, STOCK_TEXT, lowpass_candidate, stock_records, two_stage_candidate,
 )
 
 
@@ -167,3 +168,36 @@ def test_request_values_made_plain(tmp_path):
     assert req["bounds"] == {"r_min": 1e3}
     assert req["temp"] == [0.0, 70.0] and req["fc_hz"] == 1000.0
     assert req["path"] == str(tmp_path) and req["gain"] == "inf"
+
+
+def test_save_never_replaces_the_stock_a_folder_or_a_foreign_file(tmp_path):
+    # `picker design ... --save inventory.toml` must not overwrite the stock file
+    stock_file = tmp_path / "inventory.toml"
+    stock_file.write_text(STOCK_TEXT, encoding="utf-8")
+    stock = load(stock_file)
+    before = stock_file.read_bytes()
+    cand = lowpass_candidate(stock)
+    with pytest.raises(DesignError, match="is the stock file the design came from"):
+        save_design(stock_file, candidate=cand, request=REQUEST, stock=stock)
+    assert stock_file.read_bytes() == before
+    with pytest.raises(DesignError, match="is a folder, not a file name"):
+        save_design(tmp_path, candidate=cand, request=REQUEST, stock=stock)
+    notes = tmp_path / "notes.toml"
+    notes.write_text('title = "my notes"\n', encoding="utf-8")
+    with pytest.raises(DesignError, match="exists and is not a design saved by picker"):
+        save_design(notes, candidate=cand, request=REQUEST, stock=stock)
+    assert notes.read_text(encoding="utf-8") == 'title = "my notes"\n'
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["inventory.toml", "notes.toml"]
+
+
+def test_failed_rename_is_a_design_error_and_leaves_no_temp(tmp_path, monkeypatch):
+    path, stock = _saved(tmp_path)
+    before = path.read_bytes()
+
+    def refuse(src, dst):
+        raise OSError(28, "No space left on device")
+    monkeypatch.setattr(os, "replace", refuse)
+    with pytest.raises(DesignError, match="cannot write the design: No space left"):
+        save_design(path, candidate=two_stage_candidate(stock), request=REQUEST, stock=stock)
+    assert path.read_bytes() == before
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["design.toml"]
