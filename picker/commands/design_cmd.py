@@ -146,7 +146,7 @@ def run(args) -> int:
                          q=request["q"], family=request["topology"])
     result = search(stock, stages, singles=request["singles"],
                     allow_polarized=request["allow_polarized"],
-                    bounds=Bounds(**request["bounds"]), top=args.top)
+                    bounds=Bounds(**request["bounds"]), top=args.top, for_people=True)
     opts = request.pop("_budget")
     mod = _budget_module()
     budgets = [mod.budget(c, **opts) if mod else None for c in result.candidates] \

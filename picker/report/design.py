@@ -66,12 +66,24 @@ class DesignReport:
     def _tradeoff(self) -> Table | None:
         if not self.result.tradeoff:
             return None
-        table = Table(title="parts vs precision (best worst-error for each piece count)",
-                      title_justify="left", pad_edge=False)
+        import math
+
+        from rich import box
+
+        table = Table(title="parts vs precision: best for each piece count",
+                      title_justify="left", box=box.SIMPLE_HEAD, pad_edge=False)
         table.add_column("pieces", justify="right")
-        table.add_column("best worst error", justify="right")
+        table.add_column("worst error", justify="right")
+        table.add_column("(longer bar: more precise)", no_wrap=True)
+        scores = [s for _, s in self.result.tradeoff if s > 0 and math.isfinite(s)]
+        hi = math.log10(max(scores)) if scores else 0.0
+        lo = math.log10(min(scores)) if scores else 0.0
         for pieces, score in self.result.tradeoff:
-            table.add_row(str(pieces), pct(score))
+            if score > 0 and math.isfinite(score) and hi > lo:
+                n = 1 + round(29 * (hi - math.log10(score)) / (hi - lo))
+            else:
+                n = 30
+            table.add_row(str(pieces), pct(score), "#" * n)
         return table
 
     def __rich_console__(self, console: Console, options: ConsoleOptions) -> RenderResult:

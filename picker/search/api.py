@@ -35,13 +35,40 @@ class SearchResult:
     notes: tuple[str, ...] = ()
 
 
+SPARE = 3   # combinations asked for per candidate shown, so that look-alikes can go
+
+
+def signature(candidate: Candidate) -> tuple:
+    """What a person building it sees: per position the arrangement and the pieces'
+    values and drawers. Two candidates that differ only in which of two identical
+    pieces they take (two lines of one value in one drawer, two equal measured
+    readings) have the same signature."""
+    return tuple(
+        tuple((name, arr.arrangement,
+               tuple(sorted((p.value, p.location or "") for p in arr.parts)))
+              for name, arr in stage.positions)
+        for stage in candidate.stages)
+
+
+def distinct(candidates: list[Candidate]) -> list[Candidate]:
+    """Candidates in order, each signature once (the first, i.e. best-ranked, kept)."""
+    seen, out = set(), []
+    for c in candidates:
+        sig = signature(c)
+        if sig not in seen:
+            seen.add(sig)
+            out.append(c)
+    return out
+
+
 def grow(t: float) -> float:
     """Next threshold: x4 (from at least 1e-9), infinity once windows stop helping."""
     return math.inf if t >= WIDE else max(4.0 * t, 1e-9)
 
 
 def search(stock, stages, *, singles: bool = False, allow_polarized: bool = False,
-           bounds: Bounds = Bounds(), top: int = 5, tradeoff: bool = True) -> SearchResult:
+           bounds: Bounds = Bounds(), top: int = 5, tradeoff: bool = True,
+           for_people: bool = False) -> SearchResult:
     """Best ``top`` candidates from ``stock`` for ``stages`` (from ``plan_stages``).
 
     Parameters
@@ -53,6 +80,10 @@ def search(stock, stages, *, singles: bool = False, allow_polarized: bool = Fals
     bounds : allowed combined value per position
     top : number of candidates
     tradeoff : also compute the best score for each total piece count
+    for_people : the shells' policy (CLI report, TUI): refuse at once, naming the reach
+        of the parts, a stage whose f0 lies outside what the values on hand can reach
+        (rather than searching the whole space for a far-off best), and show each
+        look-alike candidate once (see :func:`distinct`). Rank 1 is the same either way.
 
     Raises
     ------
@@ -67,6 +98,9 @@ def search(stock, stages, *, singles: bool = False, allow_polarized: bool = Fals
     space = build_space(stock, singles=singles, allow_polarized=allow_polarized,
                         bounds=bounds)
     check_supply(space, stages, bounds)
+    if for_people:
+        check_reach(space, stages)
+    spare = SPARE if for_people else 1
     classes = [StageClasses(topo, target, space, singles=singles, label=f"stage {i + 1}")
                for i, (topo, target) in enumerate(stages)]
     notes: list[str] = []
@@ -74,11 +108,11 @@ def search(stock, stages, *, singles: bool = False, allow_polarized: bool = Fals
         topo, target = stages[0]
         problem = StageProblem(topo, target, space,
                                {p.name: space.values[p.kind] for p in topo.positions})
-        rows, _ = problem.best(top)
-        found = [((float(rows.score[i]),), ((None, i),)) for i in range(min(top, len(rows)))]
+        rows, _ = problem.best(top * spare)
+        found = [((float(rows.score[i]),), ((None, i),)) for i in range(len(rows))]
         loaded = {(0, None): rows}
     else:
-        found, loaded, note = best_combinations(classes, space, top=top)
+        found, loaded, note = best_combinations(classes, space, top=top * spare)
         if note:
             notes.append(note)
     if not found:
@@ -87,6 +121,7 @@ def search(stock, stages, *, singles: bool = False, allow_polarized: bool = Fals
     opamp, warnings = choose_opamp(stock.opamps, stages)
     candidates = [build_candidate(stages, loaded, space, rows, key, opamp, warnings + notes)
                   for key, rows in found]
+    candidates = (distinct(candidates) if for_people else candidates)[:top]
     curve = []
     if tradeoff:
         curve, skipped = trade(classes, space.counts)
@@ -149,5 +184,47 @@ def check_supply(space: Space, stages, bounds: Bounds) -> None:
                                 + " lines do not count)")
         if space.usable[kind] < n:
             count = len(stages)
-            raise NoDesignError(f"the {count} stage{'s' if count > 1 else ''} need {n} "
+            raise NoDesignError(f"the {count} stage{'s' if count > 1 else ''} "
+                                f"need{'' if count > 1 else 's'} {n} "
                                 f"{kind}s, the stock has {space.usable[kind]} usable")
+
+
+def check_reach(space: Space, stages) -> None:
+    """NoDesignError when a stage's f0 lies outside what the values on hand can reach.
+
+    Every topology's f0 falls as any of its R or C grows (f0 = 1/(2 pi sqrt(product)))
+    or does not depend on it, so the reachable f0 range is spanned by the corners of
+    the box [smallest, largest value on hand] per position; all corners are evaluated,
+    so no monotonicity in a particular direction is assumed. Without this check a
+    target far out of reach would send the search through its whole space.
+    """
+    import itertools
+
+    import numpy as np
+
+    from stock.values import format_rkm, format_si
+
+    for s, (topo, target) in enumerate(stages, start=1):
+        names = [p.name for p in topo.positions]
+        ends = []
+        for p in topo.positions:
+            v = space.values[p.kind].value
+            ends.append((float(v[0]), float(v[-1])))
+        corners = np.array(list(itertools.product(*ends)))
+        f0, _, _ = topo.characteristics({n: corners[:, i] for i, n in enumerate(names)})
+        f0 = np.asarray(f0, float)
+        lo, hi = float(np.nanmin(f0)), float(np.nanmax(f0))
+        if lo <= target.f0_hz <= hi:
+            continue
+        kinds = {p.kind for p in topo.positions}
+        have = "; ".join(
+            f"{kind}s {format_rkm(float(space.values[kind].value[0]), kind)} .. "
+            f"{format_rkm(float(space.values[kind].value[-1]), kind)}"
+            for kind in sorted(kinds))
+        side = "lower" if target.f0_hz < lo else "higher"
+        hint = ("larger parts (raise --r-max/--c-max)" if side == "lower"
+                else "smaller parts (lower --r-min/--c-min)")
+        raise NoDesignError(
+            f"stage {s} ({topo.key}) needs f0 {format_si(target.f0_hz, 'Hz')}, {side} than "
+            f"the parts on hand reach ({format_si(lo, 'Hz')} .. {format_si(hi, 'Hz')} "
+            f"with {have}); it needs {hint}")

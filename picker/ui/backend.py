@@ -91,7 +91,8 @@ def search(stock, stages, targets: Targets, *, top: int = 8):
     bounds = mod.Bounds(r_min=targets.r_min, r_max=targets.r_max,
                         c_min=targets.c_min, c_max=targets.c_max)
     return mod.search(stock, stages, singles=targets.singles,
-                      allow_polarized=targets.allow_polarized, bounds=bounds, top=top)
+                      allow_polarized=targets.allow_polarized, bounds=bounds, top=top,
+                      for_people=True)
 
 
 def response(candidate, freqs_hz):
