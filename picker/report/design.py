@@ -74,13 +74,13 @@ class DesignReport:
                       title_justify="left", box=box.SIMPLE_HEAD, pad_edge=False)
         table.add_column("pieces", justify="right")
         table.add_column("worst error", justify="right")
-        table.add_column("(longer bar: more precise)", no_wrap=True)
+        table.add_column("(longer bar: less precise)", no_wrap=True)
         scores = [s for _, s in self.result.tradeoff if s > 0 and math.isfinite(s)]
         hi = math.log10(max(scores)) if scores else 0.0
         lo = math.log10(min(scores)) if scores else 0.0
         for pieces, score in self.result.tradeoff:
             if score > 0 and math.isfinite(score) and hi > lo:
-                n = 1 + round(29 * (hi - math.log10(score)) / (hi - lo))
+                n = 1 + round(29 * (math.log10(score) - lo) / (hi - lo))
             else:
                 n = 30
             table.add_row(str(pieces), pct(score), "#" * n)
