@@ -66,13 +66,33 @@ def combine(stages, counts: np.ndarray, *, top: int = 1, pieces_total: int | Non
     chosen: list[tuple[int, int]] = []
     tried = [0]
 
+    # smallest worst-tolerance and tolerance sum per loaded class: lower bounds of what
+    # a later stage adds to the tie-break keys (an unloaded class counts as 0, which is
+    # a valid, weaker bound), so ties on (score, pieces) need not be enumerated
+    class_tol: dict[tuple[int, int], tuple[float, float]] = {}
+
     def rows_of(s, j, loader):
         if (s, j) not in columns:
             rows = loader()
             loaded[(s, j)] = rows
             columns[(s, j)] = (rows.score.tolist(), rows.tol_max.tolist(),
                                rows.tol_sum.tolist())
+            if len(rows):
+                class_tol[(s, j)] = (float(np.min(rows.tol_max)), float(np.min(rows.tol_sum)))
         return columns[(s, j)]
+
+    def rest_tol(s):
+        """Lower bounds (worst tolerance, tolerance sum) of stages s .. n-1."""
+        tm_lb, ts_lb = 0.0, 0.0
+        for r in range(s, n):
+            tms, tss = [], []
+            for j, _, _ in stages[r]:
+                tm, ts = class_tol.get((r, j), (0.0, 0.0))
+                tms.append(tm)
+                tss.append(ts)
+            tm_lb = max(tm_lb, min(tms))
+            ts_lb += min(tss)
+        return tm_lb, ts_lb
 
     def needs(s, j, i):
         key = (s, j, i)
@@ -98,6 +118,7 @@ def combine(stages, counts: np.ndarray, *, top: int = 1, pieces_total: int | Non
                                       p + rest_min[s + 1]) > bound[:2]:
                 continue
             sc, tm, ts = rows_of(s, j, loader)
+            rest_tm, rest_ts = rest_tol(s + 1)
             for i in range(len(sc)):
                 tried[0] += 1
                 if steps is not None and tried[0] > steps:
@@ -107,7 +128,8 @@ def combine(stages, counts: np.ndarray, *, top: int = 1, pieces_total: int | Non
                 if bound is not None:
                     if lb > bound[0]:
                         break
-                    if (lb, p + rest_min[s + 1], max(tmax, tm[i])) > bound[:3]:
+                    if (lb, p + rest_min[s + 1], max(tmax, tm[i], rest_tm),
+                            tsum + ts[i] + rest_ts) > bound[:4]:
                         continue
                 need = needs(s, j, i)
                 if any(used.get(u, 0) + m > counts[u] for u, m in need):
