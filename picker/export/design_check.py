@@ -90,6 +90,19 @@ def _read_target(r: "_Reader", t: dict, pre: str) -> StageTarget:
                        gain=r.number(t, "gain", pre, default=None))
 
 
+def _check_topology(r: "_Reader", topology: str, names: list[str], pre: str) -> None:
+    """The stage's circuit must be one picker knows, with exactly its positions."""
+    from picker.filters import REGISTRY
+    topo = REGISTRY.get(topology)
+    if topo is None:
+        raise DesignError(f"{r.source}: {pre}topology: {topology!r} is not a circuit this "
+                          f"picker knows ({', '.join(sorted(REGISTRY))})")
+    want = topo.position_names()
+    if sorted(names) != sorted(want):
+        raise DesignError(f"{r.source}: {pre}position: {topology} has positions "
+                          f"{', '.join(want)}, the file gives {', '.join(names) or 'none'}")
+
+
 def _read_stage(r: "_Reader", st, pre: str) -> SavedStage:
     if not isinstance(st, dict):
         raise DesignError(f"{r.source}: {pre[:-1]}: expected a table")
@@ -102,6 +115,7 @@ def _read_stage(r: "_Reader", st, pre: str) -> SavedStage:
     for n in names:
         if names.count(n) > 1:
             raise DesignError(f"{r.source}: {pre}position: {n!r} appears twice")
+    _check_topology(r, topology, names, pre)
     return SavedStage(topology=topology, target=target, achieved=achieved, positions=positions)
 
 

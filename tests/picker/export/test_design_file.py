@@ -103,6 +103,12 @@ def _edit(path, old, new):
     ("[candidate.stage.target]\nf0_hz = 1000.0", "[candidate.stage.target]\nf0_hz = -1.0",
      "candidate.stage[0].target.f0_hz: must be above zero"),
     ("measured = 0", "measured = -1", "part[1].measured: must be 0 or more"),
+    # a circuit picker does not know could be built and billed but never checked
+    ('topology = "inverting-lowpass"', 'topology = "twin-t"',
+     "candidate.stage[0].topology: 'twin-t' is not a circuit this picker knows"),
+    ('topology = "inverting-lowpass"', 'topology = "mfb-lowpass"',
+     "candidate.stage[0].position: mfb-lowpass has positions"),
+    ('name = "C1"', 'name = "C9"', "inverting-lowpass has positions R1, R2, C1, the file gives"),
 ])
 def test_bad_files_name_file_and_key(tmp_path, old, new, words):
     path, _ = _saved(tmp_path)
