@@ -140,6 +140,12 @@ def run(args) -> int:
     stock = load(path)
     for w in stock.warnings:
         print(f"picker: warning: {w}", file=sys.stderr)
+    if args.save:
+        # refuse a bad save target before a search that may take a while
+        from pathlib import Path
+
+        from picker.export.design_file import check_save_target
+        check_save_target(Path(args.save), stock)
     stages = plan_stages(request["type"], response=request["response"],
                          order=request["order"], fc_hz=request["fc_hz"],
                          gain=request["gain"], ripple_db=request["ripple_db"],

@@ -178,11 +178,11 @@ def save_design(path, *, candidate: Candidate, request: dict, stock) -> None:
     """
     doc = design_document(candidate=candidate, request=request, stock=stock)
     path = Path(path)
-    _check_target(path, stock)
+    check_save_target(path, stock)
     write_atomic(path, tomli_w.dumps(doc).encode("utf-8"))
 
 
-def _check_target(path: Path, stock) -> None:
+def check_save_target(path: Path, stock) -> None:
     """Refuse to replace a folder, the stock file or any file that is not a saved design."""
     hint = "pick another name, e.g. d.toml; nothing was written"
     if path.is_dir():

@@ -203,3 +203,25 @@ def test_schematic_names_every_position_with_value_and_drawer(stock_file):
         for part in arr.parts:
             assert part.location in text
     assert "op amp" in text
+
+
+def test_bad_save_target_is_refused_before_the_search(tmp_path, monkeypatch):
+    """--save onto the stock file itself is refused at once, with nothing searched."""
+    import shutil
+    from pathlib import Path
+
+    import picker.search as search_mod
+    from picker.cli import main
+
+    stock = tmp_path / "inventory.toml"
+    shutil.copy(Path(__file__).resolve().parents[2] / "sample_inventory.toml", stock)
+    before = stock.read_bytes()
+
+    def no_search(*a, **k):  # the search must not even start
+        raise AssertionError("searched before checking --save")
+
+    monkeypatch.setattr(search_mod, "search", no_search)
+    code = main(["design", "lowpass", "--fc", "1k", "--stock", str(stock),
+                 "--save", str(stock)])
+    assert code == 2
+    assert stock.read_bytes() == before
