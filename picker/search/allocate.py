@@ -101,6 +101,34 @@ def combine(stages, counts: np.ndarray, *, top: int = 1, pieces_total: int | Non
             usage[key] = [(int(u), int(m)) for u, m in zip(ids, mult) if u >= 0]
         return usage[key]
 
+    # pieces left per unit, kept beside ``used`` for the vectorised look-ahead below
+    avail = np.array(counts, dtype=np.int64, copy=True)
+
+    def later_stages_can_fill(s_from):
+        """Forward check: False only when some later stage has no row left that fits the
+        pieces still available (every class of it loaded and each of its rows needing a
+        unit that is used up). A relaxed test (a row needing one unit twice counts as
+        fitting when one piece is left), so it never drops a feasible branch; it cuts the
+        branches where scarce pieces are already taken, which otherwise cost a full
+        enumeration of the later stages to prove empty."""
+        for r in range(s_from, n):
+            possible = False
+            for j, _, _ in stages[r]:
+                rows = loaded.get((r, j))
+                if rows is None:
+                    possible = True
+                    break
+                units = rows.units
+                if len(units) == 0:
+                    continue
+                fits = np.all((units < 0) | (avail[np.maximum(units, 0)] >= 1), axis=1)
+                if fits.any():
+                    possible = True
+                    break
+            if not possible:
+                return False
+        return True
+
     def visit(s, score, pieces, tmax, tsum):
         if s == n:
             if pieces_total is None or pieces == pieces_total:
@@ -136,11 +164,14 @@ def combine(stages, counts: np.ndarray, *, top: int = 1, pieces_total: int | Non
                     continue
                 for u, m in need:
                     used[u] = used.get(u, 0) + m
-                chosen.append((j, i))
-                visit(s + 1, max(score, sc[i]), p, max(tmax, tm[i]), tsum + ts[i])
-                chosen.pop()
+                    avail[u] -= m
+                if s + 1 == n or later_stages_can_fill(s + 1):
+                    chosen.append((j, i))
+                    visit(s + 1, max(score, sc[i]), p, max(tmax, tm[i]), tsum + ts[i])
+                    chosen.pop()
                 for u, m in need:
                     used[u] -= m
+                    avail[u] += m
 
     complete = True
     try:
