@@ -36,7 +36,7 @@ class Incomplete(Exception):
 
 
 def combine(stages, counts: np.ndarray, *, top: int = 1, pieces_total: int | None = None,
-            steps: int | None = STEPS):
+            steps: int | None = STEPS, memo: bool = True):
     """Best ``top`` combinations.
 
     ``stages``: per stage a list of ``(j, best_score, loader)`` classes (only classes
@@ -44,7 +44,8 @@ def combine(stages, counts: np.ndarray, *, top: int = 1, pieces_total: int | Non
     loaded lists as ``{(stage, j): StageRows}``, and whether the search was complete:
     when scarce pieces make the stages block each other, the depth-first search can
     need very many steps; after ``steps`` rows it stops and returns what it has, marked
-    incomplete (then not proven optimal; the caller says so).
+    incomplete (then not proven optimal; the caller says so). ``memo``: skip suffixes
+    proven fruitless before (see the memo below); exact either way.
     """
     n = len(stages)
     loaded: dict[tuple[int, int], object] = {}
@@ -129,13 +130,84 @@ def combine(stages, counts: np.ndarray, *, top: int = 1, pieces_total: int | Non
                 return False
         return True
 
+    # Memo of fruitless suffixes. A visit of stages s..n-1 that added nothing to
+    # ``found`` proves: with this prefix key P1 = (score, pieces, tmax, tsum), this
+    # bound B1 and these pieces left, no completion beats B1. The key grows
+    # componentwise with the prefix (max and sum) and the bound only falls, so a later
+    # visit with the same pieces left, a prefix >= P1 componentwise and a bound <= B1
+    # cannot add anything either, and is skipped. "The same pieces left" only counts
+    # the units that can still bind: those whose largest possible demand by the later
+    # stages exceeds what is left (the others never block a row). Used only when every
+    # class of the later stages is loaded, so that demand is known in full.
+    inserted = [0]
+    fruitless: dict[tuple, list] = {}
+    demand_cache: dict[int, tuple] = {}
+
+    def suffix_demand(s_from):
+        """(unit ids, largest total demand) of stages s_from..n-1, or None if a class of
+        them is not loaded yet."""
+        if s_from in demand_cache:
+            return demand_cache[s_from]
+        total: dict[int, int] = {}
+        for r in range(s_from, n):
+            per_stage: dict[int, int] = {}
+            for j, _, _ in stages[r]:
+                rows = loaded.get((r, j))
+                if rows is None:
+                    return None
+                units = rows.units
+                if not len(units):
+                    continue
+                idx = np.repeat(np.arange(len(units)), units.shape[1])
+                flat = units.ravel()
+                keep = flat >= 0
+                pairs, mult = np.unique(np.stack([idx[keep], flat[keep]]), axis=1,
+                                        return_counts=True)
+                for u, m in zip(pairs[1].tolist(), mult.tolist()):
+                    if m > per_stage.get(u, 0):
+                        per_stage[u] = m
+            for u, m in per_stage.items():
+                total[u] = total.get(u, 0) + m
+        ids = np.array(sorted(total), dtype=np.int64)
+        dem = np.array([total[u] for u in ids.tolist()], dtype=np.int64)
+        demand_cache[s_from] = (ids, dem)
+        return demand_cache[s_from]
+
+    def memo_key(s):
+        got = suffix_demand(s)
+        if got is None:
+            return None
+        ids, dem = got
+        left = avail[ids]
+        binding = dem > left
+        return (s, ids[binding].tobytes(), left[binding].tobytes())
+
     def visit(s, score, pieces, tmax, tsum):
         if s == n:
             if pieces_total is None or pieces == pieces_total:
-                bisect.insort(found, ((score, pieces, tmax, tsum, tuple(chosen)),
-                                      tuple(chosen)))
-                del found[top:]
+                entry = ((score, pieces, tmax, tsum, tuple(chosen)), tuple(chosen))
+                at = bisect.bisect(found, entry)
+                if at < top:
+                    found.insert(at, entry)
+                    del found[top:]
+                    inserted[0] += 1
             return
+        key = memo_key(s) if 0 < s and memo else None
+        bound0 = found[-1][0][:4] if len(found) >= top else None
+        if key is not None:
+            for (ps, pp, pt, pts, b) in fruitless.get(key, ()):
+                if (ps <= score and pt <= tmax and pts <= tsum
+                        and (pp == pieces if pieces_total is not None else pp <= pieces)
+                        and (b is None or (bound0 is not None and bound0 <= b))):
+                    return
+        before = inserted[0]
+        _visit(s, score, pieces, tmax, tsum)
+        if key is not None and inserted[0] == before:
+            entries = fruitless.setdefault(key, [])
+            if len(entries) < 8:
+                entries.append((score, pieces, tmax, tsum, bound0))
+
+    def _visit(s, score, pieces, tmax, tsum):
         for j, b, loader in stages[s]:
             p = pieces + j
             if pieces_total is not None and not (
