@@ -110,6 +110,6 @@ def test_no_color_sends_no_colour_codes(terminal, stock_copy):
                for p in m.split(";") if p and (30 <= int(p) <= 38 or 40 <= int(p) <= 48
                                                or 90 <= int(p) <= 107)]
     assert colours == [], f"colour codes under NO_COLOR: {colours[:5]}"
-    assert "\x1b[7m" in painted      # the focused list is marked in reverse video instead
+    assert "\x1b[7m" in painted      # the focused list is marked in the reverse attribute instead
     terminal.keys("C-q")
     terminal.wait_for("EXITED:0")
