@@ -15,7 +15,7 @@ from textual.containers import Vertical
 from textual.message import Message
 from textual.widgets import DataTable, Static
 
-COLUMNS = ("rank", "worst error", "pieces", "stages", "op amp", "notes")
+COLUMNS = ("rank", "worst error", "pieces", "values (stages split by |)", "notes")
 
 
 def pct(score: float) -> str:
@@ -26,8 +26,14 @@ def pct(score: float) -> str:
     return f"{p:.2g}%" if p < 0.1 else f"{p:.3g}%"
 
 
-def stage_names(candidate) -> str:
-    return " + ".join(stage.topology for stage in candidate.stages)
+def parts_text(candidate) -> str:
+    """Every position's combined value, RKM style, so that rows of equal score and piece
+    count can be told apart at a glance ("R1 18k59 R2 28k3 C1 10n03 C2 4n8")."""
+    from stock.values import format_rkm
+
+    return " | ".join(
+        " ".join(f"{name} {format_rkm(arr.value, arr.kind)}" for name, arr in stage.positions)
+        for stage in candidate.stages)
 
 
 def tradeoff_text(tradeoff, *, width: int = 40) -> Text:
@@ -92,11 +98,15 @@ class MatchesPane(Vertical):
         self.candidates = list(result.candidates)
         table = self.query_one(DataTable)
         table.clear()
+        seen: dict[str, int] = {}
         for rank, c in enumerate(self.candidates, 1):
-            opamp = c.opamp.name if c.opamp is not None else "-"
-            notes = f"{len(c.warnings)} warning(s)" if c.warnings else ""
-            table.add_row(str(rank), pct(c.score), str(c.pieces), stage_names(c), opamp,
-                          notes, key=str(rank))
+            values = parts_text(c)
+            notes = [f"{len(c.warnings)} warning(s)"] if c.warnings else []
+            if values in seen:
+                notes.append(f"as {seen[values]}, other drawers")
+            seen.setdefault(values, rank)
+            table.add_row(str(rank), pct(c.score), str(c.pieces), values, "; ".join(notes),
+                          key=str(rank))
         n = len(self.candidates)
         self._show_status(f"done: {n} candidate(s) for {what} in {seconds:.2f} s"
                      + ("; enter on a row: look closer" if n else ""))
