@@ -36,7 +36,7 @@ class Incomplete(Exception):
 
 
 def combine(stages, counts: np.ndarray, *, top: int = 1, pieces_total: int | None = None,
-            steps: int | None = STEPS, memo: bool = True):
+            steps: int | None = STEPS, memo: bool = True, look_ahead: bool = True):
     """Best ``top`` combinations.
 
     ``stages``: per stage a list of ``(j, best_score, loader)`` classes (only classes
@@ -45,7 +45,8 @@ def combine(stages, counts: np.ndarray, *, top: int = 1, pieces_total: int | Non
     when scarce pieces make the stages block each other, the depth-first search can
     need very many steps; after ``steps`` rows it stops and returns what it has, marked
     incomplete (then not proven optimal; the caller says so). ``memo``: skip suffixes
-    proven fruitless before (see the memo below); exact either way.
+    proven fruitless before (see the memo below); ``look_ahead``: the forward check
+    (see :func:`later_stages_can_fill` below); exact with or without either.
     """
     n = len(stages)
     loaded: dict[tuple[int, int], object] = {}
@@ -237,7 +238,7 @@ def combine(stages, counts: np.ndarray, *, top: int = 1, pieces_total: int | Non
                 for u, m in need:
                     used[u] = used.get(u, 0) + m
                     avail[u] -= m
-                if s + 1 == n or later_stages_can_fill(s + 1):
+                if s + 1 == n or not look_ahead or later_stages_can_fill(s + 1):
                     chosen.append((j, i))
                     visit(s + 1, max(score, sc[i]), p, max(tmax, tm[i]), tsum + ts[i])
                     chosen.pop()
