@@ -34,6 +34,7 @@ from contextlib import contextmanager
 from dataclasses import dataclass, replace
 from pathlib import Path
 
+from stock.durable import sync_folder
 from stock.errors import StockEditError, StockFileError
 from stock.fields import MAX_COUNT
 from stock.load import KINDS, LineMap, loads
@@ -154,18 +155,7 @@ def _write_atomic(real: Path, data: bytes, st: os.stat_result) -> None:
         except OSError:
             pass
         raise
-    # make the rename itself durable; the new file is in place already, so a folder that
-    # cannot be opened or fsynced (some file systems) is not an error
-    try:
-        dfd = os.open(real.parent, os.O_RDONLY | os.O_DIRECTORY)
-    except OSError:
-        return
-    try:
-        os.fsync(dfd)
-    except OSError:
-        pass
-    finally:
-        os.close(dfd)
+    sync_folder(real.parent)   # make the rename itself durable
 
 
 def _edit(path, transform, expect_sha256: str | None) -> EditResult:

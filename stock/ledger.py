@@ -30,6 +30,7 @@ from pathlib import Path
 
 import tomli_w
 
+from stock.durable import sync_folder
 from stock.errors import StockEditError
 
 FORMAT = 1
@@ -204,17 +205,4 @@ def _write_atomic(path: Path, data: bytes) -> None:
     except BaseException:
         Path(tmp).unlink(missing_ok=True)
         raise
-    _sync_folder(path.parent)
-
-
-def _sync_folder(folder: Path) -> None:
-    try:
-        dfd = os.open(folder, os.O_RDONLY)
-    except OSError:
-        return
-    try:
-        os.fsync(dfd)
-    except OSError:
-        pass
-    finally:
-        os.close(dfd)
+    sync_folder(path.parent)

@@ -74,6 +74,7 @@ from typing import Any, Mapping
 
 import tomli_w
 
+from stock.durable import sync_folder
 from picker.errors import DesignError
 from picker.parts import Candidate, StageTarget
 
@@ -314,16 +315,7 @@ def write_atomic(path: Path, data: bytes) -> None:
             raise DesignError(f"{path}: cannot write the design: "
                               f"{exc.strerror or exc}") from exc
         raise
-    try:
-        dfd = os.open(folder, os.O_RDONLY)
-    except OSError:
-        return
-    try:
-        os.fsync(dfd)
-    except OSError:
-        pass
-    finally:
-        os.close(dfd)
+    sync_folder(folder)
 
 
 # --------------------------------------------------------------------------- loading
@@ -359,5 +351,3 @@ def design_from_candidate(*, candidate: Candidate, request: dict, stock) -> Save
     """The SavedDesign ``save_design`` would write, without a file (for the terminal UI)."""
     doc = design_document(candidate=candidate, request=request, stock=stock)
     return design_from_document(doc, source="the chosen candidate")
-
-
