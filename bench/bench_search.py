@@ -29,16 +29,21 @@ def make_stock(n_res: int, n_cap: int, seed: int = 1) -> Stock:
     rng = np.random.default_rng(seed)
     e96 = series("E96")
     e12 = series("E12")
-    res = [m * 10.0 ** e for e in range(1, 7) for m in e96]
-    caps = [m * 10.0 ** e for e in range(-11, -4) for m in e12]
+    res = [m * 10.0**e for e in range(1, 7) for m in e96]
+    caps = [m * 10.0**e for e in range(-11, -4) for m in e12]
     rv = rng.choice(res, n_res, replace=len(res) < n_res)
     cv = rng.choice(caps, n_cap, replace=len(caps) < n_cap)
     return Stock(
-        resistors=tuple(Resistor(float(v), int(rng.integers(1, 20)), 0.01,
-                                 location=f"R{i // 20}", index=i) for i, v in enumerate(rv)),
-        capacitors=tuple(Capacitor(float(v), int(rng.integers(1, 10)), 0.05,
-                                   location=f"C{i // 20}", index=i) for i, v in enumerate(cv)),
-        opamps=(OpAmp("quad general purpose", 10e6, 4, channels=4),))
+        resistors=tuple(
+            Resistor(float(v), int(rng.integers(1, 20)), 0.01, location=f"R{i // 20}", index=i)
+            for i, v in enumerate(rv)
+        ),
+        capacitors=tuple(
+            Capacitor(float(v), int(rng.integers(1, 10)), 0.05, location=f"C{i // 20}", index=i)
+            for i, v in enumerate(cv)
+        ),
+        opamps=(OpAmp("quad general purpose", 10e6, 4, channels=4),),
+    )
 
 
 def measure(label, fn):
@@ -59,18 +64,36 @@ def measure(label, fn):
 
 def main() -> None:
     cases = [
-        ("first order inverting, 1,000-line stock (700 R, 300 C)", (700, 300),
-         plan_stages("lowpass", order=1, fc_hz=1234.0, gain=2.0)),
-        ("first order follower, 1,000-line stock", (700, 300),
-         plan_stages("lowpass", order=1, fc_hz=1234.0, family="sallen-key")),
-        ("Sallen-Key stage, 300-line stock (240 R, 60 C)", (240, 60),
-         plan_stages("lowpass", order=2, fc_hz=1234.0)),
-        ("MFB low-pass stage, 300-line stock", (240, 60),
-         plan_stages("lowpass", order=2, fc_hz=1234.0, family="mfb", gain=2.0)),
-        ("8th-order Butterworth Sallen-Key, 300-line stock", (240, 60),
-         plan_stages("lowpass", order=8, fc_hz=1234.0)),
-        ("8th-order Butterworth Sallen-Key, 100-line stock", (70, 30),
-         plan_stages("lowpass", order=8, fc_hz=1234.0)),
+        (
+            "first order inverting, 1,000-line stock (700 R, 300 C)",
+            (700, 300),
+            plan_stages("lowpass", order=1, fc_hz=1234.0, gain=2.0),
+        ),
+        (
+            "first order follower, 1,000-line stock",
+            (700, 300),
+            plan_stages("lowpass", order=1, fc_hz=1234.0, family="sallen-key"),
+        ),
+        (
+            "Sallen-Key stage, 300-line stock (240 R, 60 C)",
+            (240, 60),
+            plan_stages("lowpass", order=2, fc_hz=1234.0),
+        ),
+        (
+            "MFB low-pass stage, 300-line stock",
+            (240, 60),
+            plan_stages("lowpass", order=2, fc_hz=1234.0, family="mfb", gain=2.0),
+        ),
+        (
+            "8th-order Butterworth Sallen-Key, 300-line stock",
+            (240, 60),
+            plan_stages("lowpass", order=8, fc_hz=1234.0),
+        ),
+        (
+            "8th-order Butterworth Sallen-Key, 100-line stock",
+            (70, 30),
+            plan_stages("lowpass", order=8, fc_hz=1234.0),
+        ),
     ]
     for label, (nr, nc), stages in cases:
         stock = make_stock(nr, nc)
@@ -79,22 +102,34 @@ def main() -> None:
             measure(label + " (+ trade-off)", lambda: search(stock, stages, top=5))
     # against plain enumeration where it is feasible
     sys.path.insert(0, str(Path(__file__).resolve().parent.parent / "tests"))
-    from tests.picker.search.brute import brute
     from picker.search import Bounds
+    from tests.picker.search.brute import brute
+
     for label, topo, target, (nr, nc) in [
-        ("brute vs search: inverting first order, 25 R + 12 C lines",
-         "inverting-lowpass", StageTarget(1234.0, None, 2.0), (25, 12)),
-        ("brute vs search: Sallen-Key, 8 R + 6 C lines",
-         "sallen-key-lowpass", StageTarget(1234.0, 0.7071), (8, 6)),
+        (
+            "brute vs search: inverting first order, 25 R + 12 C lines",
+            "inverting-lowpass",
+            StageTarget(1234.0, None, 2.0),
+            (25, 12),
+        ),
+        (
+            "brute vs search: Sallen-Key, 8 R + 6 C lines",
+            "sallen-key-lowpass",
+            StageTarget(1234.0, 0.7071),
+            (8, 6),
+        ),
     ]:
         stock = make_stock(nr, nc, seed=3)
         stages = [(get_topology(topo), target)]
         (bs, *_), t_brute = measure(label + " [brute]", lambda: brute(stock, stages, Bounds()))
-        res, t_fast = measure(label + " [search]",
-                              lambda: search(stock, stages, top=1, tradeoff=False))
-        print(f"    ratio {t_brute / t_fast:8.1f}x   best brute {bs.min():.6e}   "
-              f"search {res.candidates[0].score:.6e}   agree "
-              f"{bool(np.isclose(bs.min(), res.candidates[0].score, rtol=1e-9))}")
+        res, t_fast = measure(
+            label + " [search]", lambda: search(stock, stages, top=1, tradeoff=False)
+        )
+        print(
+            f"    ratio {t_brute / t_fast:8.1f}x   best brute {bs.min():.6e}   "
+            f"search {res.candidates[0].score:.6e}   agree "
+            f"{bool(np.isclose(bs.min(), res.candidates[0].score, rtol=1e-9))}"
+        )
 
 
 if __name__ == "__main__":

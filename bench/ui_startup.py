@@ -47,17 +47,21 @@ def one_run(stock: Path, marker: str, baseline: bool = False) -> tuple[float, fl
             what = shlex.quote(str(script))
         else:
             what = f"-m picker --stock {shlex.quote(str(stock))}"
-        command = (f"date +%s.%N > {shlex.quote(str(stamp))}; exec env -u COLUMNS -u LINES "
-                   f"{shlex.quote(sys.executable)} {what}")
+        command = (
+            f"date +%s.%N > {shlex.quote(str(stamp))}; exec env -u COLUMNS -u LINES "
+            f"{shlex.quote(sys.executable)} {what}"
+        )
         env = {k: v for k, v in os.environ.items() if k not in ("COLUMNS", "LINES")}
-        subprocess.run(base + ["new-session", "-d", "-x", "80", "-y", "24", command],
-                       check=True, env=env)
+        subprocess.run(
+            base + ["new-session", "-d", "-x", "80", "-y", "24", command], check=True, env=env
+        )
         try:
             bar = footer = None
             deadline = time.time() + 20
             while time.time() < deadline and (footer is None or bar is None):
-                shown = subprocess.run(base + ["capture-pane", "-p"], capture_output=True,
-                                       text=True).stdout
+                shown = subprocess.run(
+                    base + ["capture-pane", "-p"], capture_output=True, text=True
+                ).stdout
                 now = time.time()
                 if bar is None and "[1 drawers]" in shown:
                     bar = now
@@ -86,12 +90,16 @@ def main() -> int:
     for _ in range(args.runs):
         runs.append(one_run(Path(args.stock), args.marker))
         base.append(one_run(Path(args.stock), "100R", baseline=True))
-    for label, values in (("first paint (pane bar)", [r[0] for r in runs]),
-                          ("stock table and footer", [r[1] for r in runs]),
-                          ("minimal Textual app", [r[1] for r in base])):
-        print(f"{label:24s} median {statistics.median(values) * 1000:6.0f} ms   "
-              f"min {min(values) * 1000:6.0f}   max {max(values) * 1000:6.0f}   "
-              f"({len(values)} runs)")
+    for label, values in (
+        ("first paint (pane bar)", [r[0] for r in runs]),
+        ("stock table and footer", [r[1] for r in runs]),
+        ("minimal Textual app", [r[1] for r in base]),
+    ):
+        print(
+            f"{label:24s} median {statistics.median(values) * 1000:6.0f} ms   "
+            f"min {min(values) * 1000:6.0f}   max {max(values) * 1000:6.0f}   "
+            f"({len(values)} runs)"
+        )
     print(f"load average: {os.getloadavg()[0]:.2f} on {os.cpu_count()} CPUs")
     return 0
 

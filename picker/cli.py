@@ -43,15 +43,18 @@ def build_parser() -> argparse.ArgumentParser:
     parser = argparse.ArgumentParser(
         prog="picker",
         description="Design active analog filters from the parts in your own drawers. "
-                    "Without a COMMAND, picker opens its terminal UI on the stock file.",
+        "Without a COMMAND, picker opens its terminal UI on the stock file.",
         epilog=EXAMPLES,
         formatter_class=argparse.RawDescriptionHelpFormatter,
     )
-    parser.add_argument("--stock", metavar="FILE",
-                        help="stock file (default: $PICKER_STOCK, ./inventory.toml, "
-                             "else the bundled sample)")
-    parser.add_argument("--mouse", action="store_true",
-                        help="let the terminal UI take the mouse (off by default)")
+    parser.add_argument(
+        "--stock",
+        metavar="FILE",
+        help="stock file (default: $PICKER_STOCK, ./inventory.toml, else the bundled sample)",
+    )
+    parser.add_argument(
+        "--mouse", action="store_true", help="let the terminal UI take the mouse (off by default)"
+    )
     sub = parser.add_subparsers(dest="command", metavar="COMMAND")
     for name in COMMAND_MODULES:
         try:
@@ -70,11 +73,14 @@ def main(argv: list[str] | None = None) -> int:
     try:
         if args.command is None:
             if not (sys.stdin.isatty() and sys.stdout.isatty()):
-                print("picker: the terminal UI needs a terminal (standard input and output "
-                      "are not one here); for scripts use a command, see picker --help",
-                      file=sys.stderr)
+                print(
+                    "picker: the terminal UI needs a terminal (standard input and output "
+                    "are not one here); for scripts use a command, see picker --help",
+                    file=sys.stderr,
+                )
                 return 2
             from picker.commands.ui_cmd import run as run_ui
+
             return run_ui(args)
         return int(args.run(args) or 0)
     except KeyboardInterrupt:
@@ -82,6 +88,7 @@ def main(argv: list[str] | None = None) -> int:
         return 130
     except PickerError as exc:
         from picker.errors import NoDesignError
+
         for line in str(exc).splitlines() or [type(exc).__name__]:
             print(f"picker: {line}", file=sys.stderr)
         return 1 if isinstance(exc, NoDesignError) else 2

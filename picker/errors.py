@@ -14,5 +14,11 @@ class NoDesignError(PickerError):
     """
 
 
-__all__ = ["DesignError", "NoDesignError", "PickerError", "StockError", "StockFileError",
-           "ValueParseError"]
+__all__ = [
+    "DesignError",
+    "NoDesignError",
+    "PickerError",
+    "StockError",
+    "StockFileError",
+    "ValueParseError",
+]

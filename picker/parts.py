@@ -81,7 +81,7 @@ class StageChoice:
     topology: str
     target: StageTarget
     achieved: StageTarget
-    positions: tuple[tuple[str, Arrangement], ...]   # (reference designator, arrangement), in order
+    positions: tuple[tuple[str, Arrangement], ...]  # (reference designator, arrangement), in order
 
     def values(self) -> dict[str, float]:
         return {name: arr.value for name, arr in self.positions}

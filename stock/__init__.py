@@ -12,6 +12,13 @@ from stock.errors import PickerError, StockEditError, StockError, StockFileError
 from stock.model import Capacitor, OpAmp, Resistor, Stock
 
 __all__ = [
-    "Capacitor", "OpAmp", "PickerError", "Resistor", "Stock", "StockEditError",
-    "StockError", "StockFileError", "ValueParseError",
+    "Capacitor",
+    "OpAmp",
+    "PickerError",
+    "Resistor",
+    "Stock",
+    "StockEditError",
+    "StockError",
+    "StockFileError",
+    "ValueParseError",
 ]

@@ -30,7 +30,7 @@ import os
 import re
 import stat
 import tempfile
-from contextlib import contextmanager
+from contextlib import contextmanager, suppress
 from dataclasses import dataclass, replace
 from pathlib import Path
 
@@ -86,16 +86,18 @@ def locked(path):
         try:
             fd = os.open(real, os.O_RDONLY)
         except OSError as exc:
-            raise StockEditError(f"{path}: cannot open the stock file: "
-                                 f"{exc.strerror or exc}") from None
+            raise StockEditError(
+                f"{path}: cannot open the stock file: {exc.strerror or exc}"
+            ) from None
         try:
             fcntl.flock(fd, fcntl.LOCK_EX)
             st = os.fstat(fd)
             try:
                 now = os.stat(real)
             except FileNotFoundError:
-                raise StockEditError(f"{path}: the stock file was removed while waiting "
-                                     "for the lock") from None
+                raise StockEditError(
+                    f"{path}: the stock file was removed while waiting for the lock"
+                ) from None
             if (now.st_dev, now.st_ino) == (st.st_dev, st.st_ino):
                 yield fd, real, st
                 return
@@ -126,10 +128,8 @@ def _remove_stale_temps(real: Path) -> None:
         return
     for name in names:
         if name.startswith(prefix) and name.endswith(".tmp") and len(name) == len(prefix) + 12:
-            try:
+            with suppress(OSError):
                 os.unlink(real.parent / name)
-            except OSError:
-                pass
 
 
 def _write_atomic(real: Path, data: bytes, st: os.stat_result) -> None:
@@ -139,7 +139,7 @@ def _write_atomic(real: Path, data: bytes, st: os.stat_result) -> None:
         try:
             view = memoryview(data)
             while view:
-                view = view[os.write(fd, view):]
+                view = view[os.write(fd, view) :]
             os.fchmod(fd, st.st_mode & 0o7777)
             try:
                 os.fchown(fd, st.st_uid, st.st_gid)
@@ -150,12 +150,10 @@ def _write_atomic(real: Path, data: bytes, st: os.stat_result) -> None:
             os.close(fd)
         os.replace(tmp, real)
     except BaseException:
-        try:
+        with suppress(OSError):
             os.unlink(tmp)
-        except OSError:
-            pass
         raise
-    sync_folder(real.parent)   # make the rename itself durable
+    sync_folder(real.parent)  # make the rename itself durable
 
 
 def _edit(path, transform, expect_sha256: str | None) -> EditResult:
@@ -165,7 +163,8 @@ def _edit(path, transform, expect_sha256: str | None) -> EditResult:
         if expect_sha256 is not None and before_sha != expect_sha256:
             raise StockChangedError(
                 f"{path}: the stock file changed since it was read (sha256 {before_sha[:12]}, "
-                f"expected {expect_sha256[:12]}); nothing was written: load it again and retry")
+                f"expected {expect_sha256[:12]}); nothing was written: load it again and retry"
+            )
         after = transform(before)
         if after != before:
             # a file its owner made read-only stays unchanged, even for root
@@ -174,10 +173,16 @@ def _edit(path, transform, expect_sha256: str | None) -> EditResult:
             try:
                 _write_atomic(real, after, st)
             except OSError as exc:
-                raise StockEditError(f"{path}: cannot write the stock file "
-                                     f"({exc.strerror or exc}); it is unchanged") from None
-        return EditResult(path=Path(path), before=before, after=after,
-                          before_sha256=before_sha, after_sha256=_sha(after))
+                raise StockEditError(
+                    f"{path}: cannot write the stock file ({exc.strerror or exc}); it is unchanged"
+                ) from None
+        return EditResult(
+            path=Path(path),
+            before=before,
+            after=after,
+            before_sha256=before_sha,
+            after_sha256=_sha(after),
+        )
 
 
 def _text_of(data: bytes, path) -> tuple[str, str]:
@@ -194,15 +199,13 @@ def _check_loads(text: str, path, what: str):
     try:
         return loads(text, source=str(path))
     except StockFileError as exc:
-        raise StockEditError("\n".join([f"{path}: {what}; nothing was written:"]
-                                       + exc.problems)) from None
+        raise StockEditError(
+            "\n".join([f"{path}: {what}; nothing was written:"] + exc.problems)
+        ) from None
 
 
 def _describe(item) -> str:
-    if item.kind == "opamp":
-        name = item.name
-    else:
-        name = format_rkm(item.value, item.kind)
+    name = item.name if item.kind == "opamp" else format_rkm(item.value, item.kind)
     where = f" in {item.location}" if item.location else ""
     return f"{item.kind} {name}{where} (line {item.line})"
 
@@ -242,12 +245,16 @@ def _plan(stock, changes, path) -> dict:
     merged: dict[tuple[str, int], list] = {}
     for ch in changes:
         if ch.kind not in KINDS:
-            raise StockEditError(f"{path}: unknown kind '{ch.kind}'; use one of "
-                                 f"{', '.join(KINDS)}; nothing was written")
+            raise StockEditError(
+                f"{path}: unknown kind '{ch.kind}'; use one of "
+                f"{', '.join(KINDS)}; nothing was written"
+            )
         lines = stock.lines(ch.kind)
         if not isinstance(ch.index, int) or not 0 <= ch.index < len(lines):
-            raise StockEditError(f"{path}: there is no {ch.kind} number {ch.index} (the file "
-                                 f"has {len(lines)}); nothing was written")
+            raise StockEditError(
+                f"{path}: there is no {ch.kind} number {ch.index} (the file "
+                f"has {len(lines)}); nothing was written"
+            )
         slot = merged.setdefault((ch.kind, ch.index), [0, []])
         slot[0] += int(ch.delta)
         slot[1].extend(ch.remove_measured)
@@ -256,28 +263,39 @@ def _plan(stock, changes, path) -> dict:
         item = stock.lines(kind)[index]
         measured = getattr(item, "measured", ())
         if len(set(removed)) != len(removed) or any(
-                not isinstance(i, int) or not 0 <= i < len(measured) for i in removed):
-            raise StockEditError(f"{path}: {_describe(item)} has {len(measured)} measured "
-                                 f"pieces; cannot remove {sorted(removed)}; nothing was written")
+            not isinstance(i, int) or not 0 <= i < len(measured) for i in removed
+        ):
+            raise StockEditError(
+                f"{path}: {_describe(item)} has {len(measured)} measured "
+                f"pieces; cannot remove {sorted(removed)}; nothing was written"
+            )
         new_qty = item.qty + delta
         if new_qty < 0:
-            raise StockEditError(f"{path}: {_describe(item)} has qty {item.qty}; taking "
-                                 f"{-delta} would go below zero; nothing was written")
+            raise StockEditError(
+                f"{path}: {_describe(item)} has qty {item.qty}; taking "
+                f"{-delta} would go below zero; nothing was written"
+            )
         if new_qty > MAX_COUNT:
-            raise StockEditError(f"{path}: {_describe(item)} has qty {item.qty}; adding "
-                                 f"{delta} would make {new_qty}, more than the "
-                                 f"{MAX_COUNT:,} pieces a line may hold; nothing was written")
+            raise StockEditError(
+                f"{path}: {_describe(item)} has qty {item.qty}; adding "
+                f"{delta} would make {new_qty}, more than the "
+                f"{MAX_COUNT:,} pieces a line may hold; nothing was written"
+            )
         left = len(measured) - len(removed)
         if new_qty < left:
-            raise StockEditError(f"{path}: {_describe(item)} would keep {left} measured "
-                                 f"pieces with qty {new_qty}; remove measured pieces too; "
-                                 "nothing was written")
+            raise StockEditError(
+                f"{path}: {_describe(item)} would keep {left} measured "
+                f"pieces with qty {new_qty}; remove measured pieces too; "
+                "nothing was written"
+            )
         plan[(kind, index)] = (new_qty, tuple(sorted(removed)))
     return plan
 
 
-_QTY_LINE = re.compile(r"^(?P<pre>[ \t]*qty[ \t]*=[ \t]*)(?P<num>\+?[0-9_]+)"
-                       r"(?P<post>[ \t]*(?:#.*)?\r?)$")
+_QTY_LINE = re.compile(
+    r"^(?P<pre>[ \t]*qty[ \t]*=[ \t]*)(?P<num>\+?[0-9_]+)"
+    r"(?P<post>[ \t]*(?:#.*)?\r?)$"
+)
 
 
 def _splice_qty(text: str, stock, plan, source: str) -> str | None:
@@ -303,8 +321,10 @@ def _splice_qty(text: str, stock, plan, source: str) -> str | None:
     except StockFileError:
         return None
     for kind in KINDS:
-        want = [replace(x, qty=plan[(kind, i)][0]) if (kind, i) in plan else x
-                for i, x in enumerate(stock.lines(kind))]
+        want = [
+            replace(x, qty=plan[(kind, i)][0]) if (kind, i) in plan else x
+            for i, x in enumerate(stock.lines(kind))
+        ]
         if list(new.lines(kind)) != want:
             return None
     return after
@@ -312,6 +332,7 @@ def _splice_qty(text: str, stock, plan, source: str) -> str | None:
 
 def _round_trip(text: str, plan) -> str:
     import tomlkit
+
     doc = tomlkit.parse(text)
     for (kind, index), (new_qty, removed) in plan.items():
         table = doc[kind][index]
@@ -326,14 +347,17 @@ def _round_trip(text: str, plan) -> str:
 
 def _toml_line(path, key, value) -> str:
     import tomlkit
+
     if not isinstance(key, str) or not re.fullmatch(r"[A-Za-z0-9_-]+", key):
-        raise StockEditError(f"{path}: '{key}' is not a key a stock line can have; "
-                             "nothing was written")
+        raise StockEditError(
+            f"{path}: '{key}' is not a key a stock line can have; nothing was written"
+        )
     try:
         return f"{key} = {tomlkit.item(value).as_string()}"
     except Exception:  # tomlkit raises several types for values TOML cannot hold
-        raise StockEditError(f"{path}: {key} = {value!r} cannot be written to TOML; "
-                             "nothing was written") from None
+        raise StockEditError(
+            f"{path}: {key} = {value!r} cannot be written to TOML; nothing was written"
+        ) from None
 
 
 def add_line(path, kind: str, fields: dict, *, expect_sha256: str | None = None) -> EditResult:
@@ -359,8 +383,10 @@ def add_line(path, kind: str, fields: dict, *, expect_sha256: str | None = None)
         after_text = text + lead + nl.join(body) + nl
         new = _check_loads(after_text, path, f"the new {kind} line is not valid")
         if len(new.lines(kind)) != len(stock.lines(kind)) + 1:
-            raise StockEditError(f"{path}: the new {kind} line could not be appended (is "
-                                 f"{kind} written as an inline array?); nothing was written")
+            raise StockEditError(
+                f"{path}: the new {kind} line could not be appended (is "
+                f"{kind} written as an inline array?); nothing was written"
+            )
         return (bom + after_text).encode("utf-8")
 
     return _edit(path, transform, expect_sha256)
@@ -372,5 +398,12 @@ def replace_bytes(path, content: bytes, *, expect_sha256: str) -> EditResult:
     return _edit(path, lambda before: content, expect_sha256)
 
 
-__all__ = ["EditResult", "QtyChange", "StockChangedError", "add_line", "apply_changes", "locked",
-           "replace_bytes"]
+__all__ = [
+    "EditResult",
+    "QtyChange",
+    "StockChangedError",
+    "add_line",
+    "apply_changes",
+    "locked",
+    "replace_bytes",
+]

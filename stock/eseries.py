@@ -16,8 +16,32 @@ from __future__ import annotations
 import bisect
 import math
 
-_E24 = (1.0, 1.1, 1.2, 1.3, 1.5, 1.6, 1.8, 2.0, 2.2, 2.4, 2.7, 3.0,
-        3.3, 3.6, 3.9, 4.3, 4.7, 5.1, 5.6, 6.2, 6.8, 7.5, 8.2, 9.1)
+_E24 = (
+    1.0,
+    1.1,
+    1.2,
+    1.3,
+    1.5,
+    1.6,
+    1.8,
+    2.0,
+    2.2,
+    2.4,
+    2.7,
+    3.0,
+    3.3,
+    3.6,
+    3.9,
+    4.3,
+    4.7,
+    5.1,
+    5.6,
+    6.2,
+    6.8,
+    7.5,
+    8.2,
+    9.1,
+)
 
 # E192, three significant digits, IEC 60063 table 2 (hundredths of the decade).
 _E192_CODES = """
@@ -50,6 +74,7 @@ def series(name: str) -> tuple[float, ...]:
     key = str(name).upper()
     if key not in SERIES:
         from stock.errors import ValueParseError
+
         raise ValueParseError(f"unknown series '{name}'; use one of {', '.join(ORDER)}")
     return SERIES[key]
 
@@ -57,10 +82,11 @@ def series(name: str) -> tuple[float, ...]:
 def _decade(value: float) -> tuple[float, int]:
     if not (value > 0 and math.isfinite(value)):
         from stock.errors import ValueParseError
+
         raise ValueParseError(f"'{value}' has no preferred value: it must be a positive number")
     exp = math.floor(math.log10(value))
-    mant = value / 10.0 ** exp
-    if mant >= 10.0:            # log10 rounding at an exact power of ten
+    mant = value / 10.0**exp
+    if mant >= 10.0:  # log10 rounding at an exact power of ten
         mant, exp = mant / 10.0, exp + 1
     elif mant < 1.0:
         mant, exp = mant * 10.0, exp - 1
@@ -88,7 +114,7 @@ def nearest(value: float, name: str) -> float:
     if i > 0:
         cands.append(mants[i - 1])
     best = min(cands, key=lambda m: abs(math.log(m / mant)))
-    return float(f"{best * 10.0 ** exp:.12g}")
+    return float(f"{best * 10.0**exp:.12g}")
 
 
 def series_of(value: float, *, rel_tol: float = 1e-6) -> str | None:

@@ -12,8 +12,14 @@ import re
 from stock import values as V
 from stock.errors import ValueParseError
 from stock.model import (
-    DEFAULT_CAPACITOR_TOLERANCE, DEFAULT_METER_ACCURACY, DEFAULT_RESISTOR_TOLERANCE,
-    DIELECTRICS, POLARIZED_BY_DEFAULT, Capacitor, OpAmp, Resistor,
+    DEFAULT_CAPACITOR_TOLERANCE,
+    DEFAULT_METER_ACCURACY,
+    DEFAULT_RESISTOR_TOLERANCE,
+    DIELECTRICS,
+    POLARIZED_BY_DEFAULT,
+    Capacitor,
+    OpAmp,
+    Resistor,
 )
 
 # plausible nominal ranges (DESIGN.md section 3): resistor 1 mOhm .. 1 TOhm, capacitor 0.1 pF .. 1 F
@@ -25,10 +31,30 @@ GBW_RANGE = (1e3, 1e11)
 MAX_COUNT = 1_000_000
 
 KEYS = {
-    "resistor": ("value", "qty", "tolerance", "tempco", "power", "location", "note",
-                 "measured", "meter"),
-    "capacitor": ("value", "qty", "tolerance", "tempco", "dielectric", "polarized", "voltage",
-                  "location", "note", "measured", "meter"),
+    "resistor": (
+        "value",
+        "qty",
+        "tolerance",
+        "tempco",
+        "power",
+        "location",
+        "note",
+        "measured",
+        "meter",
+    ),
+    "capacitor": (
+        "value",
+        "qty",
+        "tolerance",
+        "tempco",
+        "dielectric",
+        "polarized",
+        "voltage",
+        "location",
+        "note",
+        "measured",
+        "meter",
+    ),
     "opamp": ("name", "gbw", "slew", "channels", "supply", "ib", "qty", "location", "note"),
 }
 
@@ -54,8 +80,9 @@ def canonical_dielectric(text: str) -> str | None:
 class EntryChecker:
     """Validate one entry; ``build()`` returns the model object or None, filling errors/warnings."""
 
-    def __init__(self, kind: str, index: int, entry: dict, src: str, header: int,
-                 keylines: dict[str, int]):
+    def __init__(
+        self, kind: str, index: int, entry: dict, src: str, header: int, keylines: dict[str, int]
+    ):
         self.kind, self.index, self.entry = kind, index, entry
         self.src, self.header, self.keylines = src, header, keylines
         self.errors: list[str] = []
@@ -73,8 +100,7 @@ class EntryChecker:
         self.warnings.append(f"{self._where(key)}: {msg}")
 
     # -- field readers ------------------------------------------------------------------
-    def _parsed(self, key, parser, *, required=False, lo=None, hi=None, span="",
-                positive=True):
+    def _parsed(self, key, parser, *, required=False, lo=None, hi=None, span="", positive=True):
         if key not in self.entry:
             if required:
                 self.error(key, f"missing; every [[{self.kind}]] needs {key} = ...")
@@ -102,24 +128,28 @@ class EntryChecker:
         if raw is None:
             return None
         if not isinstance(raw, str):
-            self.error(key, f"{quote(raw)} must be text in quotes, e.g. {key} = \"A3\"")
+            self.error(key, f'{quote(raw)} must be text in quotes, e.g. {key} = "A3"')
             return None
         return raw.strip() or None
 
-    def _int(self, key, *, required, minimum, default=None, what="a whole number",
-             maximum=MAX_COUNT):
+    def _int(
+        self, key, *, required, minimum, default=None, what="a whole number", maximum=MAX_COUNT
+    ):
         if key not in self.entry:
             if required:
                 self.error(key, f"missing; every [[{self.kind}]] needs {key} = <{what}>")
             return default
         raw = self.entry[key]
-        if isinstance(raw, bool) or isinstance(raw, (dict, list)):
+        if isinstance(raw, (bool, dict, list)):
             self.error(key, f"{quote(raw)} is not a number; write {key} = <{what}>")
             return None
         if isinstance(raw, str):
             digits = raw.strip().replace("_", "")
-            hint = (f"write the number without quotes, {key} = {digits}" if digits.isdigit()
-                    else f"write {key} = <{what}>, a number without quotes")
+            hint = (
+                f"write the number without quotes, {key} = {digits}"
+                if digits.isdigit()
+                else f"write {key} = <{what}>, a number without quotes"
+            )
             self.error(key, f"{quote(raw)} is text; {hint}")
             return None
         if isinstance(raw, float):
@@ -129,16 +159,22 @@ class EntryChecker:
             self.error(key, f"{quote(raw)} is below {minimum}; {key} must be {what}")
             return None
         if raw > maximum:
-            self.error(key, f"{quote(raw)} is not a plausible count (at most {maximum:,}); "
-                            f"{key} must be {what}")
+            self.error(
+                key,
+                f"{quote(raw)} is not a plausible count (at most {maximum:,}); "
+                f"{key} must be {what}",
+            )
             return None
         return raw
 
     def _value(self):
         kind = self.kind
         if "value" not in self.entry:
-            self.error("value", f"missing; every [[{kind}]] needs value = \"...\" (e.g. "
-                                f"{'4k7' if kind == 'resistor' else '10n'})")
+            self.error(
+                "value",
+                f'missing; every [[{kind}]] needs value = "..." (e.g. '
+                f"{'4k7' if kind == 'resistor' else '10n'})",
+            )
             return None
         raw = self.entry["value"]
         try:
@@ -154,14 +190,22 @@ class EntryChecker:
             self.error("value", f"{quote(raw)} is zero; a {kind} value lies in {span}")
         elif not lo <= x <= hi:
             hint = "; write 10p, 10n or 10u" if kind == "capacitor" and x > hi else ""
-            self.error("value", f"{quote(raw)} is {V.format_si(x, unit)}, not a plausible "
-                                f"{kind} ({span}){hint}")
+            self.error(
+                "value",
+                f"{quote(raw)} is {V.format_si(x, unit)}, not a plausible {kind} ({span}){hint}",
+            )
         else:
-            if (kind == "resistor" and isinstance(raw, str)
-                    and re.search(r"[0-9.]\s*m(?![eE][gG])", raw)):
+            if (
+                kind == "resistor"
+                and isinstance(raw, str)
+                and re.search(r"[0-9.]\s*m(?![eE][gG])", raw)
+            ):
                 # SI prefixes are case-sensitive; 1m is a milliohm, a likely slip for 1M
-                self.warn("value", f"{quote(raw)} is {V.format_si(x, 'Ω')} (m is milli); "
-                                   f"write M for mega, e.g. {raw.replace('m', 'M', 1)}")
+                self.warn(
+                    "value",
+                    f"{quote(raw)} is {V.format_si(x, 'Ω')} (m is milli); "
+                    f"write M for mega, e.g. {raw.replace('m', 'M', 1)}",
+                )
             return x
         return None
 
@@ -170,7 +214,7 @@ class EntryChecker:
         if raw is None:
             return ()
         if not isinstance(raw, list):
-            self.error("measured", f"{quote(raw)} must be a list, e.g. measured = [\"4.693k\"]")
+            self.error("measured", f'{quote(raw)} must be a list, e.g. measured = ["4.693k"]')
             return ()
         lo, hi, span = RANGES[self.kind]
         out = []
@@ -187,19 +231,24 @@ class EntryChecker:
             if nominal and tolerance is not None:
                 off = abs(x / nominal - 1)
                 if off > 3 * tolerance + meter:
-                    self.warn("measured", f"{quote(item)} is {off:.1%} from the nominal "
-                                          f"{V.format_rkm(nominal, self.kind)} (tolerance "
-                                          f"{tolerance:.1%}): check the reading")
+                    self.warn(
+                        "measured",
+                        f"{quote(item)} is {off:.1%} from the nominal "
+                        f"{V.format_rkm(nominal, self.kind)} (tolerance "
+                        f"{tolerance:.1%}): check the reading",
+                    )
         if qty is not None and len(raw) > qty:
-            self.error("measured", f"{len(raw)} measured pieces but qty = {qty}; list at most "
-                                   "qty pieces")
+            self.error(
+                "measured", f"{len(raw)} measured pieces but qty = {qty}; list at most qty pieces"
+            )
         return tuple(out)
 
     def _unknown_keys(self):
         for key in self.entry:
             if key not in KEYS[self.kind]:
-                self.warn(key, f"unknown key ignored; [[{self.kind}]] knows "
-                               f"{', '.join(KEYS[self.kind])}")
+                self.warn(
+                    key, f"unknown key ignored; [[{self.kind}]] knows {', '.join(KEYS[self.kind])}"
+                )
 
     # -- the entry ------------------------------------------------------------------------
     def build(self):
@@ -212,32 +261,47 @@ class EntryChecker:
         tol, assumed = self._fraction("tolerance", default_tol)
         meter_x = self._parsed("meter", V.parse_percent, lo=0, hi=0.5, span="0% .. 50%")
         meter = DEFAULT_METER_ACCURACY if meter_x is None else meter_x
-        tempco = self._parsed("tempco", V.parse_ppm, lo=-0.1, hi=0.1, span="-1e5 .. 1e5 ppm",
-                              positive=False)
+        tempco = self._parsed(
+            "tempco", V.parse_ppm, lo=-0.1, hi=0.1, span="-1e5 .. 1e5 ppm", positive=False
+        )
         measured = self._measured(qty, value, tol, meter)
         return value, qty, tol, assumed, meter, tempco, measured
 
     def _build_resistor(self):
-        value, qty, tol, assumed, meter, tempco, measured = self._common(
-            DEFAULT_RESISTOR_TOLERANCE)
+        value, qty, tol, assumed, meter, tempco, measured = self._common(DEFAULT_RESISTOR_TOLERANCE)
         power = self._parsed("power", V.parse_power, hi=1e4, span="up to 10 kW")
         location, note = self._text("location"), self._text("note")
         if value is None or qty is None or self.errors:
             return None
-        return Resistor(value=value, qty=qty, tolerance=tol, tolerance_assumed=assumed,
-                        tempco=tempco, power=power, location=location, note=note,
-                        measured=measured, meter=meter, line=self.header, index=self.index)
+        return Resistor(
+            value=value,
+            qty=qty,
+            tolerance=tol,
+            tolerance_assumed=assumed,
+            tempco=tempco,
+            power=power,
+            location=location,
+            note=note,
+            measured=measured,
+            meter=meter,
+            line=self.header,
+            index=self.index,
+        )
 
     def _build_capacitor(self):
         value, qty, tol, assumed, meter, tempco, measured = self._common(
-            DEFAULT_CAPACITOR_TOLERANCE)
+            DEFAULT_CAPACITOR_TOLERANCE
+        )
         dielectric = None
         raw = self.entry.get("dielectric")
         if raw is not None:
             dielectric = canonical_dielectric(raw) if isinstance(raw, str) else None
             if dielectric is None:
-                self.error("dielectric", f"{quote(raw)} is not a dielectric this format knows; "
-                                         f"use one of {'|'.join(DIELECTRICS)}")
+                self.error(
+                    "dielectric",
+                    f"{quote(raw)} is not a dielectric this format knows; "
+                    f"use one of {'|'.join(DIELECTRICS)}",
+                )
         polarized = dielectric in POLARIZED_BY_DEFAULT
         if "polarized" in self.entry:
             raw = self.entry["polarized"]
@@ -249,24 +313,49 @@ class EntryChecker:
         location, note = self._text("location"), self._text("note")
         if value is None or qty is None or self.errors:
             return None
-        return Capacitor(value=value, qty=qty, tolerance=tol, tolerance_assumed=assumed,
-                         dielectric=dielectric, polarized=polarized, voltage=voltage,
-                         location=location, note=note, measured=measured, meter=meter,
-                         line=self.header, index=self.index, tempco=tempco)
+        return Capacitor(
+            value=value,
+            qty=qty,
+            tolerance=tol,
+            tolerance_assumed=assumed,
+            dielectric=dielectric,
+            polarized=polarized,
+            voltage=voltage,
+            location=location,
+            note=note,
+            measured=measured,
+            meter=meter,
+            line=self.header,
+            index=self.index,
+            tempco=tempco,
+        )
 
     def _build_opamp(self):
         name = self._text("name") or f"op amp {self.index + 1}"
         lo, hi = GBW_RANGE
-        gbw = self._parsed("gbw", V.parse_frequency, required=True, lo=lo, hi=hi,
-                           span="1 kHz .. 100 GHz")
+        gbw = self._parsed(
+            "gbw", V.parse_frequency, required=True, lo=lo, hi=hi, span="1 kHz .. 100 GHz"
+        )
         slew = self._parsed("slew", V.parse_slew, hi=1e12, span="up to 1e6 V/us")
-        channels = self._int("channels", required=False, minimum=1, default=1,
-                             what="op amps per package, 1 or more")
+        channels = self._int(
+            "channels", required=False, minimum=1, default=1, what="op amps per package, 1 or more"
+        )
         supply = self._parsed("supply", V.parse_voltage, hi=1e4, span="up to 10 kV")
         ib = self._parsed("ib", V.parse_current, lo=0, hi=1.0, span="0 .. 1 A", positive=False)
         qty = self._int("qty", required=True, minimum=0, what="a whole number of packages >= 0")
         location, note = self._text("location"), self._text("note")
         if gbw is None or qty is None or self.errors:
             return None
-        return OpAmp(name=name, gbw=gbw, qty=qty, slew=slew, channels=channels, supply=supply,
-                     ib=ib, location=location, note=note, line=self.header, index=self.index)
+        return OpAmp(
+            name=name,
+            gbw=gbw,
+            qty=qty,
+            slew=slew,
+            channels=channels,
+            supply=supply,
+            ib=ib,
+            location=location,
+            note=note,
+            line=self.header,
+            index=self.index,
+        )

@@ -6,9 +6,24 @@ round-trip edits).
 """
 
 from stock.edit import (
-    EditResult, QtyChange, StockChangedError, add_line, apply_changes, replace_bytes,
+    EditResult,
+    QtyChange,
+    StockChangedError,
+    add_line,
+    apply_changes,
+    replace_bytes,
 )
 from stock.load import decode, file_sha256, load, loads
 
-__all__ = ["EditResult", "QtyChange", "StockChangedError", "add_line", "apply_changes",
-           "decode", "file_sha256", "load", "loads", "replace_bytes"]
+__all__ = [
+    "EditResult",
+    "QtyChange",
+    "StockChangedError",
+    "add_line",
+    "apply_changes",
+    "decode",
+    "file_sha256",
+    "load",
+    "loads",
+    "replace_bytes",
+]

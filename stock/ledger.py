@@ -40,15 +40,15 @@ _NAME = re.compile(r"^build-(\d{4,})\.toml$")
 @dataclass(frozen=True)
 class BuildRecord:
     number: int
-    time: str                       # UTC, ISO 8601
-    state: str                      # "pending" | "done" | "undone"
-    stock: str                      # absolute path of the stock file
+    time: str  # UTC, ISO 8601
+    state: str  # "pending" | "done" | "undone"
+    stock: str  # absolute path of the stock file
     sha256_before: str
     sha256_after: str | None = None
     design: str | None = None
     summary: tuple[str, ...] = ()
     undone_time: str | None = None
-    path: Path | None = None        # the record's .toml file
+    path: Path | None = None  # the record's .toml file
 
     @property
     def before_path(self) -> Path:
@@ -71,30 +71,35 @@ def begin(stock_path, before: bytes, *, design=None, summary=()) -> BuildRecord:
     try:
         folder.mkdir(exist_ok=True)
     except OSError as exc:
-        raise StockEditError(f"{folder}: cannot make the build records folder: "
-                             f"{exc.strerror or exc}") from exc
+        raise StockEditError(
+            f"{folder}: cannot make the build records folder: {exc.strerror or exc}"
+        ) from exc
     tmp = _write_temp(folder, "before", before)
     number = max((r.number for r in records(stock_path)), default=0) + 1
     try:
         while True:
             before_path = folder / f"build-{number:04d}.before"
             try:
-                os.link(tmp, before_path)     # atomic: whole content, fails if the name exists
+                os.link(tmp, before_path)  # atomic: whole content, fails if the name exists
             except FileExistsError:
                 number += 1
                 continue
             except OSError as exc:
-                raise StockEditError(f"{before_path}: cannot write: {exc.strerror or exc}") \
-                    from exc
+                raise StockEditError(f"{before_path}: cannot write: {exc.strerror or exc}") from exc
             break
     finally:
         Path(tmp).unlink(missing_ok=True)
     try:
         record = BuildRecord(
-            number=number, time=_now(), state="pending", stock=str(Path(stock_path).resolve()),
+            number=number,
+            time=_now(),
+            state="pending",
+            stock=str(Path(stock_path).resolve()),
             sha256_before=hashlib.sha256(before).hexdigest(),
             design=None if design is None else str(Path(design).resolve()),
-            summary=tuple(str(s) for s in summary), path=folder / f"build-{number:04d}.toml")
+            summary=tuple(str(s) for s in summary),
+            path=folder / f"build-{number:04d}.toml",
+        )
         _write(record)
     except BaseException:
         before_path.unlink(missing_ok=True)
@@ -145,18 +150,26 @@ def before_bytes(record: BuildRecord) -> bytes:
     try:
         data = record.before_path.read_bytes()
     except OSError as exc:
-        raise StockEditError(f"{record.before_path}: cannot read the kept stock file: "
-                             f"{exc.strerror or exc}") from exc
+        raise StockEditError(
+            f"{record.before_path}: cannot read the kept stock file: {exc.strerror or exc}"
+        ) from exc
     if hashlib.sha256(data).hexdigest() != record.sha256_before:
-        raise StockEditError(f"{record.before_path}: the kept copy does not match its record "
-                             f"{record.path.name} (sha256 differs); nothing was restored")
+        raise StockEditError(
+            f"{record.before_path}: the kept copy does not match its record "
+            f"{record.path.name} (sha256 differs); nothing was restored"
+        )
     return data
 
 
 def _write(record: BuildRecord) -> None:
-    doc = {"format": FORMAT, "number": record.number, "time": record.time,
-           "state": record.state, "stock": record.stock,
-           "sha256_before": record.sha256_before}
+    doc = {
+        "format": FORMAT,
+        "number": record.number,
+        "time": record.time,
+        "state": record.state,
+        "stock": record.stock,
+        "sha256_before": record.sha256_before,
+    }
     if record.sha256_after is not None:
         doc["sha256_after"] = record.sha256_after
     if record.design is not None:
@@ -174,14 +187,21 @@ def _read(path: Path, number: int) -> BuildRecord:
         if state not in ("pending", "done", "undone"):
             raise ValueError(f"state {state!r}")
         return BuildRecord(
-            number=number, time=str(doc["time"]), state=state, stock=str(doc["stock"]),
+            number=number,
+            time=str(doc["time"]),
+            state=state,
+            stock=str(doc["stock"]),
             sha256_before=str(doc["sha256_before"]),
-            sha256_after=doc.get("sha256_after"), design=doc.get("design"),
+            sha256_after=doc.get("sha256_after"),
+            design=doc.get("design"),
             summary=tuple(str(s) for s in doc.get("summary", ())),
-            undone_time=doc.get("undone_time"), path=path)
+            undone_time=doc.get("undone_time"),
+            path=path,
+        )
     except (OSError, UnicodeDecodeError, tomllib.TOMLDecodeError, KeyError, ValueError) as exc:
-        raise StockEditError(f"{path}: unreadable build record ({exc}); move it aside to go on") \
-            from exc
+        raise StockEditError(
+            f"{path}: unreadable build record ({exc}); move it aside to go on"
+        ) from exc
 
 
 def _write_temp(folder: Path, label: str, data: bytes) -> str:

@@ -66,7 +66,7 @@ class LineMap:
         self._multi = '"""' in text or "'''" in text
         self.entries: dict[str, list[int]] = {k: [] for k in KINDS}
         self.tables: dict[str, int] = {}
-        self._next: dict[int, int] = {}   # header line -> next header line
+        self._next: dict[int, int] = {}  # header line -> next header line
         stock_header = 0
         previous = 0
         in_multi: str | None = None
@@ -152,11 +152,12 @@ def decode(data: bytes, src: str) -> str:
     try:
         text = data.decode("utf-8")
     except UnicodeDecodeError as exc:
-        line = data[:exc.start].count(b"\n") + 1
+        line = data[: exc.start].count(b"\n") + 1
         col = exc.start - (data.rfind(b"\n", 0, exc.start) + 1) + 1
         raise StockFileError(
             f"{src}:{line}: not UTF-8 text (byte 0x{data[exc.start]:02x} at column {col}); "
-            "save the file as UTF-8") from None
+            "save the file as UTF-8"
+        ) from None
     return text[1:] if text.startswith("\ufeff") else text
 
 
@@ -214,8 +215,10 @@ def _parse(text: str, src: str) -> Stock:
             continue
         where = lines.tables.get(key) or lines.top_keys.get(key, 0)
         what = "table" if isinstance(val, (dict, list)) else "key"
-        warnings.append(f"{src}:{where}: unknown {what} '{key}' ignored; this file format knows "
-                        "[stock], [[resistor]], [[capacitor]] and [[opamp]]")
+        warnings.append(
+            f"{src}:{where}: unknown {what} '{key}' ignored; this file format knows "
+            "[stock], [[resistor]], [[capacitor]] and [[opamp]]"
+        )
     parsed: dict[str, list] = {k: [] for k in KINDS}
     for kind in KINDS:
         entries = doc.get(kind)
@@ -223,8 +226,10 @@ def _parse(text: str, src: str) -> Stock:
             continue
         if not isinstance(entries, list) or not all(isinstance(e, dict) for e in entries):
             where = lines.tables.get(kind) or lines.top_keys.get(kind, 0)
-            errors.append(f"{src}:{where}: {kind}: write each line of stock as [[{kind}]] "
-                          f"(double brackets) followed by its keys")
+            errors.append(
+                f"{src}:{where}: {kind}: write each line of stock as [[{kind}]] "
+                f"(double brackets) followed by its keys"
+            )
             continue
         for index, entry in enumerate(entries):
             header, keylines = lines.entry(kind, index, len(entries))
@@ -238,10 +243,16 @@ def _parse(text: str, src: str) -> Stock:
     if errors:
         raise StockFileError(errors)
     if not any(parsed.values()):
-        warnings.append(f"{src}: the stock is empty: no [[resistor]], [[capacitor]] or "
-                        "[[opamp]] lines")
-    return Stock(resistors=tuple(parsed["resistor"]), capacitors=tuple(parsed["capacitor"]),
-                 opamps=tuple(parsed["opamp"]), name=name, warnings=tuple(warnings))
+        warnings.append(
+            f"{src}: the stock is empty: no [[resistor]], [[capacitor]] or [[opamp]] lines"
+        )
+    return Stock(
+        resistors=tuple(parsed["resistor"]),
+        capacitors=tuple(parsed["capacitor"]),
+        opamps=tuple(parsed["opamp"]),
+        name=name,
+        warnings=tuple(warnings),
+    )
 
 
 def _check_stock_table(table, src, lines: LineMap, errors, warnings) -> str | None:
@@ -253,17 +264,23 @@ def _check_stock_table(table, src, lines: LineMap, errors, warnings) -> str | No
         return None
     name = table.get("name")
     if name is not None and not isinstance(name, str):
-        errors.append(f"{src}:{lines.stock_keys.get('name', where)}: stock name: "
-                      f"{quote(name)} must be text in quotes")
+        errors.append(
+            f"{src}:{lines.stock_keys.get('name', where)}: stock name: "
+            f"{quote(name)} must be text in quotes"
+        )
         name = None
     fmt = table.get("format", 1)
     if fmt != 1 or isinstance(fmt, bool):
-        errors.append(f"{src}:{lines.stock_keys.get('format', where)}: stock format: "
-                      f"{quote(fmt)} is not a format this version reads; it reads format = 1")
+        errors.append(
+            f"{src}:{lines.stock_keys.get('format', where)}: stock format: "
+            f"{quote(fmt)} is not a format this version reads; it reads format = 1"
+        )
     for key in table:
         if key not in STOCK_KEYS:
-            warnings.append(f"{src}:{lines.stock_keys.get(key, where)}: stock {key}: unknown "
-                            "key ignored; [stock] knows name and format")
+            warnings.append(
+                f"{src}:{lines.stock_keys.get(key, where)}: stock {key}: unknown "
+                "key ignored; [stock] knows name and format"
+            )
     return name
 
 
@@ -278,9 +295,11 @@ def _duplicates(parsed, src, warnings) -> None:
             if key in seen:
                 shown = item.name if kind == "opamp" else V.format_rkm(item.value, kind)
                 where = f"in {item.location}" if item.location else "with no location"
-                warnings.append(f"{src}:{item.line}: {kind} {shown} {where} is listed twice "
-                                f"(lines {seen[key]} and {item.line}); each line is counted "
-                                "on its own")
+                warnings.append(
+                    f"{src}:{item.line}: {kind} {shown} {where} is listed twice "
+                    f"(lines {seen[key]} and {item.line}); each line is counted "
+                    "on its own"
+                )
             else:
                 seen[key] = item.line
 

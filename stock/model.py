@@ -16,8 +16,17 @@ from pathlib import Path
 from typing import ClassVar
 
 DIELECTRICS = (
-    "C0G", "NP0", "X7R", "X5R", "Y5V",
-    "film", "polypropylene", "polyester", "mica", "electrolytic", "tantalum",
+    "C0G",
+    "NP0",
+    "X7R",
+    "X5R",
+    "Y5V",
+    "film",
+    "polypropylene",
+    "polyester",
+    "mica",
+    "electrolytic",
+    "tantalum",
 )
 POLARIZED_BY_DEFAULT = ("electrolytic", "tantalum")
 DEFAULT_RESISTOR_TOLERANCE = 0.05
@@ -27,12 +36,12 @@ DEFAULT_METER_ACCURACY = 0.01
 
 @dataclass(frozen=True)
 class Resistor:
-    value: float                      # ohm, nominal
+    value: float  # ohm, nominal
     qty: int
     tolerance: float = DEFAULT_RESISTOR_TOLERANCE
-    tolerance_assumed: bool = True    # True when the file did not say
-    tempco: float | None = None       # per kelvin, fraction
-    power: float | None = None        # watt
+    tolerance_assumed: bool = True  # True when the file did not say
+    tempco: float | None = None  # per kelvin, fraction
+    power: float | None = None  # watt
     location: str | None = None
     note: str | None = None
     measured: tuple[float, ...] = ()  # individually measured pieces, ohm
@@ -49,20 +58,20 @@ class Resistor:
 
 @dataclass(frozen=True)
 class Capacitor:
-    value: float                      # farad, nominal
+    value: float  # farad, nominal
     qty: int
     tolerance: float = DEFAULT_CAPACITOR_TOLERANCE
     tolerance_assumed: bool = True
-    dielectric: str | None = None     # one of DIELECTRICS, canonical spelling
+    dielectric: str | None = None  # one of DIELECTRICS, canonical spelling
     polarized: bool = False
-    voltage: float | None = None      # volt, rating
+    voltage: float | None = None  # volt, rating
     location: str | None = None
     note: str | None = None
     measured: tuple[float, ...] = ()
     meter: float = DEFAULT_METER_ACCURACY
     line: int = 0
     index: int = 0
-    tempco: float | None = None       # per kelvin, fraction; None: from the dielectric class
+    tempco: float | None = None  # per kelvin, fraction; None: from the dielectric class
     kind: ClassVar[str] = "capacitor"
 
     @property
@@ -73,12 +82,12 @@ class Capacitor:
 @dataclass(frozen=True)
 class OpAmp:
     name: str
-    gbw: float                        # hertz
+    gbw: float  # hertz
     qty: int
-    slew: float | None = None         # volt per second
+    slew: float | None = None  # volt per second
     channels: int = 1
-    supply: float | None = None       # volt, maximum total supply
-    ib: float | None = None           # ampere, input bias current
+    supply: float | None = None  # volt, maximum total supply
+    ib: float | None = None  # ampere, input bias current
     location: str | None = None
     note: str | None = None
     line: int = 0
@@ -93,9 +102,10 @@ class Stock:
     opamps: tuple[OpAmp, ...] = ()
     name: str | None = None
     path: Path | None = None
-    sha256: str | None = None                 # of the file's bytes as read
+    sha256: str | None = None  # of the file's bytes as read
     warnings: tuple[str, ...] = field(default=())
 
     def lines(self, kind: str) -> tuple:
-        return {"resistor": self.resistors, "capacitor": self.capacitors,
-                "opamp": self.opamps}[kind]
+        return {"resistor": self.resistors, "capacitor": self.capacitors, "opamp": self.opamps}[
+            kind
+        ]

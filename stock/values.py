@@ -32,21 +32,37 @@ from stock.errors import ValueParseError
 
 # prefix -> power of ten; values are built as decimals so that "2n2" is exactly float("2.2e-9")
 PREFIXES = {
-    "f": -15, "p": -12, "n": -9, "u": -6, "µ": -6, "μ": -6, "m": -3,
-    "k": 3, "K": 3, "M": 6, "G": 9, "T": 12,
+    "f": -15,
+    "p": -12,
+    "n": -9,
+    "u": -6,
+    "µ": -6,
+    "μ": -6,
+    "m": -3,
+    "k": 3,
+    "K": 3,
+    "M": 6,
+    "G": 9,
+    "T": 12,
 }
 _NUM = r"(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE][+-]?[0-9]+)?"
 _PREFIX = r"(?:[mM][eE][gG]|[fpnuµμmkKMGT])"
 _OHM = r"(?:Ω|Ω|[oO][hH][mM][sS]?|R)"
 _RKM_LETTER = r"[RFfpnuµμmkKMGT]"
 
-_SI_RE = re.compile(rf"^(?P<sign>[+-]?)(?P<num>{_NUM})\s*(?P<prefix>{_PREFIX})?"
-                    r"\s*(?P<unit>[^\s0-9]*)$")
-_RKM_RE = re.compile(rf"^(?P<sign>[+-]?)(?P<int>[0-9]*)(?P<letter>{_RKM_LETTER})(?P<frac>[0-9]+)"
-                     rf"\s*(?P<unit>[^\s0-9]*)$")
+_SI_RE = re.compile(
+    rf"^(?P<sign>[+-]?)(?P<num>{_NUM})\s*(?P<prefix>{_PREFIX})?"
+    r"\s*(?P<unit>[^\s0-9]*)$"
+)
+_RKM_RE = re.compile(
+    rf"^(?P<sign>[+-]?)(?P<int>[0-9]*)(?P<letter>{_RKM_LETTER})(?P<frac>[0-9]+)"
+    rf"\s*(?P<unit>[^\s0-9]*)$"
+)
 
-VALUE_HELP = ("write an RKM code (4k7, R47, 2n2, 1M0, 4u7), SI notation (4.7k, 2.2n, 1meg, "
-              "1e-9) or a plain number, with an optional unit (Ω, ohm, F)")
+VALUE_HELP = (
+    "write an RKM code (4k7, R47, 2n2, 1M0, 4u7), SI notation (4.7k, 2.2n, 1meg, "
+    "1e-9) or a plain number, with an optional unit (Ω, ohm, F)"
+)
 
 
 def _prefix_exp(prefix: str | None) -> int:
@@ -180,8 +196,7 @@ def parse_value(text, *, kind: str | None = None) -> float:
     return _scaled(digits, exp, m["sign"], text)
 
 
-def _parse_with_unit(text, unit_re: str, what: str, example: str, *,
-                     bare_ok: bool = True) -> float:
+def _parse_with_unit(text, unit_re: str, what: str, example: str, *, bare_ok: bool = True) -> float:
     """Number, optional SI prefix, then the unit (matched by ``unit_re``)."""
     help_ = f"write {what} like {example}"
     if isinstance(text, bool):
@@ -195,7 +210,7 @@ def _parse_with_unit(text, unit_re: str, what: str, example: str, *,
     s = text.strip()
     for pm in ("±", "+/-"):
         if s.startswith(pm):
-            s = s[len(pm):].strip()
+            s = s[len(pm) :].strip()
     m = re.fullmatch(rf"([+-]?)({_NUM})\s*({_PREFIX})?\s*({unit_re})?", s)
     if not m:
         raise ValueParseError(f"cannot read {what} '{text}'; {help_}")
@@ -212,7 +227,7 @@ def parse_percent(text) -> float:
         s = text.strip()
         for pm in ("±", "+/-"):
             if s.startswith(pm):
-                s = s[len(pm):].strip()
+                s = s[len(pm) :].strip()
         m = re.fullmatch(rf"({_NUM})\s*%", s)
         if m:
             return _scaled(m[1], -2, "", text)
@@ -228,7 +243,7 @@ def parse_ppm(text) -> float:
         s = text.strip()
         for pm in ("±", "+/-"):
             if s.startswith(pm):
-                s = s[len(pm):].strip()
+                s = s[len(pm) :].strip()
         m = re.fullmatch(rf"([+-]?)({_NUM})\s*ppm\s*(?:/\s*(?:K|°C|C|°K))?", s, re.IGNORECASE)
         if m:
             return _scaled(m[2], -6, m[1], text)
@@ -331,8 +346,18 @@ def format_rkm(value: float, kind: str) -> str:
     return f"{whole}{letter}{frac}"
 
 
-_SI_PREFIX_OUT = {-15: "f", -12: "p", -9: "n", -6: "µ", -3: "m", 0: "", 3: "k", 6: "M",
-                  9: "G", 12: "T"}
+_SI_PREFIX_OUT = {
+    -15: "f",
+    -12: "p",
+    -9: "n",
+    -6: "µ",
+    -3: "m",
+    0: "",
+    3: "k",
+    6: "M",
+    9: "G",
+    12: "T",
+}
 
 
 def format_si(value: float, unit: str = "", *, digits: int = 3, ascii_micro: bool = False) -> str:
@@ -357,6 +382,15 @@ def format_si(value: float, unit: str = "", *, digits: int = 3, ascii_micro: boo
 
 
 __all__ = [
-    "VALUE_HELP", "format_rkm", "format_si", "parse_current", "parse_frequency",
-    "parse_percent", "parse_power", "parse_ppm", "parse_slew", "parse_value", "parse_voltage",
+    "VALUE_HELP",
+    "format_rkm",
+    "format_si",
+    "parse_current",
+    "parse_frequency",
+    "parse_percent",
+    "parse_power",
+    "parse_ppm",
+    "parse_slew",
+    "parse_value",
+    "parse_voltage",
 ]

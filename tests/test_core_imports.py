@@ -6,9 +6,16 @@ from pathlib import Path
 import pytest
 
 ROOT = Path(__file__).resolve().parent.parent
-CORE = ["stock", "picker/filters", "picker/analysis", "picker/search", "picker/budget.py",
-        "picker/budget",
-        "picker/parts.py", "picker/errors.py"]
+CORE = [
+    "stock",
+    "picker/filters",
+    "picker/analysis",
+    "picker/search",
+    "picker/budget.py",
+    "picker/budget",
+    "picker/parts.py",
+    "picker/errors.py",
+]
 FORBIDDEN = {"textual", "rich"}
 
 

@@ -26,7 +26,7 @@ import numpy as np
 from picker.errors import DesignError
 from picker.filters.base import Element
 
-A0_DEFAULT = 2e5   # assumed typical open-loop DC gain of a general-purpose op amp
+A0_DEFAULT = 2e5  # assumed typical open-loop DC gain of a general-purpose op amp
 
 
 @dataclass(frozen=True)
@@ -40,8 +40,9 @@ class System:
     nodes: tuple[str, ...]
 
 
-def build_system(elements: Sequence[Element], *, gbw_hz: float | None = None,
-                 a0: float = A0_DEFAULT) -> System:
+def build_system(
+    elements: Sequence[Element], *, gbw_hz: float | None = None, a0: float = A0_DEFAULT
+) -> System:
     """Stamp the elements into the MNA matrices."""
     nodes: list[str] = []
     for el in elements:
@@ -72,26 +73,28 @@ def build_system(elements: Sequence[Element], *, gbw_hz: float | None = None,
     for el in elements:
         if el.kind in ("R", "C"):
             if not (np.isfinite(el.value) and el.value > 0):
-                raise DesignError(f"netlist element {el.name} has value {el.value!r}; "
-                                  f"it must be positive and finite")
+                raise DesignError(
+                    f"netlist element {el.name} has value {el.value!r}; "
+                    f"it must be positive and finite"
+                )
             if el.kind == "R":
                 stamp(G, *el.nodes, 1.0 / el.value)
             else:
                 stamp(C, *el.nodes, el.value)
         elif el.kind == "OA":
             plus, minus, out = el.nodes
-            G[idx[out], row] -= 1.0            # the op amp drives current into its output
+            G[idx[out], row] -= 1.0  # the op amp drives current into its output
             if plus != "0":
                 G[row, idx[plus]] += 1.0
             if minus != "0":
                 G[row, idx[minus]] -= 1.0
-            if gbw_hz is not None:             # (V+ - V-) - V_out (1 + s/wp) / A0 = 0
+            if gbw_hz is not None:  # (V+ - V-) - V_out (1 + s/wp) / A0 = 0
                 G[row, idx[out]] -= 1.0 / a0
                 C[row, idx[out]] -= 1.0 / (2.0 * np.pi * gbw_hz)
             row += 1
         else:
             raise DesignError(f"netlist element {el.name} has unknown kind {el.kind!r}")
-    G[idx["in"], row] -= 1.0                   # input source: V_in = u
+    G[idx["in"], row] -= 1.0  # input source: V_in = u
     G[row, idx["in"]] = 1.0
     b = np.zeros(size)
     b[row] = 1.0
@@ -104,8 +107,9 @@ def _solve(system: System, s: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     try:
         return Y, np.linalg.solve(Y, rhs)[..., 0]
     except np.linalg.LinAlgError:
-        raise DesignError("the netlist cannot be solved (a floating node or a loop of "
-                          "ideal op amps)") from None
+        raise DesignError(
+            "the netlist cannot be solved (a floating node or a loop of ideal op amps)"
+        ) from None
 
 
 def _freqs(freqs_hz) -> np.ndarray:
@@ -115,16 +119,18 @@ def _freqs(freqs_hz) -> np.ndarray:
     return f
 
 
-def nodal_response(elements: Sequence[Element], freqs_hz, *, gbw_hz: float | None = None,
-                   a0: float = A0_DEFAULT) -> np.ndarray:
+def nodal_response(
+    elements: Sequence[Element], freqs_hz, *, gbw_hz: float | None = None, a0: float = A0_DEFAULT
+) -> np.ndarray:
     """Complex H(j 2 pi f) = V(out) / V(in) at each frequency (vectorised: one batched solve)."""
     system = build_system(elements, gbw_hz=gbw_hz, a0=a0)
     _, x = _solve(system, 2j * np.pi * _freqs(freqs_hz))
     return x[:, system.out]
 
 
-def group_delay_s(elements: Sequence[Element], freqs_hz, *, gbw_hz: float | None = None,
-                  a0: float = A0_DEFAULT) -> np.ndarray:
+def group_delay_s(
+    elements: Sequence[Element], freqs_hz, *, gbw_hz: float | None = None, a0: float = A0_DEFAULT
+) -> np.ndarray:
     """Group delay -d(arg H)/dw in seconds, exact from the MNA: dx/ds = -Y^-1 C x, so
     tau = -Re((dH/ds) / H) (derived here)."""
     system = build_system(elements, gbw_hz=gbw_hz, a0=a0)
@@ -134,8 +140,13 @@ def group_delay_s(elements: Sequence[Element], freqs_hz, *, gbw_hz: float | None
         return -np.real(dx[:, system.out] / x[:, system.out])
 
 
-def cascade_response(stages: Sequence[Sequence[Element]], freqs_hz, gbw_hz: float | None = None,
-                     *, a0: float = A0_DEFAULT) -> np.ndarray:
+def cascade_response(
+    stages: Sequence[Sequence[Element]],
+    freqs_hz,
+    gbw_hz: float | None = None,
+    *,
+    a0: float = A0_DEFAULT,
+) -> np.ndarray:
     """Product of the stage responses: each stage is driven by the previous op amp output,
     so the stages do not load each other."""
     f = _freqs(freqs_hz)
@@ -145,12 +156,16 @@ def cascade_response(stages: Sequence[Sequence[Element]], freqs_hz, gbw_hz: floa
     return h
 
 
-def cascade_group_delay_s(stages: Sequence[Sequence[Element]], freqs_hz,
-                          gbw_hz: float | None = None, *, a0: float = A0_DEFAULT) -> np.ndarray:
+def cascade_group_delay_s(
+    stages: Sequence[Sequence[Element]],
+    freqs_hz,
+    gbw_hz: float | None = None,
+    *,
+    a0: float = A0_DEFAULT,
+) -> np.ndarray:
     """Group delay of a cascade: the sum of the stages' group delays (phases add)."""
     f = _freqs(freqs_hz)
-    return sum((group_delay_s(el, f, gbw_hz=gbw_hz, a0=a0) for el in stages),
-               np.zeros(len(f)))
+    return sum((group_delay_s(el, f, gbw_hz=gbw_hz, a0=a0) for el in stages), np.zeros(len(f)))
 
 
 def chain(stages: Sequence[Sequence[Element]]) -> list[Element]:
@@ -161,16 +176,20 @@ def chain(stages: Sequence[Sequence[Element]]) -> list[Element]:
     last = len(stages) - 1
     out: list[Element] = []
     for k, elements in enumerate(stages):
-        ends = {"0": "0", "in": "in" if k == 0 else f"s{k}",
-                "out": "out" if k == last else f"s{k + 1}"}
+        ends = {
+            "0": "0",
+            "in": "in" if k == 0 else f"s{k}",
+            "out": "out" if k == last else f"s{k + 1}",
+        }
         for el in elements:
             nodes = tuple(ends.get(n, f"k{k}.{n}") for n in el.nodes)
             out.append(Element(el.kind, f"{el.name}.{k + 1}", nodes, el.value))
     return out
 
 
-def poles(elements: Sequence[Element], *, gbw_hz: float | None = None,
-          a0: float = A0_DEFAULT) -> np.ndarray:
+def poles(
+    elements: Sequence[Element], *, gbw_hz: float | None = None, a0: float = A0_DEFAULT
+) -> np.ndarray:
     """Finite natural frequencies (rad/s) of the netlist: generalized eigenvalues of
     G x = -s C x, sorted by magnitude."""
     from scipy.linalg import eigvals

@@ -29,7 +29,7 @@ def _reference_db(mag_db: np.ndarray, reference) -> float:
     return float(20.0 * np.log10(reference))
 
 
-HALF_POWER_DB = -10.0 * np.log10(2.0)   # "-3 dB" exactly: half the power, |H| = 1/sqrt(2)
+HALF_POWER_DB = -10.0 * np.log10(2.0)  # "-3 dB" exactly: half the power, |H| = 1/sqrt(2)
 
 
 def corner_hz(freqs_hz, h, *, level_db: float = HALF_POWER_DB, reference="auto") -> float:
@@ -47,8 +47,7 @@ def corner_hz(freqs_hz, h, *, level_db: float = HALF_POWER_DB, reference="auto")
         f, rel = f[::-1], rel[::-1]
     below = np.nonzero(rel < level_db)[0]
     if len(below) == 0 or below[0] == 0:
-        raise DesignError(f"no {level_db:g} dB crossing between {f.min():g} and "
-                          f"{f.max():g} Hz")
+        raise DesignError(f"no {level_db:g} dB crossing between {f.min():g} and {f.max():g} Hz")
     i = below[0]
     x0, x1 = np.log(f[i - 1]), np.log(f[i])
     y0, y1 = rel[i - 1], rel[i]
@@ -65,8 +64,9 @@ def passband_ripple_db(freqs_hz, h, f_lo_hz: float, f_hi_hz: float) -> float:
     return float(mag.max() - mag.min())
 
 
-def estimate_stage(elements: Sequence[Element], order: int, response_type: str, *,
-                   gbw_hz: float | None = None) -> tuple[float, float | None, float]:
+def estimate_stage(
+    elements: Sequence[Element], order: int, response_type: str, *, gbw_hz: float | None = None
+) -> tuple[float, float | None, float]:
     """(f0_hz, q, |gain|) of one stage read from its netlist: the ``order`` poles of
     smallest magnitude give f0 and Q (a finite-GBW op amp adds poles far above them);
     the gain is |H| divided by the ideal shape of those poles at a reference frequency:
@@ -92,8 +92,11 @@ def estimate_stage(elements: Sequence[Element], order: int, response_type: str, 
         wr = float(np.sqrt(w0 * abs(rest[0]))) if len(rest) else 100.0 * w0
     s = 1j * wr
     if order == 1:
-        shape = (1.0 if response_type == "lowpass" else s) / (s + w0) * \
-                (w0 if response_type == "lowpass" else 1.0)
+        shape = (
+            (1.0 if response_type == "lowpass" else s)
+            / (s + w0)
+            * (w0 if response_type == "lowpass" else 1.0)
+        )
     else:
         num = {"lowpass": w0 * w0, "highpass": s * s, "bandpass": s * w0 / q}[response_type]
         shape = num / (s * s + s * w0 / q + w0 * w0)

@@ -37,11 +37,12 @@ def step_response(elements: Sequence[Element], t_s, *, gbw_hz: float | None = No
     system = build_system(elements, gbw_hz=gbw_hz)
     G, C, b = system.G, system.C, system.b
     try:
-        first = np.linalg.solve(G + C / h, b)                 # backward Euler from rest
+        first = np.linalg.solve(G + C / h, b)  # backward Euler from rest
         step = np.linalg.inv(G + 1.5 * C / h)
     except np.linalg.LinAlgError:
-        raise DesignError("the netlist cannot be solved (a floating node or a loop of "
-                          "ideal op amps)") from None
+        raise DesignError(
+            "the netlist cannot be solved (a floating node or a loop of ideal op amps)"
+        ) from None
     # BDF2: (G + 3C/2h) x[n] = C (2 x[n-1] - x[n-2] / 2) / h + b, as fixed matrices
     p, q, r = step @ C * (2.0 / h), step @ C * (-0.5 / h), step @ b
     y = np.zeros(len(t))

@@ -17,7 +17,7 @@ from __future__ import annotations
 
 import numpy as np
 
-HALF_POWER_DB = -10.0 * np.log10(2.0)      # -3.0103 dB
+HALF_POWER_DB = -10.0 * np.log10(2.0)  # -3.0103 dB
 TRIAL_POINTS = 121
 REFINE_STEPS = 2
 
@@ -51,7 +51,8 @@ def _magnitude_db(chars, f):
         else:
             iq2 = 1.0 / np.asarray(q, dtype=float)[:, None] ** 2
             num = {"lowpass": 1.0, "highpass": u2 * u2, "bandpass": u2 * iq2}[
-                topology.response_type]
+                topology.response_type
+            ]
             h2 = g2 * num / ((1.0 - u2) ** 2 + u2 * iq2)
         total = h2 if total is None else total * h2
     return 10.0 * np.log10(total)
@@ -85,21 +86,25 @@ def _quantity(chars, freqs, kind):
     nan = np.full(n, np.nan)
     if kind in ("lowpass", "highpass"):
         # passband maximum: the DC (HF) gain, or a ripple peak above it on the grid
-        ref = np.maximum(sum(20.0 * np.log10(np.abs(np.asarray(c[3], dtype=float)))
-                             for c in chars), db.max(axis=1))
+        ref = np.maximum(
+            sum(20.0 * np.log10(np.abs(np.asarray(c[3], dtype=float))) for c in chars),
+            db.max(axis=1),
+        )
     if kind == "lowpass":
         below = db < ref[:, None] + HALF_POWER_DB
         i = np.argmax(below, axis=1)
         ok = below.any(axis=1) & (i > 0)
-        f = np.where(ok, _crossing(chars, freqs, db, np.maximum(i - 1, 0), i,
-                                   ref + HALF_POWER_DB), nan)
+        f = np.where(
+            ok, _crossing(chars, freqs, db, np.maximum(i - 1, 0), i, ref + HALF_POWER_DB), nan
+        )
         return f, f, f
     if kind == "highpass":
         above = db >= ref[:, None] + HALF_POWER_DB
         i = np.argmax(above, axis=1)
         ok = above.any(axis=1) & (i > 0)
-        f = np.where(ok, _crossing(chars, freqs, db, np.maximum(i - 1, 0), i,
-                                   ref + HALF_POWER_DB), nan)
+        f = np.where(
+            ok, _crossing(chars, freqs, db, np.maximum(i - 1, 0), i, ref + HALF_POWER_DB), nan
+        )
         return f, f, f
     peak = db.max(axis=1)
     level = peak + HALF_POWER_DB
@@ -107,10 +112,10 @@ def _quantity(chars, freqs, kind):
     first = np.argmax(above, axis=1)
     last = db.shape[1] - 1 - np.argmax(above[:, ::-1], axis=1)
     ok = (first > 0) & (last < db.shape[1] - 1)
-    lo = np.where(ok, _crossing(chars, freqs, db, np.maximum(first - 1, 0), first, level),
-                  nan)
-    hi = np.where(ok, _crossing(chars, freqs, db, last,
-                                np.minimum(last + 1, db.shape[1] - 1), level), nan)
+    lo = np.where(ok, _crossing(chars, freqs, db, np.maximum(first - 1, 0), first, level), nan)
+    hi = np.where(
+        ok, _crossing(chars, freqs, db, last, np.minimum(last + 1, db.shape[1] - 1), level), nan
+    )
     return np.sqrt(lo * hi), lo, hi
 
 
@@ -137,6 +142,9 @@ def cascade_frequency(chars, *, around: tuple[float, float] | None = None):
         points = max(TRIAL_POINTS, int(np.ceil(np.log(4.0 * hi / lo) / np.log(1.0116))))
         freqs = np.geomspace(lo / 2.0, hi * 2.0, min(points, 600))
     value, lo_edge, hi_edge = _quantity(chars, freqs, kind)
-    quantity = {"lowpass": "-3 dB corner of the cascade", "highpass": "-3 dB corner of the cascade",
-                "band": "centre sqrt(f_lo f_hi) of the cascade's -3 dB edges"}[kind]
+    quantity = {
+        "lowpass": "-3 dB corner of the cascade",
+        "highpass": "-3 dB corner of the cascade",
+        "band": "centre sqrt(f_lo f_hi) of the cascade's -3 dB edges",
+    }[kind]
     return value, lo_edge, hi_edge, quantity

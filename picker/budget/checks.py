@@ -33,7 +33,7 @@ def _where(stage_no: int, label: str) -> str:
 
 def _pieces(stage_pieces):
     for i, sp in enumerate(stage_pieces, start=1):
-        for label, piece in zip(sp.labels, sp.pieces):
+        for label, piece in zip(sp.labels, sp.pieces, strict=False):
             yield i, label, piece
 
 
@@ -60,38 +60,63 @@ def part_checks(stage_pieces, *, opamp=None, supply=None) -> list[str]:
                 under.append(f"{where} rated {format_si(line.voltage, 'V')}")
     out = []
     if low:
-        out.append("Below 1 kohm, loads the op amp output and the source: " + ", ".join(low)
-                   + " (common practice: keep filter resistors from 1 k to 1 M).")
+        out.append(
+            "Below 1 kohm, loads the op amp output and the source: "
+            + ", ".join(low)
+            + " (common practice: keep filter resistors from 1 k to 1 M)."
+        )
     if high:
         names = ", ".join(f"{w} {format_si(v, 'ohm')}" for w, v in high)
         if opamp is not None and opamp.ib is not None:
             worst = max(v for _, v in high) * float(opamp.ib)
-            tail = (f"; with the op amp's {format_si(float(opamp.ib), 'A')} input bias current "
-                    f"the offset is up to about {format_si(worst, 'V')} (ib x R)")
+            tail = (
+                f"; with the op amp's {format_si(float(opamp.ib), 'A')} input bias current "
+                f"the offset is up to about {format_si(worst, 'V')} (ib x R)"
+            )
         else:
             tail = "; the op amp's input bias current is not known, so its offset (ib x R) is not"
         out.append(f"Above 1 Mohm, adds thermal noise and bias-current offset: {names}{tail}.")
     if class2:
-        out.append("Class-2 ceramic in a filter position, drifts with temperature and loses "
-                   "capacitance with DC bias: " + ", ".join(class2)
-                   + " (common practice: use C0G/NP0 or film).")
+        out.append(
+            "Class-2 ceramic in a filter position, drifts with temperature and loses "
+            "capacitance with DC bias: "
+            + ", ".join(class2)
+            + " (common practice: use C0G/NP0 or film)."
+        )
     if polar:
-        out.append("Polarized capacitor in a filter position: " + ", ".join(polar)
-                   + "; the signal swings both ways across it, and reverse voltage damages it: "
-                     "it needs a steady DC bias of the right polarity, and it drifts widely.")
+        out.append(
+            "Polarized capacitor in a filter position: "
+            + ", ".join(polar)
+            + "; the signal swings both ways across it, and reverse voltage damages it: "
+            "it needs a steady DC bias of the right polarity, and it drifts widely."
+        )
     if under:
-        out.append(f"Voltage rating below {VOLTAGE_MARGIN:g} x the {format_si(supply, 'V')} "
-                   "supply (common-practice margin): " + ", ".join(under) + ".")
+        out.append(
+            f"Voltage rating below {VOLTAGE_MARGIN:g} x the {format_si(supply, 'V')} "
+            "supply (common-practice margin): " + ", ".join(under) + "."
+        )
     if no_rating:
-        out.append("Voltage rating not in the stock file: " + ", ".join(no_rating)
-                   + f"; check each is rated at least {VOLTAGE_MARGIN:g} x the "
-                     f"{format_si(supply, 'V')} supply.")
-    if opamp is not None and supply is not None and opamp.supply is not None \
-            and supply > opamp.supply:
-        out.append(f"The supply {format_si(supply, 'V')} is above the op amp's "
-                   f"{format_si(float(opamp.supply), 'V')} maximum ({opamp.name}).")
-    assumed = [f"{_where(i, lbl)}" for i, lbl, p in _pieces(stage_pieces)
-               if getattr(p.line, "tolerance_assumed", False) and p.measured is None]
+        out.append(
+            "Voltage rating not in the stock file: "
+            + ", ".join(no_rating)
+            + f"; check each is rated at least {VOLTAGE_MARGIN:g} x the "
+            f"{format_si(supply, 'V')} supply."
+        )
+    if (
+        opamp is not None
+        and supply is not None
+        and opamp.supply is not None
+        and supply > opamp.supply
+    ):
+        out.append(
+            f"The supply {format_si(supply, 'V')} is above the op amp's "
+            f"{format_si(float(opamp.supply), 'V')} maximum ({opamp.name})."
+        )
+    assumed = [
+        f"{_where(i, lbl)}"
+        for i, lbl, p in _pieces(stage_pieces)
+        if getattr(p.line, "tolerance_assumed", False) and p.measured is None
+    ]
     if assumed:
         out.append("Tolerance assumed (the stock file gives none): " + ", ".join(assumed) + ".")
     return out
@@ -99,9 +124,11 @@ def part_checks(stage_pieces, *, opamp=None, supply=None) -> list[str]:
 
 def caution(stage_pieces, *, supply=None) -> str | None:
     """The safety caution of DESIGN.md 10, when high voltage or polarized parts are involved."""
-    polar = any(p.line.kind == "capacitor" and (p.line.polarized or p.line.dielectric in
-                                                ("electrolytic", "tantalum"))
-                for _, _, p in _pieces(stage_pieces))
+    polar = any(
+        p.line.kind == "capacitor"
+        and (p.line.polarized or p.line.dielectric in ("electrolytic", "tantalum"))
+        for _, _, p in _pieces(stage_pieces)
+    )
     high = supply is not None and supply > HIGH_VOLTAGE
     if not (polar or high):
         return None
@@ -110,16 +137,20 @@ def caution(stage_pieces, *, supply=None) -> str | None:
         why.append(f"the {format_si(supply, 'V')} supply is above {HIGH_VOLTAGE:g} V")
     if polar:
         why.append("the design uses polarized capacitors")
-    return ("Caution: " + " and ".join(why) + ". Discharge capacitors before touching the "
-            "board, observe polarity, use parts rated for the voltage with margin, keep "
-            "isolation, and follow local codes and licensed practice.")
+    return (
+        "Caution: " + " and ".join(why) + ". Discharge capacitors before touching the "
+        "board, observe polarity, use parts rated for the voltage with margin, keep "
+        "isolation, and follow local codes and licensed practice."
+    )
 
 
 def input_note(zin_ohm: float, at_hz: float) -> str:
     """The first stage's lowest input impedance, against the source."""
     if zin_ohm == float("inf"):
         return "Input impedance: no finite value found at the filter input over 0.01..100 f0."
-    return (f"Input impedance: lowest about {format_si(zin_ohm, 'ohm')} (at "
-            f"{format_si(at_hz, 'Hz')}, stage 1, over 0.01..100 f0); drive the filter from "
-            f"a source below {format_si(zin_ohm / SOURCE_RATIO, 'ohm')} (10 x lower, common "
-            f"practice).")
+    return (
+        f"Input impedance: lowest about {format_si(zin_ohm, 'ohm')} (at "
+        f"{format_si(at_hz, 'Hz')}, stage 1, over 0.01..100 f0); drive the filter from "
+        f"a source below {format_si(zin_ohm / SOURCE_RATIO, 'ohm')} (10 x lower, common "
+        f"practice)."
+    )

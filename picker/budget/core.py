@@ -22,14 +22,19 @@ def _window(window) -> dict[str, float]:
     if isinstance(window, dict):
         unknown = set(window) - {"f0", "q", "gain"}
         if unknown:
-            raise DesignError(f"window {window!r}: unknown key(s) {sorted(unknown)}; "
-                              "use f0, q, gain")
+            raise DesignError(
+                f"window {window!r}: unknown key(s) {sorted(unknown)}; use f0, q, gain"
+            )
         out = {k: window.get(k, 0.05) for k in ("f0", "q", "gain")}
     else:
         out = {k: window for k in ("f0", "q", "gain")}
     for k, v in out.items():
-        if isinstance(v, bool) or not isinstance(v, int | float) or not (0 < v < 10) \
-                or not math.isfinite(v):
+        if (
+            isinstance(v, bool)
+            or not isinstance(v, int | float)
+            or not (0 < v < 10)
+            or not math.isfinite(v)
+        ):
             raise DesignError(f"window {k}={v!r}: must be a fraction above 0 (0.05 = 5 %)")
     return {k: float(v) for k, v in out.items()}
 
@@ -55,9 +60,17 @@ def _rel(a, b):
     return None if a is None or b is None else a / b - 1.0
 
 
-def budget(candidate: Candidate, *, trials: int = 10000, distribution: str = "uniform",
-           window=0.05, temp=(0.0, 70.0), supply: float | None = None,
-           vout_peak: float | None = None, seed: int = 0) -> Budget:
+def budget(
+    candidate: Candidate,
+    *,
+    trials: int = 10000,
+    distribution: str = "uniform",
+    window=0.05,
+    temp=(0.0, 70.0),
+    supply: float | None = None,
+    vout_peak: float | None = None,
+    seed: int = 0,
+) -> Budget:
     """Error budget of ``candidate``: value error, tolerance corners, Monte Carlo yield,
     temperature drift, op-amp effects and practical warnings.
 
@@ -91,23 +104,28 @@ def budget(candidate: Candidate, *, trials: int = 10000, distribution: str = "un
         sp = stage_pieces(choice)
         missing = set(topo.position_names()) - {s.name for s in sp.slots}
         if missing:
-            raise DesignError(f"stage {i + 1} ({choice.topology}): positions "
-                              f"{sorted(missing)} are not filled")
+            raise DesignError(
+                f"stage {i + 1} ({choice.topology}): positions {sorted(missing)} are not filled"
+            )
         layout.append((topo, sp, choice))
         values = {k: float(v) for k, v in sp.positions(sp.nominal).items()}
         f0, q, gain = (None if a is None else float(a[()]) for a in evaluate(topo, values))
         tol = tolerance(topo, sp, sets_gain=topo.sets_gain, seed=seed + i)
         if tol.q is not None and not (0 < tol.q[0] <= tol.q[1] < math.inf):
-            warnings.append(f"Stage {i + 1}: within the parts' tolerance the stage can become "
-                            f"unstable (Q reaches {tol.q[0]:.3g}..{tol.q[1]:.3g}; a negative "
-                            "or unbounded Q oscillates); lower the gain or use closer parts.")
+            warnings.append(
+                f"Stage {i + 1}: within the parts' tolerance the stage can become "
+                f"unstable (Q reaches {tol.q[0]:.3g}..{tol.q[1]:.3g}; a negative "
+                "or unbounded Q oscillates); lower the gain or use closer parts."
+            )
         if not tol.exhaustive:
             warnings.append(f"Stage {i + 1}: {tol.method}; the tolerance range may be narrow.")
         tp = temperature(topo, sp, span, sets_gain=topo.sets_gain)
         outside = [d.label for d in tp.pieces if d.outside_rated]
         if outside:
-            warnings.append(f"Stage {i + 1}: {span[0]:g}..{span[1]:g} C leaves the rated "
-                            f"temperature range of {', '.join(outside)}.")
+            warnings.append(
+                f"Stage {i + 1}: {span[0]:g}..{span[1]:g} C leaves the rated "
+                f"temperature range of {', '.join(outside)}."
+            )
         oa = None
         if opamp is not None:
             oa = opamp_effects(topo, values, (f0, q, gain), opamp, vout_peak=vout_peak)
@@ -116,11 +134,21 @@ def budget(candidate: Candidate, *, trials: int = 10000, distribution: str = "un
         if i == 0:
             zin = input_impedance(topo, values, f0, None if opamp is None else opamp.gbw)
         t, a = choice.target, choice.achieved
-        records.append(StageBudget(
-            index=i, topology=choice.topology, response_type=topo.response_type,
-            order=topo.order, target=t, achieved=a,
-            value_error=(_rel(a.f0_hz, t.f0_hz), _rel(a.q, t.q), _rel(a.gain, t.gain)),
-            tolerance=tol, temperature=tp, opamp=oa, input_impedance=zin))
+        records.append(
+            StageBudget(
+                index=i,
+                topology=choice.topology,
+                response_type=topo.response_type,
+                order=topo.order,
+                target=t,
+                achieved=a,
+                value_error=(_rel(a.f0_hz, t.f0_hz), _rel(a.q, t.q), _rel(a.gain, t.gain)),
+                tolerance=tol,
+                temperature=tp,
+                opamp=oa,
+                input_impedance=zin,
+            )
+        )
     mc = monte_carlo(layout, trials=trials, distribution=distribution, window=win, seed=seed)
     sps = [sp for _, sp, _ in layout]
     warnings.extend(checks.part_checks(sps, opamp=opamp, supply=supply))
@@ -133,25 +161,38 @@ def budget(candidate: Candidate, *, trials: int = 10000, distribution: str = "un
     caution = checks.caution(sps, supply=supply)
     if caution:
         warnings.append(caution)
-    return Budget(stages=tuple(records), monte_carlo=mc, warnings=tuple(warnings),
-                  opamp_name=None if opamp is None else opamp.name, supply=supply,
-                  vout_peak=vout_peak)
+    return Budget(
+        stages=tuple(records),
+        monte_carlo=mc,
+        warnings=tuple(warnings),
+        opamp_name=None if opamp is None else opamp.name,
+        supply=supply,
+        vout_peak=vout_peak,
+    )
 
 
 def _opamp_warnings(i, topo, oa, f0) -> list[str]:
     out = []
     if oa.gbw_hz < oa.gbw_needed_hz:
-        out.append(f"Stage {i + 1}: op amp too slow: GBW {format_si(oa.gbw_hz, 'Hz')} is below "
-                   f"100 x noise gain x Q x f0 = {format_si(oa.gbw_needed_hz, 'Hz')} (common "
-                   f"practice); it moves f0 by {oa.shift[0]:+.1%}"
-                   + ("" if oa.shift[1] is None else f" and Q by {oa.shift[1]:+.1%}") + ".")
+        out.append(
+            f"Stage {i + 1}: op amp too slow: GBW {format_si(oa.gbw_hz, 'Hz')} is below "
+            f"100 x noise gain x Q x f0 = {format_si(oa.gbw_needed_hz, 'Hz')} (common "
+            f"practice); it moves f0 by {oa.shift[0]:+.1%}"
+            + ("" if oa.shift[1] is None else f" and Q by {oa.shift[1]:+.1%}")
+            + "."
+        )
     fp = oa.full_power_hz
     if fp is not None:
         need = f0 if topo.response_type != "highpass" else 10.0 * f0
         if fp < need:
-            edge = ("f0" if topo.response_type != "highpass"
-                    else "10 x f0 (a high-pass passes everything above f0)")
-            out.append(f"Stage {i + 1}: slew-rate limit: full-power bandwidth SR/(2 pi Vp) = "
-                       f"{format_si(fp, 'Hz')} at {format_si(oa.vout_peak, 'V')} peak is below "
-                       f"{edge} = {format_si(need, 'Hz')}.")
+            edge = (
+                "f0"
+                if topo.response_type != "highpass"
+                else "10 x f0 (a high-pass passes everything above f0)"
+            )
+            out.append(
+                f"Stage {i + 1}: slew-rate limit: full-power bandwidth SR/(2 pi Vp) = "
+                f"{format_si(fp, 'Hz')} at {format_si(oa.vout_peak, 'V')} peak is below "
+                f"{edge} = {format_si(need, 'Hz')}."
+            )
     return out

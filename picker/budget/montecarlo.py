@@ -30,35 +30,48 @@ HIST_BINS = 30
 
 @dataclass(frozen=True)
 class Histogram:
-    quantity: str                    # what was counted, in words
-    edges: tuple[float, ...]         # Hz, HIST_BINS + 1 edges
+    quantity: str  # what was counted, in words
+    edges: tuple[float, ...]  # Hz, HIST_BINS + 1 edges
     counts: tuple[int, ...]
-    nominal: float                   # Hz, the same quantity for the nominal parts
-    target: float                    # Hz, the same quantity for the stage targets
-    outside: int                     # trials with no such frequency on the search grid
+    nominal: float  # Hz, the same quantity for the nominal parts
+    target: float  # Hz, the same quantity for the stage targets
+    outside: int  # trials with no such frequency on the search grid
 
     def to_json(self) -> dict:
         def num(x):
             return float(x) if np.isfinite(x) else None
-        return {"quantity": self.quantity, "unit": "Hz", "edges": list(self.edges),
-                "counts": list(self.counts), "nominal": num(self.nominal),
-                "target": num(self.target), "outside": self.outside}
+
+        return {
+            "quantity": self.quantity,
+            "unit": "Hz",
+            "edges": list(self.edges),
+            "counts": list(self.counts),
+            "nominal": num(self.nominal),
+            "target": num(self.target),
+            "outside": self.outside,
+        }
 
 
 @dataclass(frozen=True)
 class MonteCarloResult:
     trials: int
-    yield_: float                    # fraction of trials with every stage inside the window
-    std_error: float                 # binomial standard error sqrt(p (1 - p) / N)
+    yield_: float  # fraction of trials with every stage inside the window
+    std_error: float  # binomial standard error sqrt(p (1 - p) / N)
     distribution: str
-    window: tuple[tuple[str, float], ...]          # (("f0", rel), ("q", rel), ("gain", rel))
-    stage_yield: tuple[float, ...]   # per stage, fraction inside the window on its own
+    window: tuple[tuple[str, float], ...]  # (("f0", rel), ("q", rel), ("gain", rel))
+    stage_yield: tuple[float, ...]  # per stage, fraction inside the window on its own
     histogram: Histogram
 
     def to_json(self) -> dict:
-        return {"trials": self.trials, "yield": self.yield_, "std_error": self.std_error,
-                "distribution": self.distribution, "window": dict(self.window),
-                "stage_yield": list(self.stage_yield), "histogram": self.histogram.to_json()}
+        return {
+            "trials": self.trials,
+            "yield": self.yield_,
+            "std_error": self.std_error,
+            "distribution": self.distribution,
+            "window": dict(self.window),
+            "stage_yield": list(self.stage_yield),
+            "histogram": self.histogram.to_json(),
+        }
 
 
 def draw(rng: np.random.Generator, sp: StagePieces, trials: int, distribution: str):
@@ -80,8 +93,9 @@ def inside(y: np.ndarray, target: float | None, window: float) -> np.ndarray | b
     return np.abs(y / target - 1.0) <= window
 
 
-def monte_carlo(stages, *, trials: int, distribution: str, window: dict[str, float],
-                seed: int = 0) -> MonteCarloResult:
+def monte_carlo(
+    stages, *, trials: int, distribution: str, window: dict[str, float], seed: int = 0
+) -> MonteCarloResult:
     """Yield and histogram for ``stages``: a list of ``(topology, StagePieces, StageChoice)``."""
     rng = np.random.default_rng(seed)
     good = np.ones(trials, dtype=bool)
@@ -89,17 +103,25 @@ def monte_carlo(stages, *, trials: int, distribution: str, window: dict[str, flo
     for topology, sp, choice in stages:
         f0, q, gain = evaluate(topology, sp.positions(draw(rng, sp, trials, distribution)))
         t = choice.target
-        ok = (inside(f0, t.f0_hz, window["f0"]) & inside(q, t.q, window["q"])
-              & inside(gain, t.gain, window["gain"]))
+        ok = (
+            inside(f0, t.f0_hz, window["f0"])
+            & inside(q, t.q, window["q"])
+            & inside(gain, t.gain, window["gain"])
+        )
         ok = np.broadcast_to(ok, (trials,))
         per_stage.append(float(ok.mean()))
         good &= ok
         samples.append((topology, f0, q, gain))
     p = float(good.mean())
     return MonteCarloResult(
-        trials=trials, yield_=p, std_error=float(np.sqrt(p * (1.0 - p) / trials)),
-        distribution=distribution, window=tuple((k, float(window[k])) for k in ("f0", "q", "gain")),
-        stage_yield=tuple(per_stage), histogram=_histogram(stages, samples))
+        trials=trials,
+        yield_=p,
+        std_error=float(np.sqrt(p * (1.0 - p) / trials)),
+        distribution=distribution,
+        window=tuple((k, float(window[k])) for k in ("f0", "q", "gain")),
+        stage_yield=tuple(per_stage),
+        histogram=_histogram(stages, samples),
+    )
 
 
 def _nominal_chars(stages, which: str):
@@ -130,7 +152,8 @@ def _histogram(stages, samples) -> Histogram:
         nominal, target = float(nominal_v[0]), float(target_v[0])
         around = (float(lo[0]), float(hi[0]))
         values, *_ = cascade_frequency(
-            samples, around=around if np.isfinite(around).all() else None)
+            samples, around=around if np.isfinite(around).all() else None
+        )
         outside = int(np.count_nonzero(~np.isfinite(values)))
         values = values[np.isfinite(values)]
     if values.size == 0:
@@ -139,5 +162,11 @@ def _histogram(stages, samples) -> Histogram:
     if hi - lo <= 1e-9 * hi:
         lo, hi = lo * (1 - 1e-6), hi * (1 + 1e-6)
     counts, edges = np.histogram(values, bins=HIST_BINS, range=(lo, hi))
-    return Histogram(quantity, tuple(float(e) for e in edges), tuple(int(c) for c in counts),
-                     nominal, target, outside)
+    return Histogram(
+        quantity,
+        tuple(float(e) for e in edges),
+        tuple(int(c) for c in counts),
+        nominal,
+        target,
+        outside,
+    )

@@ -37,13 +37,13 @@ ZIN_POINTS = 61
 class OpampResult:
     name: str
     gbw_hz: float
-    ideal: tuple[float, float | None, float]        # (f0_hz, q, gain), ideal op amp
-    real: tuple[float, float | None, float]         # the same with the finite GBW
-    shift: tuple[float, float | None, float]        # relative: real / ideal - 1
-    gbw_needed_hz: float                            # rule [3]
-    slew: float | None                              # V/s
-    vout_peak: float | None                         # V
-    full_power_hz: float | None                     # rule [2], None without slew or vout_peak
+    ideal: tuple[float, float | None, float]  # (f0_hz, q, gain), ideal op amp
+    real: tuple[float, float | None, float]  # the same with the finite GBW
+    shift: tuple[float, float | None, float]  # relative: real / ideal - 1
+    gbw_needed_hz: float  # rule [3]
+    slew: float | None  # V/s
+    vout_peak: float | None  # V
+    full_power_hz: float | None  # rule [2], None without slew or vout_peak
 
 
 def _section_shape(response_type: str, order: int, q: float | None) -> float:
@@ -60,10 +60,11 @@ def effective(topology, values: dict[str, float], f0_hz: float, gbw_hz: float | 
     ideal op amp.
     """
     from picker.analysis import nodal_response, poles
+
     elements = topology.netlist(values)
     lam = np.asarray(poles(elements, gbw_hz=gbw_hz), dtype=complex)
     w0 = 2.0 * np.pi * f0_hz
-    near = lam[np.argsort(np.abs(np.log(np.abs(lam) / w0)))][:topology.order]
+    near = lam[np.argsort(np.abs(np.log(np.abs(lam) / w0)))][: topology.order]
     if topology.order == 1:
         f0, q = float(-near[0].real) / (2.0 * np.pi), None
     else:
@@ -76,6 +77,7 @@ def effective(topology, values: dict[str, float], f0_hz: float, gbw_hz: float | 
 
 def _response(elements, freqs, gbw_hz):
     from picker.analysis import nodal_response
+
     return nodal_response(elements, freqs, gbw_hz=gbw_hz)
 
 
@@ -90,13 +92,23 @@ def opamp_effects(topology, values, nominal, opamp, *, vout_peak=None) -> OpampR
     f0, q, gain = nominal
     ideal = effective(topology, values, f0, None)
     real = effective(topology, values, f0, float(opamp.gbw))
-    shift = tuple(None if (a is None or b is None) else b / a - 1.0 for a, b in zip(ideal, real))
+    shift = tuple(
+        None if (a is None or b is None) else b / a - 1.0 for a, b in zip(ideal, real, strict=False)
+    )
     fp = None
     if opamp.slew is not None and vout_peak is not None and vout_peak > 0:
         fp = float(opamp.slew) / (2.0 * np.pi * float(vout_peak))
-    return OpampResult(name=opamp.name, gbw_hz=float(opamp.gbw), ideal=ideal, real=real,
-                       shift=shift, gbw_needed_hz=gbw_needed(topology, f0, q, gain),
-                       slew=opamp.slew, vout_peak=vout_peak, full_power_hz=fp)
+    return OpampResult(
+        name=opamp.name,
+        gbw_hz=float(opamp.gbw),
+        ideal=ideal,
+        real=real,
+        shift=shift,
+        gbw_needed_hz=gbw_needed(topology, f0, q, gain),
+        slew=opamp.slew,
+        vout_peak=vout_peak,
+        full_power_hz=fp,
+    )
 
 
 def input_impedance(topology, values, f0_hz: float, gbw_hz: float | None = None):
@@ -107,11 +119,13 @@ def input_impedance(topology, values, f0_hz: float, gbw_hz: float | None = None)
     Z_in = Rs H' / (H - H'). Rs is the geometric mean of the stage's resistors.
     """
     from picker.filters.base import Element
+
     elements = topology.netlist(values)
     res = [e.value for e in elements if e.kind == "R"] or [1e4]
     rs = float(np.exp(np.mean(np.log(res))))
-    moved = [replace(e, nodes=tuple("zin_sense" if n == "in" else n for n in e.nodes))
-             for e in elements]
+    moved = [
+        replace(e, nodes=tuple("zin_sense" if n == "in" else n for n in e.nodes)) for e in elements
+    ]
     moved.append(Element("R", "Rsense", ("in", "zin_sense"), rs))
     freqs = np.geomspace(f0_hz * ZIN_SPAN[0], f0_hz * ZIN_SPAN[1], ZIN_POINTS)
     h = _response(elements, freqs, gbw_hz)

@@ -21,8 +21,8 @@ class Slot:
     """One position of a stage: its name, the combining rule and its piece columns."""
 
     name: str
-    kind: str            # "resistor" | "capacitor"
-    arrangement: str     # "single" | "series" | "parallel"
+    kind: str  # "resistor" | "capacitor"
+    arrangement: str  # "single" | "series" | "parallel"
     columns: tuple[int, ...]
 
 
@@ -32,7 +32,7 @@ class StagePieces:
 
     slots: tuple[Slot, ...]
     pieces: tuple[Piece, ...]
-    labels: tuple[str, ...]   # "R1", or "R1a"/"R1b" for the two pieces of a pair
+    labels: tuple[str, ...]  # "R1", or "R1a"/"R1b" for the two pieces of a pair
 
     @property
     def nominal(self) -> np.ndarray:
@@ -68,8 +68,10 @@ def stage_pieces(stage: StageChoice) -> StagePieces:
             raise DesignError(f"position {name}: unknown arrangement {arr.arrangement!r}")
         want = 1 if arr.arrangement == "single" else 2
         if len(arr.parts) != want:
-            raise DesignError(f"position {name}: a {arr.arrangement} arrangement needs {want} "
-                              f"piece(s), got {len(arr.parts)}")
+            raise DesignError(
+                f"position {name}: a {arr.arrangement} arrangement needs {want} "
+                f"piece(s), got {len(arr.parts)}"
+            )
         cols = []
         for j, piece in enumerate(arr.parts):
             cols.append(len(pieces))
@@ -82,6 +84,7 @@ def stage_pieces(stage: StageChoice) -> StagePieces:
 def topology_of(key: str):
     """The registered topology for ``key`` (DesignError naming the known keys otherwise)."""
     from picker.filters import get_topology
+
     return get_topology(key)
 
 

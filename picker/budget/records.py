@@ -26,17 +26,17 @@ def _rng(r):
 
 @dataclass(frozen=True)
 class StageBudget:
-    index: int                           # 0-based position in the cascade
+    index: int  # 0-based position in the cascade
     topology: str
     response_type: str
     order: int
     target: StageTarget
     achieved: StageTarget
-    value_error: tuple[float, float | None, float | None]   # relative (f0, q, gain)
+    value_error: tuple[float, float | None, float | None]  # relative (f0, q, gain)
     tolerance: ToleranceResult
     temperature: TemperatureResult
     opamp: OpampResult | None
-    input_impedance: tuple[float, float] | None             # (lowest ohm, at Hz), stage 1
+    input_impedance: tuple[float, float] | None  # (lowest ohm, at Hz), stage 1
 
 
 @dataclass(frozen=True)
@@ -59,30 +59,64 @@ class Budget:
         """
         s = self.stages[i]
         t, tp = s.tolerance, s.temperature
-        tol = {"f0": _rng(t.f0), "gain": _rng(t.gain), "q": _rng(t.q),
-               "corners": t.corners, "exhaustive": t.exhaustive, "method": t.method}
-        temp = {"span_c": [_num(tp.span_c[0]), _num(tp.span_c[1])], "reference_c": 25.0,
-                "f0": _rng(tp.f0), "gain": _rng(tp.gain), "q": _rng(tp.q),
-                "parts": {d.label: {"change": [_num(d.lo), _num(d.hi)], "figure": d.figure,
-                                    "assumed": d.assumed} for d in tp.pieces}}
+        tol = {
+            "f0": _rng(t.f0),
+            "gain": _rng(t.gain),
+            "q": _rng(t.q),
+            "corners": t.corners,
+            "exhaustive": t.exhaustive,
+            "method": t.method,
+        }
+        temp = {
+            "span_c": [_num(tp.span_c[0]), _num(tp.span_c[1])],
+            "reference_c": 25.0,
+            "f0": _rng(tp.f0),
+            "gain": _rng(tp.gain),
+            "q": _rng(tp.q),
+            "parts": {
+                d.label: {
+                    "change": [_num(d.lo), _num(d.hi)],
+                    "figure": d.figure,
+                    "assumed": d.assumed,
+                }
+                for d in tp.pieces
+            },
+        }
         if s.opamp is None:
             oa = {"model": "ideal", "note": "no op amp chosen: finite-GBW effects not computed"}
         else:
             o = s.opamp
-            oa = {"model": "single-pole", "name": o.name, "gbw_hz": _num(o.gbw_hz),
-                  "ideal": dict(zip(("f0", "q", "gain"), map(_num, o.ideal))),
-                  "with_gbw": dict(zip(("f0", "q", "gain"), map(_num, o.real))),
-                  "shift": dict(zip(("f0", "q", "gain"), map(_num, o.shift))),
-                  "gbw_needed_hz": _num(o.gbw_needed_hz), "slew_v_per_s": _num(o.slew),
-                  "vout_peak": _num(o.vout_peak), "full_power_hz": _num(o.full_power_hz)}
-        out = {"tolerance": tol, "temperature": temp, "opamp": oa,
-               "value_error": {"f0": _num(s.value_error[0]), "q": _num(s.value_error[1]),
-                               "gain": _num(s.value_error[2])},
-               "sensitivity": {name: {"f0": _num(a), "q": _num(b), "gain": _num(c)}
-                               for name, a, b, c in t.sensitivities}}
+            oa = {
+                "model": "single-pole",
+                "name": o.name,
+                "gbw_hz": _num(o.gbw_hz),
+                "ideal": dict(zip(("f0", "q", "gain"), map(_num, o.ideal), strict=False)),
+                "with_gbw": dict(zip(("f0", "q", "gain"), map(_num, o.real), strict=False)),
+                "shift": dict(zip(("f0", "q", "gain"), map(_num, o.shift), strict=False)),
+                "gbw_needed_hz": _num(o.gbw_needed_hz),
+                "slew_v_per_s": _num(o.slew),
+                "vout_peak": _num(o.vout_peak),
+                "full_power_hz": _num(o.full_power_hz),
+            }
+        out = {
+            "tolerance": tol,
+            "temperature": temp,
+            "opamp": oa,
+            "value_error": {
+                "f0": _num(s.value_error[0]),
+                "q": _num(s.value_error[1]),
+                "gain": _num(s.value_error[2]),
+            },
+            "sensitivity": {
+                name: {"f0": _num(a), "q": _num(b), "gain": _num(c)}
+                for name, a, b, c in t.sensitivities
+            },
+        }
         if s.input_impedance is not None:
-            out["input_impedance"] = {"lowest_ohm": _num(s.input_impedance[0]),
-                                      "at_hz": _num(s.input_impedance[1])}
+            out["input_impedance"] = {
+                "lowest_ohm": _num(s.input_impedance[0]),
+                "at_hz": _num(s.input_impedance[1]),
+            }
         return out
 
     def candidate_json(self) -> dict:
@@ -90,5 +124,8 @@ class Budget:
         return {"monte_carlo": self.monte_carlo.to_json()}
 
     def to_json(self) -> dict:
-        return {"stages": [self.stage_json(i) for i in range(len(self.stages))],
-                **self.candidate_json(), "warnings": list(self.warnings)}
+        return {
+            "stages": [self.stage_json(i) for i in range(len(self.stages))],
+            **self.candidate_json(),
+            "warnings": list(self.warnings),
+        }

@@ -40,7 +40,7 @@ from picker.budget.pieces import StagePieces
 from picker.budget.tolerance import box_extremes
 
 T_REF_C = 25.0
-ASSUMED_RESISTOR_TEMPCO = 100e-6    # per K; common practice for general-purpose film resistors
+ASSUMED_RESISTOR_TEMPCO = 100e-6  # per K; common practice for general-purpose film resistors
 
 # dielectric -> (model, lo, hi, rated_lo_c, rated_hi_c, words, assumed)
 DIELECTRIC_FIGURES = {
@@ -49,31 +49,80 @@ DIELECTRIC_FIGURES = {
     "X7R": ("class", -0.15, 0.15, -55.0, 125.0, "+/-15 % over -55..125 C (EIA-198 X7R)", False),
     "X5R": ("class", -0.15, 0.15, -55.0, 85.0, "+/-15 % over -55..85 C (EIA-198 X5R)", False),
     "Y5V": ("class", -0.82, 0.22, -30.0, 85.0, "+22/-82 % over -30..85 C (EIA-198 Y5V)", False),
-    "polyester": ("linear", 400e-6, 400e-6, -55.0, 125.0,
-                  "about +400 ppm/K (typical, common practice)", False),
-    "polypropylene": ("linear", -200e-6, -200e-6, -55.0, 105.0,
-                      "about -200 ppm/K (typical, common practice)", False),
-    "film": ("linear", -400e-6, 400e-6, -55.0, 105.0,
-             "+/-400 ppm/K assumed (film type not given; as polyester, sign unknown)", True),
-    "mica": ("linear", -50e-6, 50e-6, -55.0, 125.0, "+/-50 ppm/K (typical, common practice)",
-             False),
-    "electrolytic": ("class", -0.20, 0.20, -40.0, 105.0,
-                     "about +/-20 % over -40..105 C (wide; from memory)", False),
-    "tantalum": ("class", -0.10, 0.10, -55.0, 125.0, "about +/-10 % over -55..125 C (from memory)",
-                 False),
-    None: ("class", -0.15, 0.15, -55.0, 125.0,
-           "+/-15 % assumed (dielectric not given; treated as a class-2 ceramic)", True),
+    "polyester": (
+        "linear",
+        400e-6,
+        400e-6,
+        -55.0,
+        125.0,
+        "about +400 ppm/K (typical, common practice)",
+        False,
+    ),
+    "polypropylene": (
+        "linear",
+        -200e-6,
+        -200e-6,
+        -55.0,
+        105.0,
+        "about -200 ppm/K (typical, common practice)",
+        False,
+    ),
+    "film": (
+        "linear",
+        -400e-6,
+        400e-6,
+        -55.0,
+        105.0,
+        "+/-400 ppm/K assumed (film type not given; as polyester, sign unknown)",
+        True,
+    ),
+    "mica": (
+        "linear",
+        -50e-6,
+        50e-6,
+        -55.0,
+        125.0,
+        "+/-50 ppm/K (typical, common practice)",
+        False,
+    ),
+    "electrolytic": (
+        "class",
+        -0.20,
+        0.20,
+        -40.0,
+        105.0,
+        "about +/-20 % over -40..105 C (wide; from memory)",
+        False,
+    ),
+    "tantalum": (
+        "class",
+        -0.10,
+        0.10,
+        -55.0,
+        125.0,
+        "about +/-10 % over -55..125 C (from memory)",
+        False,
+    ),
+    None: (
+        "class",
+        -0.15,
+        0.15,
+        -55.0,
+        125.0,
+        "+/-15 % assumed (dielectric not given; treated as a class-2 ceramic)",
+        True,
+    ),
 }
 
 
 @dataclass(frozen=True)
 class PieceDrift:
-    label: str                  # "R1", "C2a" ...
-    lo: float                   # relative change, fraction, lowest over the span
+    label: str  # "R1", "C2a" ...
+    lo: float  # relative change, fraction, lowest over the span
     hi: float
-    figure: str                 # the figure used, in words
+    figure: str  # the figure used, in words
     assumed: bool
-    outside_rated: bool         # the span leaves the part's rated temperature range
+    outside_rated: bool  # the span leaves the part's rated temperature range
 
 
 @dataclass(frozen=True)
@@ -100,11 +149,13 @@ def piece_drift(label: str, piece, span_c: tuple[float, float]) -> PieceDrift:
         assumed = line.tempco is None
         tc = ASSUMED_RESISTOR_TEMPCO if assumed else abs(float(line.tempco))
         lo, hi = linear_band(-tc, tc, span_c)
-        words = (f"+/-{tc * 1e6:.0f} ppm/K" + (" assumed (common practice; the stock line "
-                                                "gives none)" if assumed else " (stock line)"))
+        words = f"+/-{tc * 1e6:.0f} ppm/K" + (
+            " assumed (common practice; the stock line gives none)" if assumed else " (stock line)"
+        )
         return PieceDrift(label, lo, hi, words, assumed, span_c[0] < -55.0 or span_c[1] > 155.0)
     model, a, b, r_lo, r_hi, words, assumed = DIELECTRIC_FIGURES.get(
-        line.dielectric, DIELECTRIC_FIGURES[None])
+        line.dielectric, DIELECTRIC_FIGURES[None]
+    )
     if model == "linear":
         lo, hi = linear_band(a, b, span_c)
     elif span_c[0] == span_c[1] == T_REF_C:
@@ -114,13 +165,17 @@ def piece_drift(label: str, piece, span_c: tuple[float, float]) -> PieceDrift:
     return PieceDrift(label, lo, hi, words, assumed, span_c[0] < r_lo or span_c[1] > r_hi)
 
 
-def temperature(topology, sp: StagePieces, span_c: tuple[float, float], *,
-                sets_gain: bool) -> TemperatureResult:
+def temperature(
+    topology, sp: StagePieces, span_c: tuple[float, float], *, sets_gain: bool
+) -> TemperatureResult:
     """f0 (Hz), Q and gain ranges of one stage, nominal parts drifting over ``span_c``."""
-    drifts = tuple(piece_drift(lbl, p, span_c) for lbl, p in zip(sp.labels, sp.pieces))
+    drifts = tuple(
+        piece_drift(lbl, p, span_c) for lbl, p in zip(sp.labels, sp.pieces, strict=False)
+    )
     nom = sp.nominal
     lo = nom * (1.0 + np.array([d.lo for d in drifts]))
     hi = nom * (1.0 + np.array([d.hi for d in drifts]))
     f0, q, gain, *_ = box_extremes(topology, sp, lo, hi)
-    return TemperatureResult(span_c=span_c, f0=f0, q=q, gain=gain if sets_gain else None,
-                             pieces=drifts)
+    return TemperatureResult(
+        span_c=span_c, f0=f0, q=q, gain=gain if sets_gain else None, pieces=drifts
+    )

@@ -13,7 +13,7 @@ import numpy as np
 
 from picker.budget.pieces import StagePieces, evaluate
 
-MAX_CORNER_PIECES = 16        # 2**16 = 65,536 corners: still one small array
+MAX_CORNER_PIECES = 16  # 2**16 = 65,536 corners: still one small array
 GRID_LEVELS_MAX_POINTS = 60_000
 BOX_SAMPLE_POINTS = 20_000
 
@@ -25,16 +25,16 @@ class ToleranceResult:
     f0: tuple[float, float]
     q: tuple[float, float] | None
     gain: tuple[float, float] | None
-    corners: int                     # corners evaluated
-    exhaustive: bool                 # True when every corner was evaluated
-    method: str                      # how the ranges were found, in words
+    corners: int  # corners evaluated
+    exhaustive: bool  # True when every corner was evaluated
+    method: str  # how the ranges were found, in words
     # (position, S_f0, S_q or None, S_gain), each d ln y / d ln x
     sensitivities: tuple[tuple[str, float, float | None, float], ...]
 
 
 def corner_matrix(n: int) -> np.ndarray:
     """All 2**n sign patterns as a ``(2**n, n)`` array of -1.0/+1.0 (row k = bits of k)."""
-    k = np.arange(2 ** n, dtype=np.int64)[:, None]
+    k = np.arange(2**n, dtype=np.int64)[:, None]
     bits = (k >> np.arange(n, dtype=np.int64)) & 1
     return bits * 2.0 - 1.0
 
@@ -49,8 +49,9 @@ def _grid3(n: int) -> np.ndarray:
     return levels
 
 
-def _sweep(topology, sp, lo, hi, pts, q_pts, sense: float, *, starts=4, levels=33,
-           passes=3) -> float:
+def _sweep(
+    topology, sp, lo, hi, pts, q_pts, sense: float, *, starts=4, levels=33, passes=3
+) -> float:
     """Best Q (sense +1: largest, -1: smallest) found by coordinate sweeps inside the box.
 
     From the ``starts`` best points of ``pts``, each piece in turn is swept over
@@ -60,12 +61,12 @@ def _sweep(topology, sp, lo, hi, pts, q_pts, sense: float, *, starts=4, levels=3
     of a Sallen-Key stage at equal resistors.
     """
     order = np.argsort(sense * q_pts)[::-1][:starts]
-    cur = pts[order].copy()                      # (starts, n) in [-1, 1]
+    cur = pts[order].copy()  # (starts, n) in [-1, 1]
     grid = np.linspace(-1.0, 1.0, levels)
     best = sense * q_pts[order]
     for _ in range(passes):
         for j in range(cur.shape[1]):
-            trial = np.repeat(cur[:, None, :], levels, axis=1)      # (starts, levels, n)
+            trial = np.repeat(cur[:, None, :], levels, axis=1)  # (starts, levels, n)
             trial[:, :, j] = grid[None, :]
             _, qv, _ = evaluate(topology, sp.positions(box_values(lo, hi, trial)))
             k = np.argmax(sense * qv, axis=1)
@@ -76,8 +77,15 @@ def _sweep(topology, sp, lo, hi, pts, q_pts, sense: float, *, starts=4, levels=3
     return float(sense * best.max())
 
 
-def box_extremes(topology, sp: StagePieces, lo: np.ndarray, hi: np.ndarray, *, seed: int = 0,
-                 widen_q: bool = True):
+def box_extremes(
+    topology,
+    sp: StagePieces,
+    lo: np.ndarray,
+    hi: np.ndarray,
+    *,
+    seed: int = 0,
+    widen_q: bool = True,
+):
     """Extremes of (f0, q, gain) over the box of piece values ``lo..hi``.
 
     f0 and gain come from the corners (every corner when there are at most
@@ -95,12 +103,14 @@ def box_extremes(topology, sp: StagePieces, lo: np.ndarray, hi: np.ndarray, *, s
     if n <= MAX_CORNER_PIECES:
         signs = corner_matrix(n)
         exhaustive = True
-        method = f"all {2 ** n} corners of {n} pieces"
+        method = f"all {2**n} corners of {n} pieces"
     else:
-        signs = rng.choice([-1.0, 1.0], size=(2 ** MAX_CORNER_PIECES, n))
+        signs = rng.choice([-1.0, 1.0], size=(2**MAX_CORNER_PIECES, n))
         exhaustive = False
-        method = (f"{n} pieces are too many for every corner: {2 ** MAX_CORNER_PIECES} "
-                  f"seeded random corners")
+        method = (
+            f"{n} pieces are too many for every corner: {2**MAX_CORNER_PIECES} "
+            f"seeded random corners"
+        )
     f0, q, gain = evaluate(topology, sp.positions(box_values(lo, hi, signs)))
     f0_r = (float(f0.min()), float(f0.max()))
     gain_r = (float(gain.min()), float(gain.max()))
@@ -108,9 +118,9 @@ def box_extremes(topology, sp: StagePieces, lo: np.ndarray, hi: np.ndarray, *, s
     if q is not None:
         q_lo, q_hi = float(q.min()), float(q.max())
         if widen_q:
-            if 3 ** n <= GRID_LEVELS_MAX_POINTS:
+            if 3**n <= GRID_LEVELS_MAX_POINTS:
                 inner = _grid3(n)
-                how = f"a {3 ** n}-point 3-level grid"
+                how = f"a {3**n}-point 3-level grid"
             else:
                 inner = rng.uniform(-1.0, 1.0, size=(BOX_SAMPLE_POINTS, n))
                 how = f"{BOX_SAMPLE_POINTS} seeded points"
@@ -158,7 +168,14 @@ def tolerance(topology, sp: StagePieces, *, sets_gain: bool, seed: int = 0) -> T
     """Tolerance extremes and sensitivities of one stage (gain range None unless set)."""
     nom, tol = sp.nominal, sp.tolerance
     f0, q, gain, corners, exhaustive, method = box_extremes(
-        topology, sp, nom * (1 - tol), nom * (1 + tol), seed=seed)
-    return ToleranceResult(f0=f0, q=q, gain=gain if sets_gain else None, corners=corners,
-                           exhaustive=exhaustive, method=method,
-                           sensitivities=sensitivities(topology, sp))
+        topology, sp, nom * (1 - tol), nom * (1 + tol), seed=seed
+    )
+    return ToleranceResult(
+        f0=f0,
+        q=q,
+        gain=gain if sets_gain else None,
+        corners=corners,
+        exhaustive=exhaustive,
+        method=method,
+        sensitivities=sensitivities(topology, sp),
+    )

@@ -13,6 +13,7 @@ def bundled_sample_path() -> Path:
     """The sample stock file shipped inside the package (picker/data/sample_inventory.toml)."""
     try:
         from importlib.resources import files
+
         candidate = files("picker") / "data" / "sample_inventory.toml"
         path = Path(str(candidate))
         if path.is_file():
@@ -45,9 +46,16 @@ def resolve_stock_path(arg: str | None) -> tuple[Path, str | None]:
     if local.is_file():
         return local, f"stock file ./{DEFAULT_NAME}"
     sample = bundled_sample_path()
-    return sample, (f"no stock file given (--stock, ${ENV_VAR} or ./{DEFAULT_NAME}): using "
-                    f"the bundled sample {sample}")
+    return sample, (
+        f"no stock file given (--stock, ${ENV_VAR} or ./{DEFAULT_NAME}): using "
+        f"the bundled sample {sample}"
+    )
 
 
-__all__ = ["DEFAULT_NAME", "ENV_VAR", "bundled_sample_path", "is_bundled_sample",
-           "resolve_stock_path"]
+__all__ = [
+    "DEFAULT_NAME",
+    "ENV_VAR",
+    "bundled_sample_path",
+    "is_bundled_sample",
+    "resolve_stock_path",
+]

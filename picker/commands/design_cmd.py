@@ -14,48 +14,82 @@ TYPES = ("lowpass", "highpass", "bandpass")
 
 def register(subparsers) -> None:
     p = subparsers.add_parser(
-        "design", help="design a filter from the parts on hand",
+        "design",
+        help="design a filter from the parts on hand",
         description="Design an active filter from the parts in the stock file: ranked "
-                    "candidates with drawer locations, the parts/precision trade-off and "
-                    "the error budget of the best one.")
+        "candidates with drawer locations, the parts/precision trade-off and "
+        "the error budget of the best one.",
+    )
     p.add_argument("type", choices=TYPES, metavar="TYPE", help="lowpass, highpass or bandpass")
-    p.add_argument("--fc", required=True, metavar="F",
-                   help="corner frequency (band-pass: centre), e.g. 1k, 1kHz, 2.5 MHz")
+    p.add_argument(
+        "--fc",
+        required=True,
+        metavar="F",
+        help="corner frequency (band-pass: centre), e.g. 1k, 1kHz, 2.5 MHz",
+    )
     p.add_argument("--gain", default="1", metavar="G", help="overall gain magnitude (default 1)")
-    p.add_argument("--order", type=int, default=None, metavar="N",
-                   help="filter order 1..8 (default 2)")
-    p.add_argument("--response", default="butterworth",
-                   choices=("butterworth", "bessel", "chebyshev"))
+    p.add_argument(
+        "--order", type=int, default=None, metavar="N", help="filter order 1..8 (default 2)"
+    )
+    p.add_argument(
+        "--response", default="butterworth", choices=("butterworth", "bessel", "chebyshev")
+    )
     p.add_argument("--ripple", default="1", metavar="DB", help="Chebyshev ripple in dB")
-    p.add_argument("--q", default=None, metavar="Q",
-                   help="Q of one second-order stage (band-pass: required)")
-    p.add_argument("--topology", choices=("inverting", "non-inverting", "sallen-key", "mfb"),
-                   default=None, help="circuit family of the stages")
+    p.add_argument(
+        "--q", default=None, metavar="Q", help="Q of one second-order stage (band-pass: required)"
+    )
+    p.add_argument(
+        "--topology",
+        choices=("inverting", "non-inverting", "sallen-key", "mfb"),
+        default=None,
+        help="circuit family of the stages",
+    )
     p.add_argument("--singles", action="store_true", help="one piece per position, no pairs")
-    p.add_argument("--allow-polarized", action="store_true",
-                   help="let polarized capacitors (electrolytic, tantalum) fill positions")
-    for name, default in (("r-min", "1k"), ("r-max", "1M"), ("c-min", "100p"),
-                          ("c-max", "10u")):
-        p.add_argument(f"--{name}", default=default, metavar="V",
-                       help=f"bound on each position's combined value (default {default})")
+    p.add_argument(
+        "--allow-polarized",
+        action="store_true",
+        help="let polarized capacitors (electrolytic, tantalum) fill positions",
+    )
+    for name, default in (("r-min", "1k"), ("r-max", "1M"), ("c-min", "100p"), ("c-max", "10u")):
+        p.add_argument(
+            f"--{name}",
+            default=default,
+            metavar="V",
+            help=f"bound on each position's combined value (default {default})",
+        )
     p.add_argument("--top", type=int, default=5, metavar="N", help="candidates (default 5)")
-    p.add_argument("--window", default="5%", metavar="W",
-                   help="yield window around each target (default 5%%)")
-    p.add_argument("--trials", type=int, default=10000, metavar="N",
-                   help="Monte Carlo trials (default 10000)")
-    p.add_argument("--temp", default="0..70", metavar="LO..HI",
-                   help="temperature span in degrees C (default 0..70)")
+    p.add_argument(
+        "--window", default="5%", metavar="W", help="yield window around each target (default 5%%)"
+    )
+    p.add_argument(
+        "--trials", type=int, default=10000, metavar="N", help="Monte Carlo trials (default 10000)"
+    )
+    p.add_argument(
+        "--temp",
+        default="0..70",
+        metavar="LO..HI",
+        help="temperature span in degrees C (default 0..70)",
+    )
     p.add_argument("--supply", default=None, metavar="V", help="total supply voltage")
     p.add_argument("--vout-peak", default=None, metavar="V", help="peak output voltage")
-    p.add_argument("--distribution", choices=("uniform", "normal"), default="uniform",
-                   help="Monte Carlo spread of each piece (normal: tolerance = 3 sigma)")
+    p.add_argument(
+        "--distribution",
+        choices=("uniform", "normal"),
+        default="uniform",
+        help="Monte Carlo spread of each piece (normal: tolerance = 3 sigma)",
+    )
     p.add_argument("--seed", type=int, default=0, metavar="N", help="Monte Carlo seed")
     p.add_argument("--json", action="store_true", help="print one JSON object")
     p.add_argument("--save", metavar="DESIGN.toml", help="save the chosen candidate")
-    p.add_argument("--pick", type=int, default=1, metavar="N",
-                   help="candidate to save (default 1, the best)")
-    p.add_argument("--stock", metavar="FILE", default=argparse.SUPPRESS,
-                   help="stock file (as the top-level --stock)")
+    p.add_argument(
+        "--pick", type=int, default=1, metavar="N", help="candidate to save (default 1, the best)"
+    )
+    p.add_argument(
+        "--stock",
+        metavar="FILE",
+        default=argparse.SUPPRESS,
+        help="stock file (as the top-level --stock)",
+    )
     p.set_defaults(run=run)
 
 
@@ -87,16 +121,22 @@ def parse_request(args) -> dict:
     from stock.values import parse_frequency, parse_percent, parse_value, parse_voltage
 
     req = {
-        "type": args.type, "response": args.response, "order": args.order,
-        "fc_hz": parse_frequency(args.fc), "gain": _number(args.gain, "--gain"),
+        "type": args.type,
+        "response": args.response,
+        "order": args.order,
+        "fc_hz": parse_frequency(args.fc),
+        "gain": _number(args.gain, "--gain"),
         "ripple_db": _number(args.ripple, "--ripple"),
         "q": None if args.q is None else _number(args.q, "--q"),
-        "topology": args.topology, "singles": args.singles,
+        "topology": args.topology,
+        "singles": args.singles,
         "allow_polarized": args.allow_polarized,
-        "bounds": {"r_min": parse_value(args.r_min, kind="resistor"),
-                   "r_max": parse_value(args.r_max, kind="resistor"),
-                   "c_min": parse_value(args.c_min, kind="capacitor"),
-                   "c_max": parse_value(args.c_max, kind="capacitor")},
+        "bounds": {
+            "r_min": parse_value(args.r_min, kind="resistor"),
+            "r_max": parse_value(args.r_max, kind="resistor"),
+            "c_min": parse_value(args.c_min, kind="capacitor"),
+            "c_max": parse_value(args.c_max, kind="capacitor"),
+        },
         "pick": args.pick,
     }
     b = req["bounds"]
@@ -109,11 +149,15 @@ def parse_request(args) -> dict:
         raise DesignError(f"--pick {args.pick}: choose 1..{args.top} (the --top candidates)")
     if args.trials < 1:
         raise DesignError(f"--trials {args.trials}: give at least 1")
-    req["_budget"] = {"trials": args.trials, "distribution": args.distribution,
-                      "window": parse_percent(args.window), "temp": _temp(args.temp),
-                      "supply": None if args.supply is None else parse_voltage(args.supply),
-                      "vout_peak": None if args.vout_peak is None
-                      else parse_voltage(args.vout_peak), "seed": args.seed}
+    req["_budget"] = {
+        "trials": args.trials,
+        "distribution": args.distribution,
+        "window": parse_percent(args.window),
+        "temp": _temp(args.temp),
+        "supply": None if args.supply is None else parse_voltage(args.supply),
+        "vout_peak": None if args.vout_peak is None else parse_voltage(args.vout_peak),
+        "seed": args.seed,
+    }
     return req
 
 
@@ -145,24 +189,41 @@ def run(args) -> int:
         from pathlib import Path
 
         from picker.export.design_file import check_save_target
+
         check_save_target(Path(args.save), stock)
-    stages = plan_stages(request["type"], response=request["response"],
-                         order=request["order"], fc_hz=request["fc_hz"],
-                         gain=request["gain"], ripple_db=request["ripple_db"],
-                         q=request["q"], family=request["topology"])
-    result = search(stock, stages, singles=request["singles"],
-                    allow_polarized=request["allow_polarized"],
-                    bounds=Bounds(**request["bounds"]), top=args.top, for_people=True)
+    stages = plan_stages(
+        request["type"],
+        response=request["response"],
+        order=request["order"],
+        fc_hz=request["fc_hz"],
+        gain=request["gain"],
+        ripple_db=request["ripple_db"],
+        q=request["q"],
+        family=request["topology"],
+    )
+    result = search(
+        stock,
+        stages,
+        singles=request["singles"],
+        allow_polarized=request["allow_polarized"],
+        bounds=Bounds(**request["bounds"]),
+        top=args.top,
+        for_people=True,
+    )
     opts = request.pop("_budget")
     mod = _budget_module()
-    budgets = [mod.budget(c, **opts) if mod else None for c in result.candidates] \
-        if args.json else [mod.budget(result.candidates[0], **opts) if mod else None]
+    budgets = (
+        [mod.budget(c, **opts) if mod else None for c in result.candidates]
+        if args.json
+        else [mod.budget(result.candidates[0], **opts) if mod else None]
+    )
     if args.save:
         _save(args, result, request, stock)
     if args.json:
         import json
 
         from picker.report.design import design_json
+
         print(json.dumps(design_json(result, budgets), indent=2))
         return 0
     _print_report(result, budgets[0], request, stages)
@@ -178,8 +239,7 @@ def _save(args, result, request, stock) -> None:
         raise DesignError("saving a design is not available yet in this build") from None
     if args.pick > len(result.candidates):
         raise DesignError(f"--pick {args.pick}: only {len(result.candidates)} candidates")
-    save_design(args.save, candidate=result.candidates[args.pick - 1], request=request,
-                stock=stock)
+    save_design(args.save, candidate=result.candidates[args.pick - 1], request=request, stock=stock)
     print(f"picker: saved candidate {args.pick} to {args.save}", file=sys.stderr)
 
 
@@ -192,9 +252,12 @@ def _print_report(result, budget, request, stages) -> None:
     panel, warnings = None, []
     if budget is not None:
         from picker.report.budget_panel import BudgetPanel
+
         panel = BudgetPanel(budget)
     n = len(stages)
-    title = (f"{request['type']} {request['response']}, fc {format_si(request['fc_hz'], 'Hz')}"
-             f", gain {request['gain']:g}, {n} stage{'s' if n > 1 else ''}")
+    title = (
+        f"{request['type']} {request['response']}, fc {format_si(request['fc_hz'], 'Hz')}"
+        f", gain {request['gain']:g}, {n} stage{'s' if n > 1 else ''}"
+    )
     console = Console(width=min(Console().width, 100))
     console.print(DesignReport(result, title=title, budget_panel=panel, warnings=warnings))

@@ -16,56 +16,76 @@ from pathlib import Path
 
 
 def register(subparsers) -> None:
-    p = subparsers.add_parser("bom", help="bill of materials and pick list of a saved design",
-                              description="Bill of materials of a saved design, then the "
-                                          "parts to take drawer by drawer.",
-                              epilog="examples:\n  picker bom d.toml\n"
-                                     "  picker bom d.toml --csv > parts.csv",
-                              formatter_class=argparse.RawDescriptionHelpFormatter)
+    p = subparsers.add_parser(
+        "bom",
+        help="bill of materials and pick list of a saved design",
+        description="Bill of materials of a saved design, then the parts to take drawer by drawer.",
+        epilog="examples:\n  picker bom d.toml\n  picker bom d.toml --csv > parts.csv",
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
     p.add_argument("design", metavar="DESIGN.toml", help="a design saved with picker design --save")
     p.add_argument("--csv", action="store_true", help="print the BOM as CSV (RFC 4180)")
     p.set_defaults(run=run_bom)
 
-    p = subparsers.add_parser("netlist", help="SPICE netlist of a saved design",
-                              description="Print a SPICE netlist that `ngspice -b` runs as "
-                                          "is: AC source on node in, output on node out, "
-                                          "each op amp as a one-pole model with its GBW.",
-                              epilog="examples:\n  picker netlist d.toml > d.cir && ngspice -b "
-                                     "d.cir\n  picker netlist d.toml | ngspice -b",
-                              formatter_class=argparse.RawDescriptionHelpFormatter)
+    p = subparsers.add_parser(
+        "netlist",
+        help="SPICE netlist of a saved design",
+        description="Print a SPICE netlist that `ngspice -b` runs as "
+        "is: AC source on node in, output on node out, "
+        "each op amp as a one-pole model with its GBW.",
+        epilog="examples:\n  picker netlist d.toml > d.cir && ngspice -b "
+        "d.cir\n  picker netlist d.toml | ngspice -b",
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
     p.add_argument("design", metavar="DESIGN.toml", help="a design saved with picker design --save")
     p.set_defaults(run=run_netlist)
 
-    p = subparsers.add_parser("build", help="take a saved design's parts out of the stock file",
-                              description="Take exactly the design's pieces out of the stock "
-                                          "file (undo with `picker undo`). Shows the pick "
-                                          "list and asks first; without a terminal it needs "
-                                          "--yes.",
-                              epilog="examples:\n  picker build d.toml --stock inventory.toml\n"
-                                     "  picker build d.toml --stock inventory.toml --yes",
-                              formatter_class=argparse.RawDescriptionHelpFormatter)
+    p = subparsers.add_parser(
+        "build",
+        help="take a saved design's parts out of the stock file",
+        description="Take exactly the design's pieces out of the stock "
+        "file (undo with `picker undo`). Shows the pick "
+        "list and asks first; without a terminal it needs "
+        "--yes.",
+        epilog="examples:\n  picker build d.toml --stock inventory.toml\n"
+        "  picker build d.toml --stock inventory.toml --yes",
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
     p.add_argument("design", metavar="DESIGN.toml", help="a design saved with picker design --save")
-    p.add_argument("--stock", metavar="FILE", default=argparse.SUPPRESS,
-                   help="stock file to take from (default: the one the design was saved from)")
+    p.add_argument(
+        "--stock",
+        metavar="FILE",
+        default=argparse.SUPPRESS,
+        help="stock file to take from (default: the one the design was saved from)",
+    )
     p.add_argument("--yes", action="store_true", help="do not ask for confirmation")
     p.set_defaults(run=run_build)
 
-    p = subparsers.add_parser("undo", help="undo the last build on a stock file",
-                              description="Put the stock file back byte for byte as it was "
-                                          "before its last build; run it again to undo the "
-                                          "build before that.",
-                              epilog="example:\n  picker undo --stock inventory.toml",
-                              formatter_class=argparse.RawDescriptionHelpFormatter)
-    p.add_argument("--stock", metavar="FILE", default=argparse.SUPPRESS,
-                   help="stock file (default: $PICKER_STOCK, else ./inventory.toml)")
+    p = subparsers.add_parser(
+        "undo",
+        help="undo the last build on a stock file",
+        description="Put the stock file back byte for byte as it was "
+        "before its last build; run it again to undo the "
+        "build before that.",
+        epilog="example:\n  picker undo --stock inventory.toml",
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
+    p.add_argument(
+        "--stock",
+        metavar="FILE",
+        default=argparse.SUPPRESS,
+        help="stock file (default: $PICKER_STOCK, else ./inventory.toml)",
+    )
     p.add_argument("--yes", action="store_true", help="do not ask for confirmation")
     p.set_defaults(run=run_undo)
 
 
 # --------------------------------------------------------------------------- helpers
 
+
 def _console(file=None):
     from rich.console import Console
+
     return Console(file=file or sys.stdout, highlight=False, soft_wrap=False)
 
 
@@ -88,6 +108,7 @@ def _ask(question: str) -> bool:
 def pick_table(groups):
     """A rich table of the pick list: one block per drawer."""
     from rich.table import Table
+
     table = Table(title="Pick list by drawer", title_justify="left", expand=False)
     table.add_column("drawer")
     table.add_column("take", justify="right")
@@ -98,16 +119,28 @@ def pick_table(groups):
             what = r.value if r.kind == "opamp" else f"{r.kind} {r.value} {r.tolerance}".strip()
             if r.measured:
                 what += f" (measured {', '.join(r.measured)})"
-            table.add_row(g.label if i == 0 else "", str(r.count), what, r.positions,
-                          end_section=i == len(g.rows) - 1)
+            table.add_row(
+                g.label if i == 0 else "",
+                str(r.count),
+                what,
+                r.positions,
+                end_section=i == len(g.rows) - 1,
+            )
     return table
 
 
 def bom_table(rows):
     from rich.table import Table
+
     table = Table(title="Bill of materials", title_justify="left", expand=False)
-    for name, justify in (("kind", "left"), ("value", "left"), ("tol.", "right"),
-                          ("location", "left"), ("count", "right"), ("positions", "left")):
+    for name, justify in (
+        ("kind", "left"),
+        ("value", "left"),
+        ("tol.", "right"),
+        ("location", "left"),
+        ("count", "right"),
+        ("positions", "left"),
+    ):
         table.add_column(name, justify=justify)
     for r in rows:
         value = r.value + (f" (measured {', '.join(r.measured)})" if r.measured else "")
@@ -123,14 +156,18 @@ def design_heading(design) -> str:
         what += f", order {req['order']}"
     if "fc_hz" in req:
         from stock.values import format_si
+
         what += f", fc {format_si(float(req['fc_hz']), 'Hz')}"
     stock = f"; stock {design.stock_path}" if design.stock_path else ""
     n = len(design.stages)
-    return (f"{what}: {n} stage{'' if n == 1 else 's'}, {design.pieces} pieces, worst error "
-            f"{design.score * 100:.3g} %{stock}")
+    return (
+        f"{what}: {n} stage{'' if n == 1 else 's'}, {design.pieces} pieces, worst error "
+        f"{design.score * 100:.3g} %{stock}"
+    )
 
 
 # --------------------------------------------------------------------------- commands
+
 
 def run_bom(args) -> int:
     from picker.export import bom_csv, bom_rows, load_design, pick_list
@@ -197,8 +234,10 @@ def _refuse_sample(stock_path) -> None:
     from picker.errors import DesignError
 
     if is_bundled_sample(stock_path):
-        raise DesignError(f"{stock_path} is the bundled sample, which picker does not change; "
-                          "copy it to ./inventory.toml (or your own file) and pass --stock")
+        raise DesignError(
+            f"{stock_path} is the bundled sample, which picker does not change; "
+            "copy it to ./inventory.toml (or your own file) and pass --stock"
+        )
 
 
 def run_undo(args) -> int:
@@ -211,8 +250,10 @@ def run_undo(args) -> int:
         _err(f"note: {note}")
     record = undo_preview(stock_path)
     console = _console()
-    console.print(f"Last build on {stock_path}: number {record.number}, {record.time}"
-                  + (f", design {record.design}" if record.design else ""))
+    console.print(
+        f"Last build on {stock_path}: number {record.number}, {record.time}"
+        + (f", design {record.design}" if record.design else "")
+    )
     for line in record.summary:
         console.print(f"  {line}")
     if not args.yes:

@@ -13,96 +13,146 @@ from __future__ import annotations
 import argparse
 import sys
 
-KIND_ALIASES = {"resistor": "resistor", "resistors": "resistor", "r": "resistor",
-                "capacitor": "capacitor", "capacitors": "capacitor", "c": "capacitor",
-                "opamp": "opamp", "opamps": "opamp", "op-amp": "opamp"}
+KIND_ALIASES = {
+    "resistor": "resistor",
+    "resistors": "resistor",
+    "r": "resistor",
+    "capacitor": "capacitor",
+    "capacitors": "capacitor",
+    "c": "capacitor",
+    "opamp": "opamp",
+    "opamps": "opamp",
+    "op-amp": "opamp",
+}
 
 
 def _kind(text: str) -> str:
     kind = KIND_ALIASES.get(text.strip().lower())
     if kind is None:
-        raise argparse.ArgumentTypeError(f"'{text}' is not a kind; use resistor, capacitor "
-                                         "or opamp")
+        raise argparse.ArgumentTypeError(
+            f"'{text}' is not a kind; use resistor, capacitor or opamp"
+        )
     return kind
 
 
 def register(subparsers) -> None:
-    p = subparsers.add_parser("stock", help="check, list or adjust the stock file",
-                              description="Check, list or adjust the stock file of parts "
-                                          "on hand.")
+    p = subparsers.add_parser(
+        "stock",
+        help="check, list or adjust the stock file",
+        description="Check, list or adjust the stock file of parts on hand.",
+    )
     sub = p.add_subparsers(dest="stock_command", metavar="ACTION", required=True)
 
-    c = sub.add_parser("check", help="validate a stock file",
-                       description="Validate a stock file: exit 0 when it loads (warnings are "
-                                   "printed), 2 with every error, one per line.",
-                       epilog="examples:\n  picker stock check inventory.toml\n"
-                              "  picker stock check          (./inventory.toml or "
-                              "$PICKER_STOCK)",
-                       formatter_class=argparse.RawDescriptionHelpFormatter)
-    c.add_argument("file", nargs="?", metavar="FILE", help="stock file (default: --stock, "
-                   "$PICKER_STOCK, ./inventory.toml, else the bundled sample)")
+    c = sub.add_parser(
+        "check",
+        help="validate a stock file",
+        description="Validate a stock file: exit 0 when it loads (warnings are "
+        "printed), 2 with every error, one per line.",
+        epilog="examples:\n  picker stock check inventory.toml\n"
+        "  picker stock check          (./inventory.toml or "
+        "$PICKER_STOCK)",
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
+    c.add_argument(
+        "file",
+        nargs="?",
+        metavar="FILE",
+        help="stock file (default: --stock, "
+        "$PICKER_STOCK, ./inventory.toml, else the bundled sample)",
+    )
     c.set_defaults(run=run_check)
 
-    ls = sub.add_parser("list", help="show the parts on hand",
-                        description="Show the parts on hand grouped by kind.",
-                        epilog="examples:\n  picker stock list inventory.toml\n"
-                               "  picker stock list --kind capacitor\n"
-                               "  picker stock list --json > stock.json",
-                        formatter_class=argparse.RawDescriptionHelpFormatter)
+    ls = sub.add_parser(
+        "list",
+        help="show the parts on hand",
+        description="Show the parts on hand grouped by kind.",
+        epilog="examples:\n  picker stock list inventory.toml\n"
+        "  picker stock list --kind capacitor\n"
+        "  picker stock list --json > stock.json",
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
     ls.add_argument("file", nargs="?", metavar="FILE", help="stock file (default as for check)")
     ls.add_argument("--kind", type=_kind, metavar="K", help="resistor, capacitor or opamp")
     ls.add_argument("--json", action="store_true", help="print one JSON object")
     ls.set_defaults(run=run_list)
 
-    a = sub.add_parser("adjust", help="change the quantity of one stock line",
-                       description="Change the qty of one line of the stock file in place "
-                                   "(comments and layout are kept).",
-                       epilog="examples:\n"
-                              "  picker stock adjust --stock inventory.toml --kind resistor "
-                              "--value 4k7 --location B1 --by -2\n"
-                              "  picker stock adjust --kind capacitor --value 10n --line 619 "
-                              "--by 5\n"
-                              "  picker stock adjust --kind opamp --value \"dual JFET-input, "
-                              "3 MHz\" --by 1",
-                       formatter_class=argparse.RawDescriptionHelpFormatter)
-    a.add_argument("--stock", metavar="FILE", default=argparse.SUPPRESS,
-                   help="stock file to change (default: $PICKER_STOCK, else ./inventory.toml)")
-    a.add_argument("--kind", type=_kind, required=True, metavar="K",
-                   help="resistor, capacitor or opamp")
-    a.add_argument("--value", required=True, metavar="V",
-                   help="value as in the file (4k7, 10n ...), or the op amp's name")
+    a = sub.add_parser(
+        "adjust",
+        help="change the quantity of one stock line",
+        description="Change the qty of one line of the stock file in place "
+        "(comments and layout are kept).",
+        epilog="examples:\n"
+        "  picker stock adjust --stock inventory.toml --kind resistor "
+        "--value 4k7 --location B1 --by -2\n"
+        "  picker stock adjust --kind capacitor --value 10n --line 619 "
+        "--by 5\n"
+        '  picker stock adjust --kind opamp --value "dual JFET-input, '
+        '3 MHz" --by 1',
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
+    a.add_argument(
+        "--stock",
+        metavar="FILE",
+        default=argparse.SUPPRESS,
+        help="stock file to change (default: $PICKER_STOCK, else ./inventory.toml)",
+    )
+    a.add_argument(
+        "--kind", type=_kind, required=True, metavar="K", help="resistor, capacitor or opamp"
+    )
+    a.add_argument(
+        "--value",
+        required=True,
+        metavar="V",
+        help="value as in the file (4k7, 10n ...), or the op amp's name",
+    )
     a.add_argument("--location", metavar="L", help="drawer, when the value is in several")
-    a.add_argument("--line", type=int, metavar="N",
-                   help="file line of the entry's [[...]] header, when value and drawer "
-                        "are not enough (picker lists the lines that match)")
-    a.add_argument("--by", type=int, required=True, metavar="N",
-                   help="pieces to add (negative to take), e.g. --by -1")
+    a.add_argument(
+        "--line",
+        type=int,
+        metavar="N",
+        help="file line of the entry's [[...]] header, when value and drawer "
+        "are not enough (picker lists the lines that match)",
+    )
+    a.add_argument(
+        "--by",
+        type=int,
+        required=True,
+        metavar="N",
+        help="pieces to add (negative to take), e.g. --by -1",
+    )
     a.set_defaults(run=run_adjust)
 
 
 def _stock_path(args, *, positional: bool = True):
     from picker.commands.common import resolve_stock_path
+
     arg = (getattr(args, "file", None) if positional else None) or getattr(args, "stock", None)
     return resolve_stock_path(arg)
 
 
 def run_check(args) -> int:
     from stock.file import load
+
     path, note = _stock_path(args)
     if note:
         print(f"picker: {note}", file=sys.stderr)
     stock = load(path)
     for w in stock.warnings:
         print(f"warning: {w}")
-    counts = (f"{len(stock.resistors)} resistor, {len(stock.capacitors)} capacitor and "
-              f"{len(stock.opamps)} op amp lines")
-    print(f"{path}: ok, {counts}, {len(stock.warnings)} warning"
-          f"{'' if len(stock.warnings) == 1 else 's'}")
+    counts = (
+        f"{len(stock.resistors)} resistor, {len(stock.capacitors)} capacitor and "
+        f"{len(stock.opamps)} op amp lines"
+    )
+    print(
+        f"{path}: ok, {counts}, {len(stock.warnings)} warning"
+        f"{'' if len(stock.warnings) == 1 else 's'}"
+    )
     return 0
 
 
 def run_list(args) -> int:
     from stock.file import load
+
     path, note = _stock_path(args)
     if note:
         print(f"picker: {note}", file=sys.stderr)
@@ -112,10 +162,12 @@ def run_list(args) -> int:
     kinds = [args.kind] if args.kind else ["resistor", "capacitor", "opamp"]
     if args.json:
         import json
+
         json.dump(stock_json(stock, kinds), sys.stdout, indent=2, ensure_ascii=False)
         print()
         return 0
     from rich.console import Console
+
     console = Console(highlight=False)
     for renderable in stock_tables(stock, kinds):
         console.print(renderable)
@@ -124,21 +176,23 @@ def run_list(args) -> int:
 
 def _describe(item) -> str:
     from stock.values import format_rkm
+
     name = item.name if item.kind == "opamp" else format_rkm(item.value, item.kind)
     where = f"in {item.location}" if item.location else "(no location)"
     return f"{item.kind} {name} {where}"
 
 
-def _matches(stock, kind: str, value_text: str, location: str | None,
-             line: int | None = None):
+def _matches(stock, kind: str, value_text: str, location: str | None, line: int | None = None):
     from stock.errors import ValueParseError
     from stock.values import parse_value
+
     lines = stock.lines(kind)
     if kind == "opamp":
         want = value_text.strip().lower()
         found = [o for o in lines if o.name.strip().lower() == want]
     else:
         from stock.fields import RANGES
+
         try:
             target = parse_value(value_text, kind=kind)
         except ValueParseError as exc:
@@ -146,10 +200,13 @@ def _matches(stock, kind: str, value_text: str, location: str | None,
         lo, hi, span = RANGES[kind]
         if not lo <= target <= hi:
             from stock.values import format_si
+
             unit = "Ω" if kind == "resistor" else "F"
-            raise ValueParseError(f"--value: '{value_text}' is {format_si(target, unit)}, not "
-                                  f"a plausible {kind} ({span})"
-                                  + ("; write 10p, 10n or 10u" if kind == "capacitor" else ""))
+            raise ValueParseError(
+                f"--value: '{value_text}' is {format_si(target, unit)}, not "
+                f"a plausible {kind} ({span})"
+                + ("; write 10p, 10n or 10u" if kind == "capacitor" else "")
+            )
         found = [x for x in lines if abs(x.value - target) <= 1e-9 * abs(target)]
     if location is not None:
         loc = location.strip().lower()
@@ -175,11 +232,14 @@ def run_adjust(args) -> int:
     from picker.commands.common import is_bundled_sample
     from stock.errors import StockEditError
     from stock.file import QtyChange, StockChangedError, apply_changes, load
+
     path, _note = _stock_path(args, positional=False)
     if is_bundled_sample(path):
-        raise StockEditError("adjust changes your own stock file: name it with --stock FILE "
-                             "(or $PICKER_STOCK, or ./inventory.toml); the bundled sample is "
-                             "not changed")
+        raise StockEditError(
+            "adjust changes your own stock file: name it with --stock FILE "
+            "(or $PICKER_STOCK, or ./inventory.toml); the bundled sample is "
+            "not changed"
+        )
     # another writer may change the file between our read and our lock: read again and
     # match again (the sha256 check under the lock makes this safe), a few times
     for attempt in range(ADJUST_ATTEMPTS):
@@ -189,8 +249,9 @@ def run_adjust(args) -> int:
             print(f"{_describe(item)}: qty {item.qty} (unchanged)")
             return 0
         try:
-            apply_changes(path, [QtyChange(args.kind, item.index, args.by)],
-                          expect_sha256=stock.sha256)
+            apply_changes(
+                path, [QtyChange(args.kind, item.index, args.by)], expect_sha256=stock.sha256
+            )
         except StockChangedError:
             if attempt == ADJUST_ATTEMPTS - 1:
                 raise
@@ -205,10 +266,14 @@ ADJUST_ATTEMPTS = 50
 
 def _pick_line(path, stock, args):
     from stock.errors import StockEditError
+
     line = getattr(args, "line", None)
     found = _matches(stock, args.kind, args.value, args.location, line)
-    what = (f"{args.kind} {args.value}" + (f" in {args.location}" if args.location else "")
-            + (f" at line {line}" if line is not None else ""))
+    what = (
+        f"{args.kind} {args.value}"
+        + (f" in {args.location}" if args.location else "")
+        + (f" at line {line}" if line is not None else "")
+    )
     if not found:
         hint = ""
         if args.kind == "opamp" and stock.opamps:
@@ -217,22 +282,28 @@ def _pick_line(path, stock, args):
     if len(found) > 1:
         rows = [f"  line {x.line}: {_describe(x)}{_detail(x)}, qty {x.qty}" for x in found]
         how = "--line" if args.location else "--location (or --line)"
-        raise StockEditError("\n".join([f"{path}: {len(found)} lines match {what}; add "
-                                        f"{how} to say which:"] + rows))
+        raise StockEditError(
+            "\n".join([f"{path}: {len(found)} lines match {what}; add {how} to say which:"] + rows)
+        )
     item = found[0]
     new_qty = item.qty + args.by
     if new_qty < 0:
-        raise StockEditError(f"{path}:{item.line}: {_describe(item)} has qty {item.qty}; "
-                             f"--by {args.by} would go below zero; nothing was changed")
+        raise StockEditError(
+            f"{path}:{item.line}: {_describe(item)} has qty {item.qty}; "
+            f"--by {args.by} would go below zero; nothing was changed"
+        )
     if args.by < 0 and item.kind != "opamp" and new_qty < len(item.measured):
-        raise StockEditError(f"{path}:{item.line}: {_describe(item)} lists "
-                             f"{len(item.measured)} measured pieces; qty {new_qty} would be "
-                             "fewer: remove the readings you took from 'measured' in the file "
-                             "first; nothing was changed")
+        raise StockEditError(
+            f"{path}:{item.line}: {_describe(item)} lists "
+            f"{len(item.measured)} measured pieces; qty {new_qty} would be "
+            "fewer: remove the readings you took from 'measured' in the file "
+            "first; nothing was changed"
+        )
     return item, new_qty
 
 
 # --------------------------------------------------------------------------- views
+
 
 def _pct(x: float) -> str:
     return f"{x * 100:.3g}%"
@@ -240,7 +311,9 @@ def _pct(x: float) -> str:
 
 def _entry_json(item) -> dict:
     from dataclasses import asdict
+
     from stock.values import format_rkm
+
     d = asdict(item)
     d["kind"] = item.kind
     if item.kind != "opamp":
@@ -252,8 +325,12 @@ def _entry_json(item) -> dict:
 
 def stock_json(stock, kinds) -> dict:
     """Plain data for ``--json``: SI floats, fractions for tolerances."""
-    out = {"path": str(stock.path) if stock.path else None, "sha256": stock.sha256,
-           "name": stock.name, "warnings": list(stock.warnings)}
+    out = {
+        "path": str(stock.path) if stock.path else None,
+        "sha256": stock.sha256,
+        "name": stock.name,
+        "warnings": list(stock.warnings),
+    }
     for kind in kinds:
         out[kind + "s"] = [_entry_json(x) for x in stock.lines(kind)]
     return out
@@ -265,6 +342,7 @@ def _tol(item) -> str:
 
 def _measured(item) -> str:
     from stock.values import format_rkm
+
     return " ".join(format_rkm(m, item.kind) for m in item.measured)
 
 
@@ -272,17 +350,28 @@ def stock_tables(stock, kinds) -> list:
     """One rich table per kind, sorted by value; qty 0 lines dimmed as used up."""
     from rich.table import Table
     from rich.text import Text
+
     from stock.values import format_rkm, format_si
+
     out = []
     assumed = False
     title = f"{stock.name}  ({stock.path})" if stock.name else str(stock.path)
     out.append(Text(title, style="bold"))
     for kind in kinds:
-        lines = sorted(stock.lines(kind), key=lambda x: (
-            x.name.lower() if kind == "opamp" else x.value, (x.location or "").lower()))
+        lines = sorted(
+            stock.lines(kind),
+            key=lambda x: (
+                x.name.lower() if kind == "opamp" else x.value,
+                (x.location or "").lower(),
+            ),
+        )
         label = {"resistor": "Resistors", "capacitor": "Capacitors", "opamp": "Op amps"}[kind]
-        table = Table(title=f"{label} ({len(lines)} lines)", title_justify="left",
-                      show_edge=False, pad_edge=False)
+        table = Table(
+            title=f"{label} ({len(lines)} lines)",
+            title_justify="left",
+            show_edge=False,
+            pad_edge=False,
+        )
         if kind == "resistor":
             cols = ["value", "tol", "tempco", "location", "qty", "measured", "note"]
         elif kind == "capacitor":
@@ -290,31 +379,54 @@ def stock_tables(stock, kinds) -> list:
         else:
             cols = ["name", "gbw", "slew", "ch", "supply", "location", "qty"]
         for col in cols:
-            table.add_column(col, justify="right" if col in ("value", "qty", "tol", "volts",
-                                                                 "gbw", "ch") else "left",
-                             overflow="fold")
+            table.add_column(
+                col,
+                justify="right" if col in ("value", "qty", "tol", "volts", "gbw", "ch") else "left",
+                overflow="fold",
+            )
         for x in lines:
             if kind == "resistor":
-                row = [format_rkm(x.value, kind), _tol(x),
-                       f"{x.tempco * 1e6:+.0f}ppm" if x.tempco is not None else "",
-                       x.location or "", str(x.qty), _measured(x), x.note or ""]
+                row = [
+                    format_rkm(x.value, kind),
+                    _tol(x),
+                    f"{x.tempco * 1e6:+.0f}ppm" if x.tempco is not None else "",
+                    x.location or "",
+                    str(x.qty),
+                    _measured(x),
+                    x.note or "",
+                ]
             elif kind == "capacitor":
                 diel = (x.dielectric or "") + (" (polarized)" if x.polarized else "")
-                row = [format_rkm(x.value, kind), diel, _tol(x),
-                       format_si(x.voltage, "V") if x.voltage else "", x.location or "",
-                       str(x.qty), _measured(x)]
+                row = [
+                    format_rkm(x.value, kind),
+                    diel,
+                    _tol(x),
+                    format_si(x.voltage, "V") if x.voltage else "",
+                    x.location or "",
+                    str(x.qty),
+                    _measured(x),
+                ]
             else:
-                row = [x.name, format_si(x.gbw, "Hz"),
-                       f"{x.slew / 1e6:.3g} V/us" if x.slew else "", str(x.channels),
-                       format_si(x.supply, "V") if x.supply else "", x.location or "",
-                       str(x.qty)]
+                row = [
+                    x.name,
+                    format_si(x.gbw, "Hz"),
+                    f"{x.slew / 1e6:.3g} V/us" if x.slew else "",
+                    str(x.channels),
+                    format_si(x.supply, "V") if x.supply else "",
+                    x.location or "",
+                    str(x.qty),
+                ]
             if kind != "opamp" and x.tolerance_assumed:
                 assumed = True
             table.add_row(*row, style="dim" if x.qty == 0 else None)
         out.append(table)
     if assumed:
-        out.append(Text("* tolerance assumed: the file does not give one (5% for resistors, "
-                        "10% for capacitors)"))
+        out.append(
+            Text(
+                "* tolerance assumed: the file does not give one (5% for resistors, "
+                "10% for capacitors)"
+            )
+        )
     if any(x.qty == 0 for k in kinds for x in stock.lines(k)):
         out.append(Text("lines with qty 0 are used up; they are never used in a design"))
     return out

@@ -5,15 +5,35 @@ Shells (CLI, TUI) call these; nothing here draws on a screen.
 
 from picker.export.bom import BomRow, bom_csv, bom_rows, designator, opamp_packages
 from picker.export.design_file import (
-    SavedDesign, SavedOpAmp, SavedPart, SavedPosition, SavedStage, design_from_candidate,
-    load_design, save_design,
+    SavedDesign,
+    SavedOpAmp,
+    SavedPart,
+    SavedPosition,
+    SavedStage,
+    design_from_candidate,
+    load_design,
+    save_design,
 )
 from picker.export.netlist import spice_netlist
 from picker.export.picklist import PickGroup, pick_count, pick_list, pick_list_lines
 
 __all__ = [
-    "BomRow", "PickGroup", "SavedDesign", "SavedOpAmp", "SavedPart", "SavedPosition",
-    "SavedStage", "bom_csv", "bom_rows", "design_from_candidate", "designator", "load_design",
-    "opamp_packages", "pick_count", "pick_list", "pick_list_lines", "save_design",
+    "BomRow",
+    "PickGroup",
+    "SavedDesign",
+    "SavedOpAmp",
+    "SavedPart",
+    "SavedPosition",
+    "SavedStage",
+    "bom_csv",
+    "bom_rows",
+    "design_from_candidate",
+    "designator",
+    "load_design",
+    "opamp_packages",
+    "pick_count",
+    "pick_list",
+    "pick_list_lines",
+    "save_design",
     "spice_netlist",
 ]

@@ -24,15 +24,15 @@ CSV_HEADER = ("kind", "value", "tolerance", "location", "count", "positions", "m
 
 @dataclass(frozen=True)
 class BomRow:
-    kind: str                       # "resistor" | "capacitor" | "opamp"
-    value: str                      # RKM code of the nominal value; the op amp's name
+    kind: str  # "resistor" | "capacitor" | "opamp"
+    value: str  # RKM code of the nominal value; the op amp's name
     location: str | None
-    count: int                      # pieces (op amps: packages) to take
-    positions: str                  # "R1, R3 (stage 1); R2 (stage 2)"
-    tolerance: str = ""             # "1%"; empty for op amps
+    count: int  # pieces (op amps: packages) to take
+    positions: str  # "R1, R3 (stage 1); R2 (stage 2)"
+    tolerance: str = ""  # "1%"; empty for op amps
     measured: tuple[str, ...] = ()  # readings of the measured pieces to take, RKM code
-    index: int = 0                  # the stock line: position among its kind's tables
-    nominal: float = 0.0            # SI value (ohm, farad; the op amp's GBW in hertz)
+    index: int = 0  # the stock line: position among its kind's tables
+    nominal: float = 0.0  # SI value (ohm, farad; the op amp's GBW in hertz)
 
 
 def designator(position_name: str, arrangement: str, k: int) -> str:
@@ -69,8 +69,9 @@ def bom_rows(design: SavedDesign) -> list[BomRow]:
     groups: dict[tuple[str, int, int], dict] = {}
     for s, pos, k, part in design.parts():
         which = -1 if part.measured is None else part.measured
-        g = groups.setdefault((part.kind, part.index, which), {
-            "part": part, "count": 0, "stages": {}, "measured": []})
+        g = groups.setdefault(
+            (part.kind, part.index, which), {"part": part, "count": 0, "stages": {}, "measured": []}
+        )
         g["count"] += 1
         g["stages"].setdefault(s, []).append(designator(pos.name, pos.arrangement, k))
         if part.measured is not None:
@@ -78,21 +79,35 @@ def bom_rows(design: SavedDesign) -> list[BomRow]:
     rows = []
     for (kind, index, _which), g in groups.items():
         part = g["part"]
-        rows.append(BomRow(
-            kind=kind, value=format_rkm(part.nominal, kind), location=part.location,
-            count=g["count"], positions=_join_positions(g["stages"], len(design.stages)),
-            tolerance=_format_tolerance(_line_tolerance(part)),
-            measured=tuple(format_rkm(v, kind) for v in sorted(g["measured"])),
-            index=index, nominal=part.nominal))
-    rows.sort(key=lambda r: (KIND_ORDER[r.kind], r.nominal, r.location or "", r.index,
-                             r.measured))
+        rows.append(
+            BomRow(
+                kind=kind,
+                value=format_rkm(part.nominal, kind),
+                location=part.location,
+                count=g["count"],
+                positions=_join_positions(g["stages"], len(design.stages)),
+                tolerance=_format_tolerance(_line_tolerance(part)),
+                measured=tuple(format_rkm(v, kind) for v in sorted(g["measured"])),
+                index=index,
+                nominal=part.nominal,
+            )
+        )
+    rows.sort(key=lambda r: (KIND_ORDER[r.kind], r.nominal, r.location or "", r.index, r.measured))
     if design.opamp is not None:
         oa = design.opamp
         n = len(design.stages)
         where = "stage 1" if n == 1 else "stages " + ", ".join(str(s) for s in range(1, n + 1))
-        rows.append(BomRow(kind="opamp", value=oa.name, location=oa.location,
-                           count=opamp_packages(design), positions=where,
-                           index=oa.index, nominal=oa.gbw_hz))
+        rows.append(
+            BomRow(
+                kind="opamp",
+                value=oa.name,
+                location=oa.location,
+                count=opamp_packages(design),
+                positions=where,
+                index=oa.index,
+                nominal=oa.gbw_hz,
+            )
+        )
     return rows
 
 
@@ -107,6 +122,15 @@ def bom_csv(design: SavedDesign) -> str:
     writer = csv.writer(out, lineterminator="\r\n")
     writer.writerow(CSV_HEADER)
     for r in bom_rows(design):
-        writer.writerow((r.kind, r.value, r.tolerance, r.location or "", r.count,
-                         r.positions, " ".join(r.measured)))
+        writer.writerow(
+            (
+                r.kind,
+                r.value,
+                r.tolerance,
+                r.location or "",
+                r.count,
+                r.positions,
+                " ".join(r.measured),
+            )
+        )
     return out.getvalue()

@@ -12,7 +12,14 @@ from types import MappingProxyType
 
 from picker.errors import DesignError
 from picker.export.design_file import (
-    ARRANGEMENTS, FORMAT, KINDS, SavedDesign, SavedOpAmp, SavedPart, SavedPosition, SavedStage,
+    ARRANGEMENTS,
+    FORMAT,
+    KINDS,
+    SavedDesign,
+    SavedOpAmp,
+    SavedPart,
+    SavedPosition,
+    SavedStage,
 )
 from picker.parts import StageTarget, combine
 
@@ -22,13 +29,16 @@ def check_document(doc: dict, *, source: str = "<design>", path=None) -> SavedDe
     r = _Reader(source)
     if "candidate" not in doc and "format" not in doc:
         stock_like = any(k in doc for k in ("resistor", "capacitor", "opamp", "stock"))
-        raise DesignError(f"{source}: not a design saved by picker ("
-                          + ("it looks like a stock file; " if stock_like else "")
-                          + "save one with: picker design ... --save DESIGN.toml)")
+        raise DesignError(
+            f"{source}: not a design saved by picker ("
+            + ("it looks like a stock file; " if stock_like else "")
+            + "save one with: picker design ... --save DESIGN.toml)"
+        )
     fmt = r.get(doc, "format", int, "")
     if fmt != FORMAT:
-        raise DesignError(f"{source}: format: this picker reads design format {FORMAT}, "
-                          f"the file says {fmt!r}")
+        raise DesignError(
+            f"{source}: format: this picker reads design format {FORMAT}, the file says {fmt!r}"
+        )
     request = r.get(doc, "request", dict, "", default={})
     stock_t = r.get(doc, "stock", dict, "", default={})
     stock_path = r.get(stock_t, "path", str, "stock.", default=None)
@@ -43,12 +53,12 @@ def check_document(doc: dict, *, source: str = "<design>", path=None) -> SavedDe
     stage_list = r.get(cand, "stage", list, "candidate.")
     if not stage_list:
         raise DesignError(f"{source}: candidate.stage: a design needs at least one stage")
-    stages = tuple(_read_stage(r, st, f"candidate.stage[{i}].")
-                   for i, st in enumerate(stage_list))
+    stages = tuple(_read_stage(r, st, f"candidate.stage[{i}].") for i, st in enumerate(stage_list))
     counted = sum(len(p.parts) for st in stages for p in st.positions)
     if counted != pieces:
-        raise DesignError(f"{source}: candidate.pieces: says {pieces} but the stages hold "
-                          f"{counted} pieces")
+        raise DesignError(
+            f"{source}: candidate.pieces: says {pieces} but the stages hold {counted} pieces"
+        )
     seen: dict[tuple, str] = {}
     for i, st in enumerate(stages):
         for pos in st.positions:
@@ -58,52 +68,71 @@ def check_document(doc: dict, *, source: str = "<design>", path=None) -> SavedDe
                 key = (part.kind, part.index, part.measured)
                 where = f"stage {i + 1} {pos.name}"
                 if key in seen:
-                    raise DesignError(f"{source}: measured piece {part.measured} of "
-                                      f"{part.kind} line {part.index} is used twice "
-                                      f"({seen[key]} and {where})")
+                    raise DesignError(
+                        f"{source}: measured piece {part.measured} of "
+                        f"{part.kind} line {part.index} is used twice "
+                        f"({seen[key]} and {where})"
+                    )
                 seen[key] = where
     return SavedDesign(
-        path=None if path is None else Path(path), request=MappingProxyType(dict(request)),
-        score=score, pieces=pieces, stages=stages, opamp=opamp,
+        path=None if path is None else Path(path),
+        request=MappingProxyType(dict(request)),
+        score=score,
+        pieces=pieces,
+        stages=stages,
+        opamp=opamp,
         warnings=tuple(str(w) for w in warnings),
-        stock_path=None if stock_path is None else Path(stock_path), stock_sha256=stock_sha,
-        saved=r.get(doc, "saved", str, "", default=None), format=fmt)
+        stock_path=None if stock_path is None else Path(stock_path),
+        stock_sha256=stock_sha,
+        saved=r.get(doc, "saved", str, "", default=None),
+        format=fmt,
+    )
 
 
-def _read_opamp(r: "_Reader", t: dict) -> SavedOpAmp:
+def _read_opamp(r: _Reader, t: dict) -> SavedOpAmp:
     pre = "candidate.opamp."
     gbw = r.number(t, "gbw_hz", pre)
     if not gbw > 0:
         raise DesignError(f"{r.source}: {pre}gbw_hz: must be above zero, got {gbw!r}")
-    return SavedOpAmp(index=r.index(t, "index", pre), name=r.get(t, "name", str, pre),
-                      gbw_hz=gbw, line=r.get(t, "line", int, pre, default=0),
-                      channels=max(1, r.get(t, "channels", int, pre, default=1)),
-                      location=r.get(t, "location", str, pre, default=None),
-                      supply=r.number(t, "supply", pre, default=None))
+    return SavedOpAmp(
+        index=r.index(t, "index", pre),
+        name=r.get(t, "name", str, pre),
+        gbw_hz=gbw,
+        line=r.get(t, "line", int, pre, default=0),
+        channels=max(1, r.get(t, "channels", int, pre, default=1)),
+        location=r.get(t, "location", str, pre, default=None),
+        supply=r.number(t, "supply", pre, default=None),
+    )
 
 
-def _read_target(r: "_Reader", t: dict, pre: str) -> StageTarget:
+def _read_target(r: _Reader, t: dict, pre: str) -> StageTarget:
     f0 = r.number(t, "f0_hz", pre)
     if not f0 > 0:
         raise DesignError(f"{r.source}: {pre}f0_hz: must be above zero, got {f0!r}")
-    return StageTarget(f0_hz=f0, q=r.number(t, "q", pre, default=None),
-                       gain=r.number(t, "gain", pre, default=None))
+    return StageTarget(
+        f0_hz=f0, q=r.number(t, "q", pre, default=None), gain=r.number(t, "gain", pre, default=None)
+    )
 
 
-def _check_topology(r: "_Reader", topology: str, names: list[str], pre: str) -> None:
+def _check_topology(r: _Reader, topology: str, names: list[str], pre: str) -> None:
     """The stage's circuit must be one picker knows, with exactly its positions."""
     from picker.filters import REGISTRY
+
     topo = REGISTRY.get(topology)
     if topo is None:
-        raise DesignError(f"{r.source}: {pre}topology: {topology!r} is not a circuit this "
-                          f"picker knows ({', '.join(sorted(REGISTRY))})")
+        raise DesignError(
+            f"{r.source}: {pre}topology: {topology!r} is not a circuit this "
+            f"picker knows ({', '.join(sorted(REGISTRY))})"
+        )
     want = topo.position_names()
     if sorted(names) != sorted(want):
-        raise DesignError(f"{r.source}: {pre}position: {topology} has positions "
-                          f"{', '.join(want)}, the file gives {', '.join(names) or 'none'}")
+        raise DesignError(
+            f"{r.source}: {pre}position: {topology} has positions "
+            f"{', '.join(want)}, the file gives {', '.join(names) or 'none'}"
+        )
 
 
-def _read_stage(r: "_Reader", st, pre: str) -> SavedStage:
+def _read_stage(r: _Reader, st, pre: str) -> SavedStage:
     if not isinstance(st, dict):
         raise DesignError(f"{r.source}: {pre[:-1]}: expected a table")
     topology = r.get(st, "topology", str, pre)
@@ -119,31 +148,36 @@ def _read_stage(r: "_Reader", st, pre: str) -> SavedStage:
     return SavedStage(topology=topology, target=target, achieved=achieved, positions=positions)
 
 
-def _read_position(r: "_Reader", p, pre: str) -> SavedPosition:
+def _read_position(r: _Reader, p, pre: str) -> SavedPosition:
     if not isinstance(p, dict):
         raise DesignError(f"{r.source}: {pre[:-1]}: expected a table")
     name = r.get(p, "name", str, pre)
     arrangement = r.get(p, "arrangement", str, pre)
     if arrangement not in ARRANGEMENTS:
-        raise DesignError(f"{r.source}: {pre}arrangement: {arrangement!r} is not one of "
-                          + ", ".join(ARRANGEMENTS))
+        raise DesignError(
+            f"{r.source}: {pre}arrangement: {arrangement!r} is not one of "
+            + ", ".join(ARRANGEMENTS)
+        )
     plist = r.get(p, "part", list, pre)
     parts = tuple(_read_part(r, x, f"{pre}part[{k}].") for k, x in enumerate(plist))
     want = 1 if arrangement == "single" else 2
     if len(parts) != want:
-        raise DesignError(f"{r.source}: {pre}part: a {arrangement} position holds {want} "
-                          f"piece(s), found {len(parts)}")
+        raise DesignError(
+            f"{r.source}: {pre}part: a {arrangement} position holds {want} "
+            f"piece(s), found {len(parts)}"
+        )
     if len({x.kind for x in parts}) != 1:
         raise DesignError(f"{r.source}: {pre}part: the pieces of one position differ in kind")
     value = r.number(p, "value", pre)
     combined = combine(parts[0].kind, arrangement, [x.value for x in parts])
     if not math.isclose(value, combined, rel_tol=1e-6):
-        raise DesignError(f"{r.source}: {pre}value: {value!r} does not match its pieces "
-                          f"({combined!r})")
+        raise DesignError(
+            f"{r.source}: {pre}value: {value!r} does not match its pieces ({combined!r})"
+        )
     return SavedPosition(name=name, arrangement=arrangement, value=value, parts=parts)
 
 
-def _read_part(r: "_Reader", x, pre: str) -> SavedPart:
+def _read_part(r: _Reader, x, pre: str) -> SavedPart:
     if not isinstance(x, dict):
         raise DesignError(f"{r.source}: {pre[:-1]}: expected a table")
     kind = r.get(x, "kind", str, pre)
@@ -160,19 +194,26 @@ def _read_part(r: "_Reader", x, pre: str) -> SavedPart:
         raise DesignError(f"{r.source}: {pre}tolerance: {tol!r} is not a fraction in [0, 1)")
     line_tol = r.number(x, "line_tolerance", pre, default=None)
     if line_tol is not None and not 0 <= line_tol < 1:
-        raise DesignError(f"{r.source}: {pre}line_tolerance: {line_tol!r} is not a fraction "
-                          "in [0, 1)")
+        raise DesignError(
+            f"{r.source}: {pre}line_tolerance: {line_tol!r} is not a fraction in [0, 1)"
+        )
     measured = x.get("measured")
     if measured is not None:
         measured = r.index(x, "measured", pre)
-    return SavedPart(kind=kind, index=r.index(x, "index", pre),
-                     line=r.get(x, "line", int, pre, default=0),
-                     nominal=values["nominal"], value=values["value"], tolerance=tol,
-                     measured=measured, location=r.get(x, "location", str, pre, default=None),
-                     dielectric=r.get(x, "dielectric", str, pre, default=None),
-                     polarized=r.get(x, "polarized", bool, pre, default=False),
-                     voltage=r.number(x, "voltage", pre, default=None),
-                     line_tolerance=line_tol)
+    return SavedPart(
+        kind=kind,
+        index=r.index(x, "index", pre),
+        line=r.get(x, "line", int, pre, default=0),
+        nominal=values["nominal"],
+        value=values["value"],
+        tolerance=tol,
+        measured=measured,
+        location=r.get(x, "location", str, pre, default=None),
+        dielectric=r.get(x, "dielectric", str, pre, default=None),
+        polarized=r.get(x, "polarized", bool, pre, default=False),
+        voltage=r.number(x, "voltage", pre, default=None),
+        line_tolerance=line_tol,
+    )
 
 
 _MISSING = object()
@@ -192,8 +233,9 @@ class _Reader:
         value = table[key]
         ok = isinstance(value, typ) and not (typ is int and isinstance(value, bool))
         if not ok:
-            raise DesignError(f"{self.source}: {prefix}{key}: expected {_TYPE_WORDS[typ]}, "
-                              f"got {value!r}")
+            raise DesignError(
+                f"{self.source}: {prefix}{key}: expected {_TYPE_WORDS[typ]}, got {value!r}"
+            )
         return value
 
     def number(self, table: dict, key: str, prefix: str, default=_MISSING):
@@ -202,8 +244,11 @@ class _Reader:
                 raise DesignError(f"{self.source}: {prefix}{key}: missing")
             return default
         value = table[key]
-        if isinstance(value, bool) or not isinstance(value, (int, float)) \
-                or not math.isfinite(value):
+        if (
+            isinstance(value, bool)
+            or not isinstance(value, (int, float))
+            or not math.isfinite(value)
+        ):
             raise DesignError(f"{self.source}: {prefix}{key}: expected a number, got {value!r}")
         return float(value)
 
@@ -214,5 +259,11 @@ class _Reader:
         return value
 
 
-_TYPE_WORDS = {int: "a whole number", str: "text", dict: "a table", list: "an array",
-               bool: "true or false", float: "a number"}
+_TYPE_WORDS = {
+    int: "a whole number",
+    str: "text",
+    dict: "a table",
+    list: "an array",
+    bool: "true or false",
+    float: "a number",
+}

@@ -62,21 +62,23 @@ when the design is built, so a reordered stock file is caught (picker.building).
 
 from __future__ import annotations
 
+import contextlib
 import dataclasses
 import math
 import os
 import tempfile
 import time
 import tomllib
+from collections.abc import Mapping
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Any, Mapping
+from typing import Any
 
 import tomli_w
 
-from stock.durable import sync_folder
 from picker.errors import DesignError
 from picker.parts import Candidate, StageTarget
+from stock.durable import sync_folder
 
 FORMAT = 1
 KINDS = ("resistor", "capacitor")
@@ -87,26 +89,26 @@ ARRANGEMENTS = ("single", "series", "parallel")
 class SavedPart:
     """One physical piece of a saved design, named by its stock line."""
 
-    kind: str                   # "resistor" | "capacitor"
-    index: int                  # position among the stock file's tables of that kind
-    line: int                   # header line in the stock file when saved (0 if unknown)
-    nominal: float              # the stock line's nominal value
-    value: float                # the piece's value: nominal, or the reading when measured
+    kind: str  # "resistor" | "capacitor"
+    index: int  # position among the stock file's tables of that kind
+    line: int  # header line in the stock file when saved (0 if unknown)
+    nominal: float  # the stock line's nominal value
+    value: float  # the piece's value: nominal, or the reading when measured
     tolerance: float
     measured: int | None = None
     location: str | None = None
     dielectric: str | None = None
     polarized: bool = False
     voltage: float | None = None
-    line_tolerance: float | None = None   # the stock line's tolerance (a measured piece's
-                                          # own is the meter's accuracy)
+    line_tolerance: float | None = None  # the stock line's tolerance (a measured piece's
+    # own is the meter's accuracy)
 
 
 @dataclass(frozen=True)
 class SavedPosition:
-    name: str                   # reference designator, e.g. "R1"
-    arrangement: str            # single | series | parallel
-    value: float                # combined value
+    name: str  # reference designator, e.g. "R1"
+    arrangement: str  # single | series | parallel
+    value: float  # combined value
     parts: tuple[SavedPart, ...]
 
     @property
@@ -162,6 +164,7 @@ class SavedDesign:
 
 # --------------------------------------------------------------------------- saving
 
+
 def save_design(path, *, candidate: Candidate, request: dict, stock) -> None:
     """Write ``candidate`` and ``request`` to ``path`` as TOML, whole and atomically.
 
@@ -196,15 +199,18 @@ def check_save_target(path: Path, stock) -> None:
     except OSError:
         same = False
     if same:
-        raise DesignError(f"{path}: is the stock file the design came from; saving there "
-                          f"would replace your stock; {hint}")
+        raise DesignError(
+            f"{path}: is the stock file the design came from; saving there "
+            f"would replace your stock; {hint}"
+        )
     try:
         old = tomllib.loads(path.read_bytes().decode("utf-8"))
     except (OSError, UnicodeDecodeError, tomllib.TOMLDecodeError):
         old = None
     if not (isinstance(old, dict) and "candidate" in old and "format" in old):
-        raise DesignError(f"{path}: exists and is not a design saved by picker, so it is not "
-                          f"replaced; {hint}")
+        raise DesignError(
+            f"{path}: exists and is not a design saved by picker, so it is not replaced; {hint}"
+        )
 
 
 def design_document(*, candidate: Candidate, request: dict, stock) -> dict:
@@ -225,10 +231,17 @@ def design_document(*, candidate: Candidate, request: dict, stock) -> dict:
         cand["warnings"] = [str(w) for w in candidate.warnings]
     if candidate.opamp is not None:
         oa = candidate.opamp
-        cand["opamp"] = _drop_none({
-            "index": oa.index, "line": oa.line, "name": oa.name, "gbw_hz": float(oa.gbw),
-            "channels": oa.channels, "location": oa.location,
-            "supply": None if oa.supply is None else float(oa.supply)})
+        cand["opamp"] = _drop_none(
+            {
+                "index": oa.index,
+                "line": oa.line,
+                "name": oa.name,
+                "gbw_hz": float(oa.gbw),
+                "channels": oa.channels,
+                "location": oa.location,
+                "supply": None if oa.supply is None else float(oa.supply),
+            }
+        )
     cand["stage"] = [_stage_table(st) for st in candidate.stages]
     doc["candidate"] = cand
     return doc
@@ -240,24 +253,43 @@ def _stage_table(stage) -> dict:
         parts = []
         for piece in arr.parts:
             line = piece.line
-            parts.append(_drop_none({
-                "kind": line.kind, "index": line.index, "line": line.line,
-                "nominal": float(line.value), "value": float(piece.value),
-                "measured": piece.measured, "tolerance": float(piece.tolerance),
-                "line_tolerance": float(line.tolerance), "location": line.location,
-                "dielectric": getattr(line, "dielectric", None),
-                "polarized": True if getattr(line, "polarized", False) else None,
-                "voltage": getattr(line, "voltage", None)}))
-        positions.append({"name": name, "arrangement": arr.arrangement,
-                          "value": float(arr.value), "part": parts})
-    return {"topology": stage.topology, "target": _target_table(stage.target),
-            "achieved": _target_table(stage.achieved), "position": positions}
+            parts.append(
+                _drop_none(
+                    {
+                        "kind": line.kind,
+                        "index": line.index,
+                        "line": line.line,
+                        "nominal": float(line.value),
+                        "value": float(piece.value),
+                        "measured": piece.measured,
+                        "tolerance": float(piece.tolerance),
+                        "line_tolerance": float(line.tolerance),
+                        "location": line.location,
+                        "dielectric": getattr(line, "dielectric", None),
+                        "polarized": True if getattr(line, "polarized", False) else None,
+                        "voltage": getattr(line, "voltage", None),
+                    }
+                )
+            )
+        positions.append(
+            {"name": name, "arrangement": arr.arrangement, "value": float(arr.value), "part": parts}
+        )
+    return {
+        "topology": stage.topology,
+        "target": _target_table(stage.target),
+        "achieved": _target_table(stage.achieved),
+        "position": positions,
+    }
 
 
 def _target_table(t: StageTarget) -> dict:
-    return _drop_none({"f0_hz": float(t.f0_hz),
-                       "q": None if t.q is None else float(t.q),
-                       "gain": None if t.gain is None else float(t.gain)})
+    return _drop_none(
+        {
+            "f0_hz": float(t.f0_hz),
+            "q": None if t.q is None else float(t.q),
+            "gain": None if t.gain is None else float(t.gain),
+        }
+    )
 
 
 def _drop_none(d: dict) -> dict:
@@ -281,7 +313,7 @@ def _plain(value):
         return value
     if isinstance(value, float):
         return value if math.isfinite(value) else str(value)
-    if hasattr(value, "item"):          # numpy scalar
+    if hasattr(value, "item"):  # numpy scalar
         return _plain(value.item())
     return str(value)
 
@@ -307,18 +339,16 @@ def write_atomic(path: Path, data: bytes) -> None:
         os.chmod(tmp, mode)
         os.replace(tmp, path)
     except BaseException as exc:
-        try:
+        with contextlib.suppress(FileNotFoundError):
             os.unlink(tmp)
-        except FileNotFoundError:
-            pass
         if isinstance(exc, OSError):
-            raise DesignError(f"{path}: cannot write the design: "
-                              f"{exc.strerror or exc}") from exc
+            raise DesignError(f"{path}: cannot write the design: {exc.strerror or exc}") from exc
         raise
     sync_folder(folder)
 
 
 # --------------------------------------------------------------------------- loading
+
 
 def load_design(path) -> SavedDesign:
     """Read and check a saved design; raise DesignError naming the file and the key."""
@@ -344,6 +374,7 @@ def design_from_document(doc: dict, *, source: str = "<design>", path=None) -> S
     Raises DesignError naming ``source`` and the dotted key (``picker.export.design_check``).
     """
     from picker.export.design_check import check_document
+
     return check_document(doc, source=source, path=path)
 
 

@@ -30,8 +30,8 @@ from picker.errors import DesignError
 from picker.export.bom import designator
 from picker.export.design_file import SavedDesign
 
-OPEN_LOOP_GAIN = A0_DEFAULT   # the same open-loop gain as picker.analysis (2e5, common practice)
-GM = 1e-3                   # transconductance of the macro-model's input stage, siemens
+OPEN_LOOP_GAIN = A0_DEFAULT  # the same open-loop gain as picker.analysis (2e5, common practice)
+GM = 1e-3  # transconductance of the macro-model's input stage, siemens
 POINTS_PER_DECADE = 50
 
 
@@ -49,17 +49,20 @@ def opamp_subcircuit(gbw_hz: float | None) -> list[str]:
     """
     lines = [".subckt picker_opamp inp inn out"]
     if gbw_hz is None:
-        lines += ["* near-ideal amplifier: no op amp was chosen in the design",
-                  "E1 out 0 inp inn 1e6"]
+        lines += [
+            "* near-ideal amplifier: no op amp was chosen in the design",
+            "E1 out 0 inp inn 1e6",
+        ]
     else:
         rp = OPEN_LOOP_GAIN / GM
         cp = GM / (2 * math.pi * gbw_hz)
-        lines += [f"* single pole: A0 = {OPEN_LOOP_GAIN:g}, unity-gain frequency "
-                  f"= GBW = {gbw_hz:.6g} Hz",
-                  f"G1 0 pole inp inn {GM:g}",
-                  f"Rp pole 0 {_num(rp)}",
-                  f"Cp pole 0 {_num(cp)}",
-                  "E1 out 0 pole 0 1"]
+        lines += [
+            f"* single pole: A0 = {OPEN_LOOP_GAIN:g}, unity-gain frequency = GBW = {gbw_hz:.6g} Hz",
+            f"G1 0 pole inp inn {GM:g}",
+            f"Rp pole 0 {_num(rp)}",
+            f"Cp pole 0 {_num(cp)}",
+            "E1 out 0 pole 0 1",
+        ]
     lines.append(".ends picker_opamp")
     return lines
 
@@ -77,10 +80,12 @@ def spice_netlist(design: SavedDesign) -> str:
     title = f"picker filter: {words}" if words else "picker filter"
     if "order" in req:
         title += f", order {req['order']}"
-    lines = [title,
-             "* written by picker; run with: ngspice -b <this file>",
-             "* names: <designator>_S<stage>; pair pieces end in a and b; op amps XU<n>_S<stage>",
-             "V1 in 0 DC 0 AC 1"]
+    lines = [
+        title,
+        "* written by picker; run with: ngspice -b <this file>",
+        "* names: <designator>_S<stage>; pair pieces end in a and b; op amps XU<n>_S<stage>",
+        "V1 in 0 DC 0 AC 1",
+    ]
     n = len(design.stages)
     for s, stage in enumerate(design.stages, start=1):
         try:
@@ -88,11 +93,17 @@ def spice_netlist(design: SavedDesign) -> str:
         except (KeyError, LookupError, DesignError) as exc:
             raise DesignError(f"stage {s}: unknown topology {stage.topology!r}") from exc
         t = stage.target
-        what = f"f0 {hz(t.f0_hz)}" + (f", Q {t.q:.4g}" if t.q is not None else "") \
+        what = (
+            f"f0 {hz(t.f0_hz)}"
+            + (f", Q {t.q:.4g}" if t.q is not None else "")
             + (f", gain {t.gain:.4g}" if t.gain is not None else "")
+        )
         lines.append(f"* stage {s}: {stage.topology}, target {what}")
-        nodes = {"in": "in" if s == 1 else f"s{s - 1}_out", "out": "out" if s == n else f"s{s}_out",
-                 "0": "0"}
+        nodes = {
+            "in": "in" if s == 1 else f"s{s - 1}_out",
+            "out": "out" if s == n else f"s{s}_out",
+            "0": "0",
+        }
 
         def node(name: str) -> str:
             return nodes.get(name, f"s{s}_{name}")
@@ -104,11 +115,13 @@ def spice_netlist(design: SavedDesign) -> str:
                 lines.append(f"X{e.name}_S{s} {inp} {inn} {out} picker_opamp")
                 continue
             if e.kind not in ("R", "C"):
-                raise DesignError(f"stage {s} ({stage.topology}): element {e.name!r} of kind "
-                                  f"{e.kind!r} has no SPICE form here")
+                raise DesignError(
+                    f"stage {s} ({stage.topology}): element {e.name!r} of kind "
+                    f"{e.kind!r} has no SPICE form here"
+                )
             a, b = (node(x) for x in e.nodes)
             pos = positions.get(e.name)
-            if pos is None:                      # a fixed element of the topology
+            if pos is None:  # a fixed element of the topology
                 lines.append(f"{_spice_name(e.kind, e.name, s, '')} {a} {b} {_num(e.value)}")
                 continue
             ends = [(a, b)] * len(pos.parts)
@@ -120,19 +133,26 @@ def spice_netlist(design: SavedDesign) -> str:
                 name = _spice_name(e.kind, pos.name, s, suffix)
                 where = f"drawer {part.location}" if part.location else "no location"
                 reading = f" (measured piece {part.measured})" if part.measured is not None else ""
-                lines.append(f"* {name} = stage {s} {designator(pos.name, pos.arrangement, k)}: "
-                             f"{format_rkm(part.value, part.kind)}{reading}, "
-                             f"{_pct(part.tolerance)}, {where}, stock {part.kind} "
-                             f"{part.index} (line {part.line})")
+                lines.append(
+                    f"* {name} = stage {s} {designator(pos.name, pos.arrangement, k)}: "
+                    f"{format_rkm(part.value, part.kind)}{reading}, "
+                    f"{_pct(part.tolerance)}, {where}, stock {part.kind} "
+                    f"{part.index} (line {part.line})"
+                )
                 lines.append(f"{name} {ends[k][0]} {ends[k][1]} {_num(part.value)}")
     lines += opamp_subcircuit(None if design.opamp is None else design.opamp.gbw_hz)
     if design.opamp is not None:
-        lines.insert(4, f"* op amp: {design.opamp.name}, GBW {hz(design.opamp.gbw_hz)}"
-                        + (f", drawer {design.opamp.location}" if design.opamp.location else ""))
+        lines.insert(
+            4,
+            f"* op amp: {design.opamp.name}, GBW {hz(design.opamp.gbw_hz)}"
+            + (f", drawer {design.opamp.location}" if design.opamp.location else ""),
+        )
     f_lo, f_hi = sweep_range(design)
-    lines += [f".ac dec {POINTS_PER_DECADE} {_num(f_lo)} {_num(f_hi)}",
-              ".print ac vdb(out) vp(out)",
-              ".end"]
+    lines += [
+        f".ac dec {POINTS_PER_DECADE} {_num(f_lo)} {_num(f_hi)}",
+        ".print ac vdb(out) vp(out)",
+        ".end",
+    ]
     return "\n".join(lines) + "\n"
 
 

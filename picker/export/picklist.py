@@ -13,7 +13,7 @@ NO_LOCATION = "(no location)"
 
 @dataclass(frozen=True)
 class PickGroup:
-    location: str | None            # the drawer or bin label; None when the stock line has none
+    location: str | None  # the drawer or bin label; None when the stock line has none
     rows: tuple[BomRow, ...]
 
     @property
@@ -55,5 +55,7 @@ def pick_list_lines(groups) -> list[str]:
 
 def _natural(text: str):
     """Sort key that puts A2 before A10 (digits compared as numbers)."""
-    return [(0, int(t), "") if t[0] in "0123456789" else (1, 0, t.lower())
-            for t in re.findall(r"[0-9]+|[^0-9]+", text)]
+    return [
+        (0, int(t), "") if t[0] in "0123456789" else (1, 0, t.lower())
+        for t in re.findall(r"[0-9]+|[^0-9]+", text)
+    ]

@@ -37,9 +37,20 @@ def get_topology(key: str) -> Topology:
     try:
         return REGISTRY[key]
     except KeyError:
-        raise DesignError(f"unknown topology {key!r}; known: {', '.join(sorted(REGISTRY))}"
-                          ) from None
+        raise DesignError(
+            f"unknown topology {key!r}; known: {', '.join(sorted(REGISTRY))}"
+        ) from None
 
 
-__all__ = ["REGISTRY", "Element", "PositionSpec", "Topology", "get_topology", "minimum_order",
-           "plan_stages", "prototype_poles", "register", "sections"]
+__all__ = [
+    "REGISTRY",
+    "Element",
+    "PositionSpec",
+    "Topology",
+    "get_topology",
+    "minimum_order",
+    "plan_stages",
+    "prototype_poles",
+    "register",
+    "sections",
+]

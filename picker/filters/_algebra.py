@@ -22,8 +22,10 @@ def value(values: Mapping[str, np.ndarray | float], name: str) -> np.ndarray:
     try:
         raw = values[name]
     except KeyError:
-        raise DesignError(f"component value for position {name!r} is missing "
-                          f"(given: {', '.join(sorted(values)) or 'none'})") from None
+        raise DesignError(
+            f"component value for position {name!r} is missing "
+            f"(given: {', '.join(sorted(values)) or 'none'})"
+        ) from None
     return np.asarray(raw, dtype=float)
 
 
@@ -66,8 +68,10 @@ def target_gain(target: StageTarget, key: str, *, above_one: bool = False) -> fl
     if not (math.isfinite(gain) and gain > 0):
         raise DesignError(f"{key}: gain must be a positive magnitude, got {target.gain!r}")
     if above_one and gain <= 1.0:
-        raise DesignError(f"{key}: the gain network 1 + RB/RA needs a gain above 1, got "
-                          f"{target.gain!r}; use the unity-gain variant for a gain of 1")
+        raise DesignError(
+            f"{key}: the gain network 1 + RB/RA needs a gain above 1, got "
+            f"{target.gain!r}; use the unity-gain variant for a gain of 1"
+        )
     return float(gain)
 
 
@@ -87,5 +91,7 @@ def gain_elements(values: Mapping[str, float], node: str):
     """Netlist of the RA/RB gain network around the inverting input ``node``."""
     from picker.filters.base import Element
 
-    return [Element("R", "RA", (node, "0"), float(values["RA"])),
-            Element("R", "RB", ("out", node), float(values["RB"]))]
+    return [
+        Element("R", "RA", (node, "0"), float(values["RA"])),
+        Element("R", "RB", ("out", node), float(values["RB"])),
+    ]

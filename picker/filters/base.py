@@ -23,9 +23,9 @@ from picker.parts import StageTarget
 
 @dataclass(frozen=True)
 class PositionSpec:
-    name: str        # reference designator: "R1", "C2", "RA" ...
-    kind: str        # "resistor" | "capacitor"
-    role: str        # a few words for people: "input resistor", "feedback capacitor"
+    name: str  # reference designator: "R1", "C2", "RA" ...
+    kind: str  # "resistor" | "capacitor"
+    role: str  # a few words for people: "input resistor", "feedback capacitor"
 
 
 @dataclass(frozen=True)
@@ -43,13 +43,13 @@ class Element:
 
 
 class Topology(ABC):
-    key: ClassVar[str]              # registry key, e.g. "sallen-key-lowpass"
-    family: ClassVar[str]           # "inverting" | "non-inverting" | "sallen-key" | "mfb"
-    response_type: ClassVar[str]    # "lowpass" | "highpass" | "bandpass"
-    order: ClassVar[int]            # 1 or 2
+    key: ClassVar[str]  # registry key, e.g. "sallen-key-lowpass"
+    family: ClassVar[str]  # "inverting" | "non-inverting" | "sallen-key" | "mfb"
+    response_type: ClassVar[str]  # "lowpass" | "highpass" | "bandpass"
+    order: ClassVar[int]  # 1 or 2
     positions: ClassVar[tuple[PositionSpec, ...]]
-    sets_gain: ClassVar[bool]       # True when |gain| is a target of this stage
-    inverting: ClassVar[bool]       # True when the passband (or centre) gain is negative
+    sets_gain: ClassVar[bool]  # True when |gain| is a target of this stage
+    inverting: ClassVar[bool]  # True when the passband (or centre) gain is negative
 
     @abstractmethod
     def characteristics(self, values: Mapping[str, np.ndarray | float]):

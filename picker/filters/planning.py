@@ -32,9 +32,12 @@ TYPES = ("lowpass", "highpass", "bandpass")
 FAMILIES = ("inverting", "non-inverting", "sallen-key", "mfb")
 # (family, order of the stage) -> family of the module that builds it
 _STAGE_FAMILY = {
-    ("sallen-key", 1): "non-inverting", ("sallen-key", 2): "sallen-key",
-    ("mfb", 1): "inverting", ("mfb", 2): "mfb",
-    ("inverting", 1): "inverting", ("non-inverting", 1): "non-inverting",
+    ("sallen-key", 1): "non-inverting",
+    ("sallen-key", 2): "sallen-key",
+    ("mfb", 1): "inverting",
+    ("mfb", 2): "mfb",
+    ("inverting", 1): "inverting",
+    ("non-inverting", 1): "non-inverting",
 }
 
 
@@ -56,10 +59,17 @@ def _default_family(order: int) -> str:
     return "inverting" if order == 1 else "sallen-key"
 
 
-def plan_stages(response_type: str, *, response: str = "butterworth", order: int | None = 2,
-                fc_hz: float, gain: float = 1.0, ripple_db: float = 1.0,
-                q: float | None = None, family: str | None = None
-                ) -> list[tuple[Topology, StageTarget]]:
+def plan_stages(
+    response_type: str,
+    *,
+    response: str = "butterworth",
+    order: int | None = 2,
+    fc_hz: float,
+    gain: float = 1.0,
+    ripple_db: float = 1.0,
+    q: float | None = None,
+    family: str | None = None,
+) -> list[tuple[Topology, StageTarget]]:
     """Stage list for a filter.
 
     Parameters
@@ -86,43 +96,47 @@ def plan_stages(response_type: str, *, response: str = "butterworth", order: int
     fc_hz = _positive("fc_hz (corner frequency)", fc_hz)
     gain = _positive("gain", gain)
     if family is not None and family not in FAMILIES:
-        raise DesignError(f"topology family must be one of {', '.join(FAMILIES)}; "
-                          f"got {family!r}")
+        raise DesignError(f"topology family must be one of {', '.join(FAMILIES)}; got {family!r}")
     if response_type == "bandpass" or q is not None:
         return _single_second_order(response_type, order, fc_hz, gain, q, family)
     order = prototypes.check_order(2 if order is None else order)
     family = family or _default_family(order)
     if order > 1 and family in ("inverting", "non-inverting"):
-        raise DesignError(f"topology {family!r} is first order only; order {order} needs "
-                          f"'sallen-key' or 'mfb'")
+        raise DesignError(
+            f"topology {family!r} is first order only; order {order} needs 'sallen-key' or 'mfb'"
+        )
     sections = prototypes.sections(prototypes.prototype_poles(response, order, ripple_db))
     return _assemble(response_type, sections, fc_hz, gain, family)
 
 
 def _single_second_order(response_type, order, fc_hz, gain, q, family):
     if order not in (None, 2):
-        raise DesignError(f"a {response_type} with Q given is one second-order stage: "
-                          f"order must be 2 or omitted, got {order!r}")
+        raise DesignError(
+            f"a {response_type} with Q given is one second-order stage: "
+            f"order must be 2 or omitted, got {order!r}"
+        )
     if q is None:
         raise DesignError("a band-pass needs its Q (q > 0)")
     q = _positive("q", q)
     if response_type == "bandpass":
         if family not in (None, "mfb"):
-            raise DesignError(f"band-pass is built as an MFB stage only; got topology "
-                              f"{family!r}")
+            raise DesignError(f"band-pass is built as an MFB stage only; got topology {family!r}")
         return [(REGISTRY["mfb-bandpass"], StageTarget(fc_hz, q, gain))]
     family = family or "sallen-key"
     if family in ("inverting", "non-inverting"):
-        raise DesignError(f"topology {family!r} is first order only; a stage with Q "
-                          f"needs 'sallen-key' or 'mfb'")
+        raise DesignError(
+            f"topology {family!r} is first order only; a stage with Q needs 'sallen-key' or 'mfb'"
+        )
     return _assemble(response_type, [(1.0, q)], fc_hz, gain, family)
 
 
 def _assemble(response_type, sections, fc_hz, gain, family):
     wants_gain = abs(gain - 1.0) > 1e-12
     if family in ("sallen-key", "non-inverting") and gain < 1.0 - 1e-12:
-        raise DesignError(f"gain {gain:g} is below 1: {family} stages only amplify; "
-                          f"use topology 'mfb' or 'inverting' for an attenuating filter")
+        raise DesignError(
+            f"gain {gain:g} is below 1: {family} stages only amplify; "
+            f"use topology 'mfb' or 'inverting' for an attenuating filter"
+        )
     stages: list[tuple[Topology, StageTarget]] = []
     placed = False
     for w0, q in sections:
@@ -137,8 +151,14 @@ def _assemble(response_type, sections, fc_hz, gain, family):
     return stages
 
 
-def minimum_order(response: str, passband_hz: float, max_loss_db: float, stopband_hz: float,
-                  min_atten_db: float, response_type: str = "lowpass") -> int:
+def minimum_order(
+    response: str,
+    passband_hz: float,
+    max_loss_db: float,
+    stopband_hz: float,
+    min_atten_db: float,
+    response_type: str = "lowpass",
+) -> int:
     """Smallest order whose response loses at most ``max_loss_db`` up to the passband edge
     and at least ``min_atten_db`` beyond the stopband edge (band edges as in scipy.signal's
     ``buttord``/``cheb1ord``; Chebyshev with ``ripple_db = max_loss_db``).
@@ -160,11 +180,14 @@ def minimum_order(response: str, passband_hz: float, max_loss_db: float, stopban
         raise DesignError(f"minimum order is for lowpass or highpass, got {response_type!r}")
     ratio = fs / fp if response_type == "lowpass" else fp / fs
     if ratio <= 1.0:
-        raise DesignError(f"the stopband edge {fs:g} Hz must lie beyond the passband edge "
-                          f"{fp:g} Hz for a {response_type}")
+        raise DesignError(
+            f"the stopband edge {fs:g} Hz must lie beyond the passband edge "
+            f"{fp:g} Hz for a {response_type}"
+        )
     if a_s <= ap:
-        raise DesignError(f"stopband attenuation {a_s:g} dB must exceed the passband loss "
-                          f"{ap:g} dB")
+        raise DesignError(
+            f"stopband attenuation {a_s:g} dB must exceed the passband loss {ap:g} dB"
+        )
     d = (10.0 ** (a_s / 10.0) - 1.0) / (10.0 ** (ap / 10.0) - 1.0)
     if response == "butterworth":
         n = math.ceil(math.log10(d) / (2.0 * math.log10(ratio)) - 1e-12)
@@ -173,11 +196,13 @@ def minimum_order(response: str, passband_hz: float, max_loss_db: float, stopban
     elif response == "bessel":
         n = _bessel_order(ap, a_s, ratio)
     else:
-        raise DesignError(f"response must be one of {', '.join(prototypes.RESPONSES)}; "
-                          f"got {response!r}")
+        raise DesignError(
+            f"response must be one of {', '.join(prototypes.RESPONSES)}; got {response!r}"
+        )
     if n > prototypes.MAX_ORDER:
-        raise DesignError(f"these limits need order {n}; picker designs up to order "
-                          f"{prototypes.MAX_ORDER}")
+        raise DesignError(
+            f"these limits need order {n}; picker designs up to order {prototypes.MAX_ORDER}"
+        )
     return max(n, 1)
 
 

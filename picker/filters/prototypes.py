@@ -34,8 +34,9 @@ def check_order(order) -> int:
 
 def ripple_eps(ripple_db: float) -> float:
     if not (math.isfinite(ripple_db) and 0.0 < ripple_db <= 10.0):
-        raise DesignError(f"Chebyshev ripple must be above 0 dB and at most 10 dB, "
-                          f"got {ripple_db!r}")
+        raise DesignError(
+            f"Chebyshev ripple must be above 0 dB and at most 10 dB, got {ripple_db!r}"
+        )
     return math.sqrt(10.0 ** (ripple_db / 10.0) - 1.0)
 
 
@@ -53,8 +54,10 @@ def chebyshev_poles(order: int, ripple_db: float) -> np.ndarray:
 def bessel_polynomial(order: int) -> np.ndarray:
     """Coefficients of theta_n(s), highest power first (for ``np.roots``)."""
     n = order
-    coeffs = [math.factorial(2 * n - k) // (2 ** (n - k) * math.factorial(k)
-                                            * math.factorial(n - k)) for k in range(n + 1)]
+    coeffs = [
+        math.factorial(2 * n - k) // (2 ** (n - k) * math.factorial(k) * math.factorial(n - k))
+        for k in range(n + 1)
+    ]
     return np.array(coeffs[::-1], dtype=float)
 
 
@@ -99,8 +102,9 @@ def sections(poles: np.ndarray) -> list[tuple[float, float | None]]:
     return out
 
 
-def normalised_magnitude(response: str, order: int, w: np.ndarray,
-                         ripple_db: float = 1.0) -> np.ndarray:
+def normalised_magnitude(
+    response: str, order: int, w: np.ndarray, ripple_db: float = 1.0
+) -> np.ndarray:
     """|H(jw)| of the low-pass prototype with its passband peak at 1 (DC for all but
     even-order Chebyshev, whose DC sits at -ripple)."""
     poles = prototype_poles(response, order, ripple_db)

@@ -1,6 +1,6 @@
 """Rich renderables shared by the CLI and the TUI (no textual here).
 
-    from picker.report import schematic, DesignReport
+from picker.report import schematic, DesignReport
 """
 
 from picker.report.design import DesignReport

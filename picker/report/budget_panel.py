@@ -64,16 +64,24 @@ class BudgetPanel:
         text = Text()
         text.append("Yield ", style="bold")
         text.append(f"{mc.yield_ * 100:.1f} %", style="bold")
-        text.append(f" (standard error {mc.std_error * 100:.1f} %) of {mc.trials:,} trials, "
-                    f"{mc.distribution}; "
-                    f"inside f0 +/-{w['f0'] * 100:g} %, Q +/-{w['q'] * 100:g} %, "
-                    f"gain +/-{w['gain'] * 100:g} % of the targets")
+        text.append(
+            f" (standard error {mc.std_error * 100:.1f} %) of {mc.trials:,} trials, "
+            f"{mc.distribution}; "
+            f"inside f0 +/-{w['f0'] * 100:g} %, Q +/-{w['q'] * 100:g} %, "
+            f"gain +/-{w['gain'] * 100:g} % of the targets"
+        )
         return text
 
     def _stage_table(self, s) -> Table:
         title = f"Stage {s.index + 1}: {s.topology}, order {s.order}"
-        table = Table(title=title, title_justify="left", box=box.SIMPLE_HEAD, pad_edge=False,
-                      expand=False, show_edge=False)
+        table = Table(
+            title=title,
+            title_justify="left",
+            box=box.SIMPLE_HEAD,
+            pad_edge=False,
+            expand=False,
+            show_edge=False,
+        )
         table.add_column("", no_wrap=True)
         for name in ("f0", "Q", "gain"):
             table.add_column(name, justify="right", no_wrap=True)
@@ -82,11 +90,16 @@ class BudgetPanel:
         table.add_row("achieved", _num(a.f0_hz, "Hz"), _num(a.q), _num(a.gain))
         table.add_row("value err", *(_pct(e) for e in s.value_error))
         tol = s.tolerance
-        table.add_row("tolerance", _span(tol.f0, t.f0_hz), _span(tol.q, t.q),
-                      _span(tol.gain, t.gain))
+        table.add_row(
+            "tolerance", _span(tol.f0, t.f0_hz), _span(tol.q, t.q), _span(tol.gain, t.gain)
+        )
         tp = s.temperature
-        table.add_row(f"{tp.span_c[0]:g}..{tp.span_c[1]:g} C", _span(tp.f0, a.f0_hz),
-                      _span(tp.q, a.q), _span(tp.gain, a.gain))
+        table.add_row(
+            f"{tp.span_c[0]:g}..{tp.span_c[1]:g} C",
+            _span(tp.f0, a.f0_hz),
+            _span(tp.q, a.q),
+            _span(tp.gain, a.gain),
+        )
         if s.opamp is not None:
             o = s.opamp
             table.add_row(f"GBW {format_si(o.gbw_hz, 'Hz')}", *(_pct(x) for x in o.shift))
@@ -95,16 +108,20 @@ class BudgetPanel:
     def _notes(self, s) -> Text:
         text = Text(style="dim")
         if len(self.budget.monte_carlo.stage_yield) > 1:
-            text.append(f"alone {self.budget.monte_carlo.stage_yield[s.index] * 100:.1f} % "
-                        "inside the window; ")
+            text.append(
+                f"alone {self.budget.monte_carlo.stage_yield[s.index] * 100:.1f} % "
+                "inside the window; "
+            )
         text.append("tolerance vs target, temperature vs achieved at 25 C")
         assumed = [d.label for d in s.temperature.pieces if d.assumed]
         if assumed:
             text.append(f"; tempco assumed for {', '.join(assumed)}")
         if not self.compact:
             text.append(f"\ntolerance: {s.tolerance.method}")
-            sens = "  ".join(f"{n}:{sf:+.2f}" + ("" if sq is None else f"/{sq:+.2f}")
-                             for n, sf, sq, _ in s.tolerance.sensitivities)
+            sens = "  ".join(
+                f"{n}:{sf:+.2f}" + ("" if sq is None else f"/{sq:+.2f}")
+                for n, sf, sq, _ in s.tolerance.sensitivities
+            )
             text.append(f"\nsensitivity f0/Q: {sens}")
         return text
 
@@ -132,8 +149,9 @@ class BudgetPanel:
         left, right = format_si(lo, "Hz"), format_si(hi, "Hz")
         pad = max(1, n * cell - len(left) - len(right))
         rows.append(Text(left + " " * pad + right))
-        head = Text(f"{h.quantity}, {sum(h.counts):,} trials (T target, n nominal parts)",
-                    style="bold")
+        head = Text(
+            f"{h.quantity}, {sum(h.counts):,} trials (T target, n nominal parts)", style="bold"
+        )
         if h.outside:
             head.append(f"; {h.outside} trials had no such frequency on the grid", style="")
         return Group(head, *rows)
@@ -158,7 +176,7 @@ class BudgetPanel:
                 parts += [Text(""), hist]
         if self.budget.warnings:
             parts += [Text(""), Text("Warnings", style="bold"), self._warnings()]
-        title = "Error budget" + (f" (op amp: {self.budget.opamp_name})"
-                                  if self.budget.opamp_name else " (ideal op amp)")
-        yield Panel(Group(*parts), title=title, title_align="left", width=width,
-                    box=box.ROUNDED)
+        title = "Error budget" + (
+            f" (op amp: {self.budget.opamp_name})" if self.budget.opamp_name else " (ideal op amp)"
+        )
+        yield Panel(Group(*parts), title=title, title_align="left", width=width, box=box.ROUNDED)

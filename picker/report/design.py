@@ -45,8 +45,13 @@ class DesignReport:
         self.warnings = list(warnings)
 
     def _candidates(self) -> Table:
-        table = Table(title="candidates, best first", title_justify="left", expand=False,
-                      show_lines=True, pad_edge=False)
+        table = Table(
+            title="candidates, best first",
+            title_justify="left",
+            expand=False,
+            show_lines=True,
+            pad_edge=False,
+        )
         table.add_column("#", justify="right")
         table.add_column("worst error", justify="right")
         table.add_column("pieces", justify="right")
@@ -70,8 +75,12 @@ class DesignReport:
 
         from rich import box
 
-        table = Table(title="parts vs precision: best for each piece count",
-                      title_justify="left", box=box.SIMPLE_HEAD, pad_edge=False)
+        table = Table(
+            title="parts vs precision: best for each piece count",
+            title_justify="left",
+            box=box.SIMPLE_HEAD,
+            pad_edge=False,
+        )
         table.add_column("pieces", justify="right")
         table.add_column("worst error", justify="right")
         table.add_column("(longer bar: less precise)", no_wrap=True)
@@ -103,8 +112,9 @@ class DesignReport:
         parts.append(schematic(best))
         for choice in best.stages:
             t, a = choice.target, choice.achieved
-            line = (f"{choice.topology}: f0 {format_si(a.f0_hz, 'Hz')} for "
-                    f"{format_si(t.f0_hz, 'Hz')}")
+            line = (
+                f"{choice.topology}: f0 {format_si(a.f0_hz, 'Hz')} for {format_si(t.f0_hz, 'Hz')}"
+            )
             if t.q is not None:
                 line += f", Q {a.q:.4g} for {t.q:.4g}"
             if t.gain is not None:
@@ -126,27 +136,41 @@ def design_json(result, budgets=None) -> dict:
     budgets = list(budgets or [])
     budgets += [None] * (len(result.candidates) - len(budgets))
     out = []
-    for cand, bud in zip(result.candidates, budgets):
+    for cand, bud in zip(result.candidates, budgets, strict=False):
         stages = []
         for i, choice in enumerate(cand.stages):
             t, a = choice.target, choice.achieved
-            stages.append({
-                "topology": choice.topology,
-                "order": 1 if t.q is None else 2,
-                "targets": {"f0": t.f0_hz, "q": t.q, "gain": t.gain},
-                "achieved": {"f0": a.f0_hz, "q": a.q, "gain": a.gain},
-                "positions": {name: {
-                    "value": arr.value, "arrangement": arr.arrangement,
-                    "parts": [{"kind": p.kind, "value": p.value, "location": p.location}
-                              for p in arr.parts]} for name, arr in choice.positions},
-                "budget": bud.stage_json(i) if bud is not None else None,
-            })
+            stages.append(
+                {
+                    "topology": choice.topology,
+                    "order": 1 if t.q is None else 2,
+                    "targets": {"f0": t.f0_hz, "q": t.q, "gain": t.gain},
+                    "achieved": {"f0": a.f0_hz, "q": a.q, "gain": a.gain},
+                    "positions": {
+                        name: {
+                            "value": arr.value,
+                            "arrangement": arr.arrangement,
+                            "parts": [
+                                {"kind": p.kind, "value": p.value, "location": p.location}
+                                for p in arr.parts
+                            ],
+                        }
+                        for name, arr in choice.positions
+                    },
+                    "budget": bud.stage_json(i) if bud is not None else None,
+                }
+            )
         warnings = list(cand.warnings)
         warnings += [n for n in getattr(result, "notes", ()) if n not in warnings]
         if bud is not None:
             warnings += [w for w in bud.warnings if w not in warnings]
-        out.append({"score": cand.score, "pieces": cand.pieces, "stages": stages,
-                    "budget": bud.candidate_json() if bud is not None else None,
-                    "warnings": warnings})
-    return {"candidates": out,
-            "tradeoff": [{"pieces": k, "score": s} for k, s in result.tradeoff]}
+        out.append(
+            {
+                "score": cand.score,
+                "pieces": cand.pieces,
+                "stages": stages,
+                "budget": bud.candidate_json() if bud is not None else None,
+                "warnings": warnings,
+            }
+        )
+    return {"candidates": out, "tradeoff": [{"pieces": k, "score": s} for k, s in result.tradeoff]}

@@ -27,8 +27,11 @@ def arrangement_text(arr) -> tuple[str, str]:
         p = arr.parts[0]
         value = format_rkm(p.value, kind) + (" (measured)" if p.measured is not None else "")
     else:
-        value = (format_rkm(float(f"{arr.value:.4g}"), kind) + " = "
-                 + JOIN[arr.arrangement].join(format_rkm(p.value, kind) for p in arr.parts))
+        value = (
+            format_rkm(float(f"{arr.value:.4g}"), kind)
+            + " = "
+            + JOIN[arr.arrangement].join(format_rkm(p.value, kind) for p in arr.parts)
+        )
     drawers = []
     for p in arr.parts:
         loc = p.location or "?"
@@ -72,6 +75,7 @@ def schematic(candidate) -> Text:
     if candidate.opamp is not None:
         o = candidate.opamp
         where = f" ({o.location})" if o.location else ""
-        lines.append(f"op amp: {o.name}, {format_si(o.gbw, 'Hz')} GBW{where}; "
-                     f"one channel per stage")
+        lines.append(
+            f"op amp: {o.name}, {format_si(o.gbw, 'Hz')} GBW{where}; one channel per stage"
+        )
     return Text("\n".join(lines))

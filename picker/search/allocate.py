@@ -27,16 +27,23 @@ import bisect
 
 import numpy as np
 
-
-STEPS = 300_000     # rows the depth-first search may try before it stops (see combine)
+STEPS = 300_000  # rows the depth-first search may try before it stops (see combine)
 
 
 class Incomplete(Exception):
     """The search stopped after ``STEPS`` rows; what it found is not proven best."""
 
 
-def combine(stages, counts: np.ndarray, *, top: int = 1, pieces_total: int | None = None,
-            steps: int | None = STEPS, memo: bool = True, look_ahead: bool = True):
+def combine(
+    stages,
+    counts: np.ndarray,
+    *,
+    top: int = 1,
+    pieces_total: int | None = None,
+    steps: int | None = STEPS,
+    memo: bool = True,
+    look_ahead: bool = True,
+):
     """Best ``top`` combinations.
 
     ``stages``: per stage a list of ``(j, best_score, loader)`` classes (only classes
@@ -77,8 +84,7 @@ def combine(stages, counts: np.ndarray, *, top: int = 1, pieces_total: int | Non
         if (s, j) not in columns:
             rows = loader()
             loaded[(s, j)] = rows
-            columns[(s, j)] = (rows.score.tolist(), rows.tol_max.tolist(),
-                               rows.tol_sum.tolist())
+            columns[(s, j)] = (rows.score.tolist(), rows.tol_max.tolist(), rows.tol_sum.tolist())
             if len(rows):
                 class_tol[(s, j)] = (float(np.min(rows.tol_max)), float(np.min(rows.tol_sum)))
         return columns[(s, j)]
@@ -100,7 +106,7 @@ def combine(stages, counts: np.ndarray, *, top: int = 1, pieces_total: int | Non
         key = (s, j, i)
         if key not in usage:
             ids, mult = np.unique(loaded[(s, j)].units[i], return_counts=True)
-            usage[key] = [(int(u), int(m)) for u, m in zip(ids, mult) if u >= 0]
+            usage[key] = [(int(u), int(m)) for u, m in zip(ids, mult, strict=False) if u >= 0]
         return usage[key]
 
     # pieces left per unit, kept beside ``used`` for the vectorised look-ahead below
@@ -162,9 +168,10 @@ def combine(stages, counts: np.ndarray, *, top: int = 1, pieces_total: int | Non
                 idx = np.repeat(np.arange(len(units)), units.shape[1])
                 flat = units.ravel()
                 keep = flat >= 0
-                pairs, mult = np.unique(np.stack([idx[keep], flat[keep]]), axis=1,
-                                        return_counts=True)
-                for u, m in zip(pairs[1].tolist(), mult.tolist()):
+                pairs, mult = np.unique(
+                    np.stack([idx[keep], flat[keep]]), axis=1, return_counts=True
+                )
+                for u, m in zip(pairs[1].tolist(), mult.tolist(), strict=False):
                     if m > per_stage.get(u, 0):
                         per_stage[u] = m
             for u, m in per_stage.items():
@@ -193,13 +200,17 @@ def combine(stages, counts: np.ndarray, *, top: int = 1, pieces_total: int | Non
                     del found[top:]
                     inserted[0] += 1
             return
-        key = memo_key(s) if 0 < s and memo else None
+        key = memo_key(s) if s > 0 and memo else None
         bound0 = found[-1][0][:4] if len(found) >= top else None
         if key is not None:
-            for (ps, pp, pt, pts, b) in fruitless.get(key, ()):
-                if (ps <= score and pt <= tmax and pts <= tsum
-                        and (pp == pieces if pieces_total is not None else pp <= pieces)
-                        and (b is None or (bound0 is not None and bound0 <= b))):
+            for ps, pp, pt, pts, b in fruitless.get(key, ()):
+                if (
+                    ps <= score
+                    and pt <= tmax
+                    and pts <= tsum
+                    and (pp == pieces if pieces_total is not None else pp <= pieces)
+                    and (b is None or (bound0 is not None and bound0 <= b))
+                ):
                     return
         before = inserted[0]
         _visit(s, score, pieces, tmax, tsum)
@@ -212,11 +223,14 @@ def combine(stages, counts: np.ndarray, *, top: int = 1, pieces_total: int | Non
         for j, b, loader in stages[s]:
             p = pieces + j
             if pieces_total is not None and not (
-                    p + rest_min[s + 1] <= pieces_total <= p + rest_max[s + 1]):
+                p + rest_min[s + 1] <= pieces_total <= p + rest_max[s + 1]
+            ):
                 continue
             bound = found[-1][0] if len(found) >= top else None
-            if bound is not None and (max(score, b, rest_score[s + 1]),
-                                      p + rest_min[s + 1]) > bound[:2]:
+            if (
+                bound is not None
+                and (max(score, b, rest_score[s + 1]), p + rest_min[s + 1]) > bound[:2]
+            ):
                 continue
             sc, tm, ts = rows_of(s, j, loader)
             rest_tm, rest_ts = rest_tol(s + 1)
@@ -229,8 +243,12 @@ def combine(stages, counts: np.ndarray, *, top: int = 1, pieces_total: int | Non
                 if bound is not None:
                     if lb > bound[0]:
                         break
-                    if (lb, p + rest_min[s + 1], max(tmax, tm[i], rest_tm),
-                            tsum + ts[i] + rest_ts) > bound[:4]:
+                    if (
+                        lb,
+                        p + rest_min[s + 1],
+                        max(tmax, tm[i], rest_tm),
+                        tsum + ts[i] + rest_ts,
+                    ) > bound[:4]:
                         continue
                 need = needs(s, j, i)
                 if any(used.get(u, 0) + m > counts[u] for u, m in need):

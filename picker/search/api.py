@@ -35,7 +35,7 @@ class SearchResult:
     notes: tuple[str, ...] = ()
 
 
-SPARE = 3   # combinations asked for per candidate shown, so that look-alikes can go
+SPARE = 3  # combinations asked for per candidate shown, so that look-alikes can go
 
 
 def signature(candidate: Candidate) -> tuple:
@@ -44,10 +44,12 @@ def signature(candidate: Candidate) -> tuple:
     pieces they take (two lines of one value in one drawer, two equal measured
     readings) have the same signature."""
     return tuple(
-        tuple((name, arr.arrangement,
-               tuple(sorted((p.value, p.location or "") for p in arr.parts)))
-              for name, arr in stage.positions)
-        for stage in candidate.stages)
+        tuple(
+            (name, arr.arrangement, tuple(sorted((p.value, p.location or "") for p in arr.parts)))
+            for name, arr in stage.positions
+        )
+        for stage in candidate.stages
+    )
 
 
 def distinct(candidates: list[Candidate]) -> list[Candidate]:
@@ -66,9 +68,17 @@ def grow(t: float) -> float:
     return math.inf if t >= WIDE else max(4.0 * t, 1e-9)
 
 
-def search(stock, stages, *, singles: bool = False, allow_polarized: bool = False,
-           bounds: Bounds = Bounds(), top: int = 5, tradeoff: bool = True,
-           for_people: bool = False) -> SearchResult:
+def search(
+    stock,
+    stages,
+    *,
+    singles: bool = False,
+    allow_polarized: bool = False,
+    bounds: Bounds = Bounds(),
+    top: int = 5,
+    tradeoff: bool = True,
+    for_people: bool = False,
+) -> SearchResult:
     """Best ``top`` candidates from ``stock`` for ``stages`` (from ``plan_stages``).
 
     Parameters
@@ -95,19 +105,21 @@ def search(stock, stages, *, singles: bool = False, allow_polarized: bool = Fals
     if not stages:
         raise NoDesignError("no stages to design")
     top = max(1, int(top))
-    space = build_space(stock, singles=singles, allow_polarized=allow_polarized,
-                        bounds=bounds)
+    space = build_space(stock, singles=singles, allow_polarized=allow_polarized, bounds=bounds)
     check_supply(space, stages, bounds)
     if for_people:
         check_reach(space, stages)
     spare = SPARE if for_people else 1
-    classes = [StageClasses(topo, target, space, singles=singles, label=f"stage {i + 1}")
-               for i, (topo, target) in enumerate(stages)]
+    classes = [
+        StageClasses(topo, target, space, singles=singles, label=f"stage {i + 1}")
+        for i, (topo, target) in enumerate(stages)
+    ]
     notes: list[str] = []
     if len(stages) == 1:
         topo, target = stages[0]
-        problem = StageProblem(topo, target, space,
-                               {p.name: space.values[p.kind] for p in topo.positions})
+        problem = StageProblem(
+            topo, target, space, {p.name: space.values[p.kind] for p in topo.positions}
+        )
         rows, _ = problem.best(top * spare)
         found = [((float(rows.score[i]),), ((None, i),)) for i in range(len(rows))]
         loaded = {(0, None): rows}
@@ -116,18 +128,25 @@ def search(stock, stages, *, singles: bool = False, allow_polarized: bool = Fals
         if note:
             notes.append(note)
     if not found:
-        raise NoDesignError("no combination of the parts on hand fills every position of "
-                            "every stage with the quantities in stock")
+        raise NoDesignError(
+            "no combination of the parts on hand fills every position of "
+            "every stage with the quantities in stock"
+        )
     opamp, warnings = choose_opamp(stock.opamps, stages)
-    candidates = [build_candidate(stages, loaded, space, rows, key, opamp, warnings + notes)
-                  for key, rows in found]
+    candidates = [
+        build_candidate(stages, loaded, space, rows, key, opamp, warnings + notes)
+        for key, rows in found
+    ]
     candidates = (distinct(candidates) if for_people else candidates)[:top]
     curve = []
     if tradeoff:
         curve, skipped = trade(classes, space.counts)
         if skipped:
-            notes.append("trade-off: piece counts " + ", ".join(map(str, skipped))
-                         + " left out (the joint allocation hit its step limit there)")
+            notes.append(
+                "trade-off: piece counts "
+                + ", ".join(map(str, skipped))
+                + " left out (the joint allocation hit its step limit there)"
+            )
     return SearchResult(candidates, curve, tuple(notes))
 
 
@@ -137,12 +156,16 @@ def best_combinations(classes, space: Space, *, top: int):
     Exact unless the allocation stopped at its step limit (then the note says so)."""
     t = max(min(c.best().values(), default=math.inf) for c in classes)
     while True:
-        found, loaded, complete = combine([c.classes(t) for c in classes], space.counts,
-                                          top=top)
+        found, loaded, complete = combine([c.classes(t) for c in classes], space.counts, top=top)
         if not complete and found:
-            return found, loaded, (
-                "the stages compete for scarce pieces and the joint allocation stopped at "
-                f"its step limit: these are the best combinations found, not proven optimal")
+            return (
+                found,
+                loaded,
+                (
+                    "the stages compete for scarce pieces and the joint allocation stopped at "
+                    "its step limit: these are the best combinations found, not proven optimal"
+                ),
+            )
         if len(found) >= top or math.isinf(t):
             return found, loaded, None
         t = grow(t)
@@ -152,17 +175,24 @@ def build_candidate(stages, loaded, space, rows, key, opamp, warnings) -> Candid
     """The picker.parts record of one combination (the boundary conversion)."""
     choices = []
     pieces = 0
-    for s, ((topo, target), (j, i)) in enumerate(zip(stages, rows)):
+    for s, ((topo, target), (j, i)) in enumerate(zip(stages, rows, strict=False)):
         stage_rows = loaded[(s, j)]
         pieces += int(stage_rows.pieces[i])
-        positions = tuple((p.name, space.arrangement(p.kind, int(stage_rows.idx[p.name][i])))
-                          for p in topo.positions)
+        positions = tuple(
+            (p.name, space.arrangement(p.kind, int(stage_rows.idx[p.name][i])))
+            for p in topo.positions
+        )
         values = {name: arr.value for name, arr in positions}
         f0, q, gain = topo.characteristics(values)
         achieved = StageTarget(float(f0), None if q is None else float(q), float(gain))
         choices.append(StageChoice(topo.key, target, achieved, positions))
-    return Candidate(score=float(key[0]), pieces=pieces, stages=tuple(choices),
-                     opamp=opamp, warnings=tuple(warnings))
+    return Candidate(
+        score=float(key[0]),
+        pieces=pieces,
+        stages=tuple(choices),
+        opamp=opamp,
+        warnings=tuple(warnings),
+    )
 
 
 def check_supply(space: Space, stages, bounds: Bounds) -> None:
@@ -178,15 +208,19 @@ def check_supply(space: Space, stages, bounds: Bounds) -> None:
             continue
         lo, hi = bounds.of(kind)
         if len(space.values[kind]) == 0:
-            raise NoDesignError(f"no {kind} between {format_rkm(lo, kind)} and "
-                                f"{format_rkm(hi, kind)} in stock (singles or pairs; used-up"
-                                + (" and polarized" if kind == "capacitor" else "")
-                                + " lines do not count)")
+            raise NoDesignError(
+                f"no {kind} between {format_rkm(lo, kind)} and "
+                f"{format_rkm(hi, kind)} in stock (singles or pairs; used-up"
+                + (" and polarized" if kind == "capacitor" else "")
+                + " lines do not count)"
+            )
         if space.usable[kind] < n:
             count = len(stages)
-            raise NoDesignError(f"the {count} stage{'s' if count > 1 else ''} "
-                                f"need{'' if count > 1 else 's'} {n} "
-                                f"{kind}s, the stock has {space.usable[kind]} usable")
+            raise NoDesignError(
+                f"the {count} stage{'s' if count > 1 else ''} "
+                f"need{'' if count > 1 else 's'} {n} "
+                f"{kind}s, the stock has {space.usable[kind]} usable"
+            )
 
 
 def check_reach(space: Space, stages) -> None:
@@ -220,11 +254,16 @@ def check_reach(space: Space, stages) -> None:
         have = "; ".join(
             f"{kind}s {format_rkm(float(space.values[kind].value[0]), kind)} .. "
             f"{format_rkm(float(space.values[kind].value[-1]), kind)}"
-            for kind in sorted(kinds))
+            for kind in sorted(kinds)
+        )
         side = "lower" if target.f0_hz < lo else "higher"
-        hint = ("larger parts (raise --r-max/--c-max)" if side == "lower"
-                else "smaller parts (lower --r-min/--c-min)")
+        hint = (
+            "larger parts (raise --r-max/--c-max)"
+            if side == "lower"
+            else "smaller parts (lower --r-min/--c-min)"
+        )
         raise NoDesignError(
             f"stage {s} ({topo.key}) needs f0 {format_si(target.f0_hz, 'Hz')}, {side} than "
             f"the parts on hand reach ({format_si(lo, 'Hz')} .. {format_si(hi, 'Hz')} "
-            f"with {have}); it needs {hint}")
+            f"with {have}); it needs {hint}"
+        )

@@ -19,11 +19,12 @@ from picker.errors import NoDesignError
 
 EPS = 1e-9
 BLOCK = 1 << 18
-LIMIT = 4_000_000          # rows a group may hold before the search gives up
+LIMIT = 4_000_000  # rows a group may hold before the search gives up
 
 
-def group_rows(group, arrays: dict, ctx, *, neighbors: bool = False, block: int = BLOCK,
-               outer=None) -> Iterator[dict[str, np.ndarray]]:
+def group_rows(
+    group, arrays: dict, ctx, *, neighbors: bool = False, block: int = BLOCK, outer=None
+) -> Iterator[dict[str, np.ndarray]]:
     """Blocks of complete rows of ``group`` (position -> index array).
 
     ``arrays``: position -> :class:`picker.search.space.Values`. ``ctx``: the
@@ -39,7 +40,7 @@ def group_rows(group, arrays: dict, ctx, *, neighbors: bool = False, block: int 
         outer = np.arange(len(arrays[first]), dtype=np.int64)
     start, size = 0, 16
     while start < outer.size:
-        rows = {first: outer[start:start + size]}
+        rows = {first: outer[start : start + size]}
         current = ctx() if callable(ctx) else ctx
         yield from _expand(group.steps, 1, rows, arrays, current, neighbors, block)
         start += size
@@ -90,7 +91,7 @@ def _ranges(step, rows, arrays, ctx, values, neighbors, nrows):
         los.append(a)
         his.append(b)
     lo, hi = np.stack(los, axis=1), np.stack(his, axis=1)
-    if lo.shape[1] > 1:                  # make the ranges of a row disjoint
+    if lo.shape[1] > 1:  # make the ranges of a row disjoint
         order = np.argsort(lo, axis=1, kind="stable")
         lo, hi = np.take_along_axis(lo, order, 1), np.take_along_axis(hi, order, 1)
         reach = hi[:, 0].copy()
@@ -128,9 +129,11 @@ def collect(blocks, what: str) -> dict[str, np.ndarray]:
     for rows in blocks:
         total += next(iter(rows.values())).size
         if total > LIMIT:
-            raise NoDesignError(f"{what}: more than {LIMIT:,} partial assignments lie this "
-                                "far from the targets; the stock is too far from them "
-                                "to search exhaustively (narrow the bounds or add parts)")
+            raise NoDesignError(
+                f"{what}: more than {LIMIT:,} partial assignments lie this "
+                "far from the targets; the stock is too far from them "
+                "to search exhaustively (narrow the bounds or add parts)"
+            )
         parts.append(rows)
     if not parts:
         return {}

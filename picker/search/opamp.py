@@ -35,8 +35,10 @@ def choose_opamp(opamps, stages) -> tuple[OpAmp | None, list[str]]:
     need = required_gbw(stages)
     on_hand = [o for o in opamps if o.qty > 0]
     if not on_hand:
-        return None, ["no op amp in stock: add one with a GBW of at least "
-                      f"{format_si(need, 'Hz')} ({n} channel{'s' if n > 1 else ''})"]
+        return None, [
+            "no op amp in stock: add one with a GBW of at least "
+            f"{format_si(need, 'Hz')} ({n} channel{'s' if n > 1 else ''})"
+        ]
     enough = [o for o in on_hand if o.qty * o.channels >= n]
     good = [o for o in enough if o.gbw >= need]
     if good:
@@ -45,10 +47,14 @@ def choose_opamp(opamps, stages) -> tuple[OpAmp | None, list[str]]:
     best = max(pool, key=lambda o: (o.gbw, -o.index))
     warnings = []
     if not enough:
-        warnings.append(f"no op amp line has {n} channels on hand for {n} stages; "
-                        f"'{best.name}' has {best.qty * best.channels}")
+        warnings.append(
+            f"no op amp line has {n} channels on hand for {n} stages; "
+            f"'{best.name}' has {best.qty * best.channels}"
+        )
     if best.gbw < need:
-        warnings.append(f"no op amp in stock meets GBW >= {format_si(need, 'Hz')} "
-                        f"(100 x noise gain x f0 x Q, common practice); using '{best.name}' "
-                        f"({format_si(best.gbw, 'Hz')}): expect f0 and Q to shift")
+        warnings.append(
+            f"no op amp in stock meets GBW >= {format_si(need, 'Hz')} "
+            f"(100 x noise gain x f0 x Q, common practice); using '{best.name}' "
+            f"({format_si(best.gbw, 'Hz')}): expect f0 and Q to shift"
+        )
     return best, warnings

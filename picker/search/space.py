@@ -41,28 +41,29 @@ class Bounds:
 @dataclass(frozen=True)
 class Unit:
     kind: str
-    line: object              # stock.model.Resistor | Capacitor
+    line: object  # stock.model.Resistor | Capacitor
     value: float
     tolerance: float
     count: int
-    measured: int | None      # index into line.measured, None for the nominal pieces
+    measured: int | None  # index into line.measured, None for the nominal pieces
 
     def piece(self) -> Piece:
-        return Piece(line=self.line, value=self.value, tolerance=self.tolerance,
-                     measured=self.measured)
+        return Piece(
+            line=self.line, value=self.value, tolerance=self.tolerance, measured=self.measured
+        )
 
 
 @dataclass(frozen=True)
 class Values:
     """Realizable values of one kind, sorted by value. Parallel arrays of equal length."""
 
-    value: np.ndarray     # float64, ohm or farad
-    pieces: np.ndarray    # int64, 1 or 2
-    unit_a: np.ndarray    # int64, global unit id
-    unit_b: np.ndarray    # int64, global unit id or -1 for a single
-    code: np.ndarray      # int64, SINGLE | SERIES | PARALLEL
-    tol_max: np.ndarray   # float64, worst tolerance of the pieces
-    tol_sum: np.ndarray   # float64, sum of the pieces' tolerances
+    value: np.ndarray  # float64, ohm or farad
+    pieces: np.ndarray  # int64, 1 or 2
+    unit_a: np.ndarray  # int64, global unit id
+    unit_b: np.ndarray  # int64, global unit id or -1 for a single
+    code: np.ndarray  # int64, SINGLE | SERIES | PARALLEL
+    tol_max: np.ndarray  # float64, worst tolerance of the pieces
+    tol_sum: np.ndarray  # float64, sum of the pieces' tolerances
 
     def __len__(self) -> int:
         return int(self.value.size)
@@ -79,9 +80,9 @@ class Space:
     """Units of a stock and the realizable values of each kind."""
 
     units: tuple[Unit, ...]
-    counts: np.ndarray                 # int64 per unit id
-    values: dict[str, Values]          # "resistor" | "capacitor" -> Values
-    usable: dict[str, int]             # pieces on hand per kind (units usable at all)
+    counts: np.ndarray  # int64 per unit id
+    values: dict[str, Values]  # "resistor" | "capacitor" -> Values
+    usable: dict[str, int]  # pieces on hand per kind (units usable at all)
 
     def arrangement(self, kind: str, index: int) -> Arrangement:
         """The picker.parts record of value ``index`` of ``kind`` (the boundary conversion)."""
@@ -103,15 +104,24 @@ def stock_units(stock: Stock, *, allow_polarized: bool = False) -> list[Unit]:
             if kind == "capacitor" and line.polarized and not allow_polarized:
                 continue
             if line.nominal_qty > 0:
-                units.append(Unit(kind, line, float(line.value), float(line.tolerance),
-                                  int(line.nominal_qty), None))
+                units.append(
+                    Unit(
+                        kind,
+                        line,
+                        float(line.value),
+                        float(line.tolerance),
+                        int(line.nominal_qty),
+                        None,
+                    )
+                )
             for i, reading in enumerate(line.measured):
                 units.append(Unit(kind, line, float(reading), float(line.meter), 1, i))
     return units
 
 
-def build_space(stock: Stock, *, singles: bool = False, allow_polarized: bool = False,
-                bounds: Bounds = Bounds()) -> Space:
+def build_space(
+    stock: Stock, *, singles: bool = False, allow_polarized: bool = False, bounds: Bounds = Bounds()
+) -> Space:
     """Units and sorted realizable values of ``stock`` under ``bounds``."""
     units = stock_units(stock, allow_polarized=allow_polarized)
     counts = np.array([u.count for u in units], dtype=np.int64)
@@ -127,11 +137,20 @@ def build_space(stock: Stock, *, singles: bool = False, allow_polarized: bool = 
 def _kind_values(kind, ids, units, counts, singles, limits) -> Values:
     val = np.array([units[i].value for i in ids], dtype=float)
     tol = np.array([units[i].tolerance for i in ids], dtype=float)
-    cols = [(val, np.ones(ids.size, np.int64), ids, np.full(ids.size, -1, np.int64),
-             np.full(ids.size, SINGLE, np.int64), tol, tol)]
+    cols = [
+        (
+            val,
+            np.ones(ids.size, np.int64),
+            ids,
+            np.full(ids.size, -1, np.int64),
+            np.full(ids.size, SINGLE, np.int64),
+            tol,
+            tol,
+        )
+    ]
     if not singles and ids.size:
-        ia, ib = np.triu_indices(ids.size)           # unordered pairs, a <= b
-        keep = (ia != ib) | (counts[ids[ia]] >= 2)    # the same unit twice needs two pieces
+        ia, ib = np.triu_indices(ids.size)  # unordered pairs, a <= b
+        keep = (ia != ib) | (counts[ids[ia]] >= 2)  # the same unit twice needs two pieces
         ia, ib = ia[keep], ib[keep]
         a, b = val[ia], val[ib]
         plus, product = a + b, a * b / (a + b)
@@ -139,9 +158,17 @@ def _kind_values(kind, ids, units, counts, singles, limits) -> Values:
         series, parallel = (plus, product) if kind == "resistor" else (product, plus)
         n = ia.size
         for combined, code in ((series, SERIES), (parallel, PARALLEL)):
-            cols.append((combined, np.full(n, 2, np.int64), ids[ia], ids[ib],
-                         np.full(n, code, np.int64), np.maximum(tol[ia], tol[ib]),
-                         tol[ia] + tol[ib]))
+            cols.append(
+                (
+                    combined,
+                    np.full(n, 2, np.int64),
+                    ids[ia],
+                    ids[ib],
+                    np.full(n, code, np.int64),
+                    np.maximum(tol[ia], tol[ib]),
+                    tol[ia] + tol[ib],
+                )
+            )
     arrays = [np.concatenate([c[k] for c in cols]) for k in range(len(_FIELDS))]
     lo, hi = limits
     inside = (arrays[0] >= lo) & (arrays[0] <= hi)

@@ -28,9 +28,9 @@ import numpy as np
 from picker.search import join
 from picker.search.plans import WIDE, plan_for, windows
 
-PROBE_KEEP = 64            # rows per group kept by the probe of a multi-group plan
-PROBE_ROWS = 1024          # rows per block kept by the probe of a one-group plan
-PROBE_OUTER = 32           # outer values the probe of a one-group plan tries
+PROBE_KEEP = 64  # rows per group kept by the probe of a multi-group plan
+PROBE_ROWS = 1024  # rows per block kept by the probe of a one-group plan
+PROBE_OUTER = 32  # outer values the probe of a one-group plan tries
 
 
 @dataclass(frozen=True)
@@ -48,9 +48,14 @@ class StageRows:
         return int(self.score.size)
 
     def take(self, sel) -> StageRows:
-        return StageRows({p: i[sel] for p, i in self.idx.items()}, self.score[sel],
-                         self.pieces[sel], self.tol_max[sel], self.tol_sum[sel],
-                         self.units[sel])
+        return StageRows(
+            {p: i[sel] for p, i in self.idx.items()},
+            self.score[sel],
+            self.pieces[sel],
+            self.tol_max[sel],
+            self.tol_sum[sel],
+            self.units[sel],
+        )
 
 
 def scores(topology, target, values: dict, only=("f0", "q", "gain")) -> np.ndarray:
@@ -105,7 +110,7 @@ class StageProblem:
             t = min(float(rows.score[need - 1]), cap)
             return self.within(t), t
         if self._cache is not None and self._cache[0] >= cap:
-            return self.within(cap), cap        # every row <= cap is already known
+            return self.within(cap), cap  # every row <= cap is already known
         probe = self._rows(0.0, probe=True)
         t = float(probe.score[min(need, len(probe)) - 1]) if len(probe) else 1e-4
         t = min(t, cap)
@@ -122,8 +127,7 @@ class StageProblem:
 
     # ------------------------------------------------------------------ machinery
     def _ctx(self, t: float, probe: bool):
-        return windows(self.target, 0.0 if probe else t, self.limits) \
-            if probe or t < WIDE else None
+        return windows(self.target, 0.0 if probe else t, self.limits) if probe or t < WIDE else None
 
     def _rows(self, t: float, *, probe: bool, shrink: int | None = None) -> StageRows:
         """Rows with score <= t (probe: rows near the zero-width windows, any score).
@@ -141,9 +145,13 @@ class StageProblem:
                 n = len(self.arrays[groups[0].steps[0].position])
                 outer = np.arange(0, n, max(1, n // PROBE_OUTER), dtype=np.int64)
             kept = []
-            for rows in join.group_rows(groups[0], self.arrays,
-                                        lambda: self._ctx(state["t"], probe),
-                                        neighbors=probe, outer=outer):
+            for rows in join.group_rows(
+                groups[0],
+                self.arrays,
+                lambda: self._ctx(state["t"], probe),
+                neighbors=probe,
+                outer=outer,
+            ):
                 k = self._filter(rows, state["t"], probe)
                 if k is None:
                     continue
@@ -155,24 +163,23 @@ class StageProblem:
             if not kept:
                 return self._finish({n: np.zeros(0, np.int64) for n in self.names}, t, probe)
             merged = {n: np.concatenate([k[0][n] for k in kept]) for n in self.names}
-            return self._finish(merged, t, probe,
-                                np.concatenate([k[1] for k in kept]))
+            return self._finish(merged, t, probe, np.concatenate([k[1] for k in kept]))
         parts = []
         ctx = self._ctx(t, probe)
         for group in groups:
-            rows = join.collect(join.group_rows(group, self.arrays, ctx, neighbors=probe),
-                                f"{self.label} ({self.topology.key})")
+            rows = join.collect(
+                join.group_rows(group, self.arrays, ctx, neighbors=probe),
+                f"{self.label} ({self.topology.key})",
+            )
             if not rows:
                 return self._finish({n: np.zeros(0, np.int64) for n in self.names}, t, probe)
             part = scores(self.topology, self.target, self._values(rows), group.determines)
             order = np.argsort(part, kind="stable")
-            if probe:
-                order = order[:PROBE_KEEP]
-            else:
-                order = order[part[order] <= t]
+            order = order[:PROBE_KEEP] if probe else order[part[order] <= t]
             parts.append({p: i[order] for p, i in rows.items()})
-        kept = [k for k in (self._filter(rows, t, probe) for rows in _cross(parts))
-                if k is not None]
+        kept = [
+            k for k in (self._filter(rows, t, probe) for rows in _cross(parts)) if k is not None
+        ]
         if not kept:
             return self._finish({n: np.zeros(0, np.int64) for n in self.names}, t, probe)
         merged = {n: np.concatenate([k[0][n] for k in kept]) for n in self.names}
@@ -180,7 +187,7 @@ class StageProblem:
 
     def _filter(self, rows, t, probe):
         s = scores(self.topology, self.target, self._values(rows))
-        if probe:                     # the probe only needs its best few
+        if probe:  # the probe only needs its best few
             keep = np.argsort(s, kind="stable")[:PROBE_ROWS]
         else:
             keep = np.flatnonzero(s <= t)
@@ -191,8 +198,7 @@ class StageProblem:
 
     def _values(self, rows) -> dict:
         n = next(iter(rows.values())).size
-        return {p: (self.arrays[p].value[rows[p]] if p in rows else np.ones(n))
-                for p in self.names}
+        return {p: (self.arrays[p].value[rows[p]] if p in rows else np.ones(n)) for p in self.names}
 
     def _units(self, rows) -> np.ndarray:
         cols = []
@@ -216,7 +222,7 @@ class StageProblem:
         if s is None:
             n = rows[self.names[0]].size
             s = scores(self.topology, self.target, self._values(rows)) if n else np.zeros(0)
-            keep = (np.ones(s.size, bool) if probe else s <= t)
+            keep = np.ones(s.size, bool) if probe else s <= t
             if n:
                 keep &= self._feasible(rows)
             rows = {p: rows[p][keep] for p in self.names}
@@ -226,9 +232,14 @@ class StageProblem:
         tol_sum = sum(self.arrays[p].tol_sum[rows[p]] for p in self.names)
         keys = [rows[p] for p in reversed(self.names)] + [tol_sum, tol_max, pieces, s]
         order = np.lexsort(keys) if s.size else np.zeros(0, np.int64)
-        out = StageRows(rows, s, np.asarray(pieces, np.int64), np.asarray(tol_max, float),
-                        np.asarray(tol_sum, float), self._units(rows) if s.size else
-                        np.zeros((0, 2 * len(self.names)), np.int64))
+        out = StageRows(
+            rows,
+            s,
+            np.asarray(pieces, np.int64),
+            np.asarray(tol_max, float),
+            np.asarray(tol_sum, float),
+            self._units(rows) if s.size else np.zeros((0, 2 * len(self.names)), np.int64),
+        )
         return out.take(order)
 
 
@@ -244,12 +255,11 @@ def _cross(parts: list[dict], block: int = join.BLOCK):
     rest = math.prod(sizes[1:])
     step = max(1, block // max(rest, 1))
     for start in range(0, sizes[0], step):
-        first = {p: i[start:start + step] for p, i in parts[0].items()}
+        first = {p: i[start : start + step] for p, i in parts[0].items()}
         local = [first] + parts[1:]
-        grids = np.meshgrid(*[np.arange(next(iter(p.values())).size) for p in local],
-                            indexing="ij")
+        grids = np.meshgrid(*[np.arange(next(iter(p.values())).size) for p in local], indexing="ij")
         out = {}
-        for part, grid in zip(local, grids):
+        for part, grid in zip(local, grids, strict=False):
             flat = grid.ravel()
             for p, idx in part.items():
                 out[p] = idx[flat]

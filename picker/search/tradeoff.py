@@ -24,7 +24,7 @@ from picker.search.allocate import combine
 from picker.search.stage import StageProblem, StageRows, patterns
 
 LOOK_AHEAD = False  # forward check in the trade-off: measured 6.7 s with, 4.5 s without (8th order)
-TRUNCATE = 256      # rows per class the trade-off loads first (more only if needed)
+TRUNCATE = 256  # rows per class the trade-off loads first (more only if needed)
 
 
 class StageClasses:
@@ -35,7 +35,7 @@ class StageClasses:
         self.by_j: dict[int, list[tuple[StageProblem, dict]]] = {}
         for pat in patterns(len(topo.positions), singles):
             arrays, back = {}, {}
-            for p, n in zip(topo.positions, pat):
+            for p, n in zip(topo.positions, pat, strict=False):
                 values = space.values[p.kind]
                 mask = values.pieces == n
                 arrays[p.name], back[p.name] = values.subset(mask), np.flatnonzero(mask)
@@ -72,16 +72,24 @@ class StageClasses:
                 out.append((j, b, lambda j=j: self.rows(j, t, keep=keep, tails=tails)))
         return out
 
-
-    def rows(self, j: int, t: float, *, keep: int | None = None,
-             tails: dict | None = None) -> StageRows:
+    def rows(
+        self, j: int, t: float, *, keep: int | None = None, tails: dict | None = None
+    ) -> StageRows:
         """Every assignment of class ``j`` with score ``<= t`` (or its best ``keep``),
         indices into the full value arrays (so :meth:`Space.arrangement` reads them)."""
         parts = []
         for problem, back in self.by_j[j]:
             rows = problem.within(t) if keep is None else problem.best(keep, cap=t)[0]
-            parts.append(StageRows({n: back[n][i] for n, i in rows.idx.items()}, rows.score,
-                                   rows.pieces, rows.tol_max, rows.tol_sum, rows.units))
+            parts.append(
+                StageRows(
+                    {n: back[n][i] for n, i in rows.idx.items()},
+                    rows.score,
+                    rows.pieces,
+                    rows.tol_max,
+                    rows.tol_sum,
+                    rows.units,
+                )
+            )
         merged = merge(parts)
         merged = merged.take(slice(0, int(np.searchsorted(merged.score, t, side="right"))))
         if keep is not None and len(merged) > keep:
@@ -102,9 +110,13 @@ def merge(parts: list[StageRows]) -> StageRows:
     if len(nonempty) == 1:
         return nonempty[0]
     names = list(nonempty[0].idx)
-    merged = StageRows({n: np.concatenate([p.idx[n] for p in nonempty]) for n in names},
-                       *(np.concatenate([getattr(p, f) for p in nonempty])
-                         for f in ("score", "pieces", "tol_max", "tol_sum", "units")))
+    merged = StageRows(
+        {n: np.concatenate([p.idx[n] for p in nonempty]) for n in names},
+        *(
+            np.concatenate([getattr(p, f) for p in nonempty])
+            for f in ("score", "pieces", "tol_max", "tol_sum", "units")
+        ),
+    )
     order = np.lexsort((merged.tol_sum, merged.tol_max, merged.pieces, merged.score))
     return merged.take(order)
 
@@ -120,7 +132,7 @@ def tradeoff(classes: list[StageClasses], counts):
     if len(classes) == 1:
         return sorted((j, s) for j, s in best[0].items() if math.isfinite(s)), []
     lb = {0: 0.0}
-    for b in best:                      # LB(k) by dynamic programming over the stages
+    for b in best:  # LB(k) by dynamic programming over the stages
         nxt: dict[int, float] = {}
         for k, s in lb.items():
             for j, sj in b.items():
@@ -133,12 +145,15 @@ def tradeoff(classes: list[StageClasses], counts):
         t, keep = lb[k], TRUNCATE
         while True:
             tails: dict = {}
-            stage_classes = [c.classes(t, keep=keep, tails=tails.setdefault(s, {}))
-                             for s, c in enumerate(classes)]
+            stage_classes = [
+                c.classes(t, keep=keep, tails=tails.setdefault(s, {}))
+                for s, c in enumerate(classes)
+            ]
             # no suffix memo here: with the total fixed it costs more than it saves
             # (measured: 8th order on the sample, 20 s without, 86 s with)
-            found, loaded, complete = combine(stage_classes, counts, top=1, pieces_total=k,
-                                              memo=False, look_ahead=LOOK_AHEAD)
+            found, loaded, complete = combine(
+                stage_classes, counts, top=1, pieces_total=k, memo=False, look_ahead=LOOK_AHEAD
+            )
             if not complete:
                 skipped.append(k)
                 break
@@ -146,7 +161,7 @@ def tradeoff(classes: list[StageClasses], counts):
             # could beat the score found: every left-out row scores >= its tail
             cut = [tails[s][j] for (s, j) in loaded if j in tails[s]]
             if not found and cut:
-                keep *= 8                  # the cut rows may hold the feasible ones
+                keep *= 8  # the cut rows may hold the feasible ones
                 continue
             if found:
                 score = float(found[0][0][0])

@@ -40,5 +40,6 @@ class PickerApp(App):
 
     def action_help(self) -> None:
         from picker.ui.screens.help import HelpScreen
+
         if not isinstance(self.screen, HelpScreen):
             self.push_screen(HelpScreen())

@@ -57,50 +57,63 @@ def parse_value(text: str, kind: str | None = None) -> float:
 def refuse_sample(path: Path) -> None:
     """The bundled sample is read only here, as in the CLI: StockEditError saying why."""
     from stock.errors import StockEditError
+
     common = need("picker.commands.common", "is_bundled_sample")
     if path is not None and common.is_bundled_sample(path):
-        raise StockEditError("this is the bundled sample, which picker does not change: copy "
-                             "it to ./inventory.toml (or name your own with --stock FILE)")
+        raise StockEditError(
+            "this is the bundled sample, which picker does not change: copy "
+            "it to ./inventory.toml (or name your own with --stock FILE)"
+        )
 
 
 def change_qty(path: Path, kind: str, index: int, delta: int, *, expect_sha256: str | None):
     refuse_sample(path)
     mod = need("stock.file", "apply_changes", "QtyChange")
-    return mod.apply_changes(path, [mod.QtyChange(kind, index, delta)],
-                             expect_sha256=expect_sha256)
+    return mod.apply_changes(path, [mod.QtyChange(kind, index, delta)], expect_sha256=expect_sha256)
 
 
 def add_line(path: Path, kind: str, fields: dict, *, expect_sha256: str | None):
     refuse_sample(path)
-    return need("stock.file", "add_line").add_line(path, kind, fields,
-                                                   expect_sha256=expect_sha256)
+    return need("stock.file", "add_line").add_line(path, kind, fields, expect_sha256=expect_sha256)
 
 
 # design ----------------------------------------------------------------------------
 def plan(targets: Targets):
     """The stage list for the targets: [(Topology, StageTarget)]."""
     filters = need("picker.filters", "plan_stages")
-    return filters.plan_stages(targets.response_type, response=targets.response,
-                               order=targets.order, fc_hz=targets.fc_hz, gain=targets.gain,
-                               ripple_db=targets.ripple_db, q=targets.q,
-                               family=targets.family)
+    return filters.plan_stages(
+        targets.response_type,
+        response=targets.response,
+        order=targets.order,
+        fc_hz=targets.fc_hz,
+        gain=targets.gain,
+        ripple_db=targets.ripple_db,
+        q=targets.q,
+        family=targets.family,
+    )
 
 
 def search(stock, stages, targets: Targets, *, top: int = 8):
     mod = need("picker.search", "search", "Bounds")
-    bounds = mod.Bounds(r_min=targets.r_min, r_max=targets.r_max,
-                        c_min=targets.c_min, c_max=targets.c_max)
-    return mod.search(stock, stages, singles=targets.singles,
-                      allow_polarized=targets.allow_polarized, bounds=bounds, top=top,
-                      for_people=True)
+    bounds = mod.Bounds(
+        r_min=targets.r_min, r_max=targets.r_max, c_min=targets.c_min, c_max=targets.c_max
+    )
+    return mod.search(
+        stock,
+        stages,
+        singles=targets.singles,
+        allow_polarized=targets.allow_polarized,
+        bounds=bounds,
+        top=top,
+        for_people=True,
+    )
 
 
 def response(candidate, freqs_hz):
     """Complex H(j 2 pi f) of the whole candidate, op amp GBW included when known."""
     get_topology = need("picker.filters", "get_topology").get_topology
     analysis = need("picker.analysis", "cascade_response")
-    nets = [get_topology(stage.topology).netlist(stage.values())
-            for stage in candidate.stages]
+    nets = [get_topology(stage.topology).netlist(stage.values()) for stage in candidate.stages]
     gbw = candidate.opamp.gbw if candidate.opamp is not None else None
     return analysis.cascade_response(nets, freqs_hz, gbw_hz=gbw)
 
@@ -122,16 +135,24 @@ def f0_histogram(budget_) -> dict:
     """The Monte Carlo f0 histogram of a ``picker.budget.Budget`` as plain data."""
     mc = budget_.monte_carlo
     h = mc.histogram
-    return {"edges": list(h.edges), "counts": list(h.counts), "target": h.target,
-            "nominal": h.nominal, "window": dict(mc.window).get("f0", 0.0),
-            "trials": mc.trials, "yield": mc.yield_, "quantity": h.quantity,
-            "outside": h.outside}
+    return {
+        "edges": list(h.edges),
+        "counts": list(h.counts),
+        "target": h.target,
+        "nominal": h.nominal,
+        "window": dict(mc.window).get("f0", 0.0),
+        "trials": mc.trials,
+        "yield": mc.yield_,
+        "quantity": h.quantity,
+        "outside": h.outside,
+    }
 
 
 # building --------------------------------------------------------------------------
 def plan_build(candidate, stock, targets: Targets | None):
     """The checked build plan of ``candidate`` (nothing is written yet)."""
     import dataclasses
+
     refuse_sample(stock.path)
     exp = need("picker.export", "design_from_candidate")
     building = need("picker.building", "plan_build", "do_build")

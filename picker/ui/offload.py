@@ -19,12 +19,20 @@ from collections.abc import Callable
 
 from stock.errors import PickerError
 
-PRELOAD = ["numpy", "stock.file", "stock.values",
-           "picker.filters", "picker.analysis", "picker.search.tradeoff",
-           "picker.search", "picker.budget", "picker.ui.backend"]
+PRELOAD = [
+    "numpy",
+    "stock.file",
+    "stock.values",
+    "picker.filters",
+    "picker.analysis",
+    "picker.search.tradeoff",
+    "picker.search",
+    "picker.budget",
+    "picker.ui.backend",
+]
 _context = None
 _context_lock = threading.Lock()
-_started = threading.Event()        # set once start() has run on the main thread
+_started = threading.Event()  # set once start() has run on the main thread
 START_WAIT_S = 30.0
 
 
@@ -48,6 +56,7 @@ def start() -> None:
     """
     context()
     from multiprocessing import forkserver
+
     saved = sys.stdout, sys.stderr
     sys.stdout, sys.stderr = sys.__stdout__, sys.__stderr__
     try:
@@ -74,7 +83,7 @@ def _child(conn, fn: Callable, args: tuple) -> None:
         result = ("other", f"{type(exc).__name__}: {exc}")
     try:
         conn.send(result)
-    except Exception as exc:      # an unpicklable result
+    except Exception as exc:  # an unpicklable result
         conn.send(("other", f"cannot send the result back: {exc}"))
     conn.close()
 
@@ -92,8 +101,9 @@ class Lane:
             raise JobError("the helper process for searches was not started")
         ctx = context()
         receive, send = ctx.Pipe(duplex=False)
-        proc = ctx.Process(target=_child, args=(send, fn, args), daemon=True,
-                           name=f"picker-{self.name}")
+        proc = ctx.Process(
+            target=_child, args=(send, fn, args), daemon=True, name=f"picker-{self.name}"
+        )
         with self._lock:
             self._kill(self._proc)
             self._proc = proc

@@ -34,7 +34,7 @@ def decades(f_lo_hz: float, f_hi_hz: float) -> list[float]:
     """Powers of ten inside [f_lo_hz, f_hi_hz]."""
     lo = math.ceil(math.log10(f_lo_hz) - 1e-9)
     hi = math.floor(math.log10(f_hi_hz) + 1e-9)
-    return [10.0 ** k for k in range(lo, hi + 1)]
+    return [10.0**k for k in range(lo, hi + 1)]
 
 
 def nice_range(lo: float, hi: float, step: float) -> tuple[float, float]:
@@ -46,8 +46,15 @@ def nice_range(lo: float, hi: float, step: float) -> tuple[float, float]:
     return a, b
 
 
-def braille_curve(xs: Sequence[float], ys: Sequence[float], *, width: int, height: int,
-                  x_range: tuple[float, float], y_range: tuple[float, float]) -> list[str]:
+def braille_curve(
+    xs: Sequence[float],
+    ys: Sequence[float],
+    *,
+    width: int,
+    height: int,
+    x_range: tuple[float, float],
+    y_range: tuple[float, float],
+) -> list[str]:
     """Draw the polyline (xs, ys) in ``width`` x ``height`` braille cells.
 
     Points outside ``y_range`` are clipped to its edge; NaN breaks the line.
@@ -67,7 +74,7 @@ def braille_curve(xs: Sequence[float], ys: Sequence[float], *, width: int, heigh
             grid[r // 4][c // 2] |= _DOT[r % 4][c % 2]
 
     prev: tuple[int, int] | None = None
-    for x, y in zip(xs, ys):
+    for x, y in zip(xs, ys, strict=False):
         if x is None or y is None or math.isnan(x) or math.isnan(y) or not x0 <= x <= x1:
             prev = None
             continue
@@ -87,9 +94,18 @@ def braille_curve(xs: Sequence[float], ys: Sequence[float], *, width: int, heigh
     return ["".join(chr(BRAILLE_BASE + b) for b in row) for row in grid]
 
 
-def labelled_plot(xs: Sequence[float], ys: Sequence[float], *, width: int, height: int,
-                  x_range: tuple[float, float], y_range: tuple[float, float], y_step: float,
-                  y_unit: str, x_ticks: Sequence[tuple[float, str]]) -> list[str]:
+def labelled_plot(
+    xs: Sequence[float],
+    ys: Sequence[float],
+    *,
+    width: int,
+    height: int,
+    x_range: tuple[float, float],
+    y_range: tuple[float, float],
+    y_step: float,
+    y_unit: str,
+    x_ticks: Sequence[tuple[float, str]],
+) -> list[str]:
     """A braille curve with a y gutter (value labels) and an x axis line of tick labels.
 
     ``width`` is the whole width in characters; 7 go to the gutter. ``x_ticks`` are
@@ -111,9 +127,9 @@ def labelled_plot(xs: Sequence[float], ys: Sequence[float], *, width: int, heigh
     for x, label in x_ticks:
         pos = round((x - x0) / (x1 - x0) * (inner - 1)) if x1 != x0 else 0
         start = min(max(pos - len(label) // 2, 0), inner - len(label))
-        if start < 0 or any(ch != " " for ch in axis[max(start - 1, 0):start + len(label) + 1]):
+        if start < 0 or any(ch != " " for ch in axis[max(start - 1, 0) : start + len(label) + 1]):
             continue  # no room: skip rather than overprint
-        axis[start:start + len(label)] = list(label)
+        axis[start : start + len(label)] = list(label)
     lines.append(" " * (gutter - 1) + "└" + "─" * inner)
     lines.append(" " * gutter + "".join(axis))
     return lines
@@ -129,7 +145,7 @@ def count_bars(counts: Sequence[int], *, height: int, repeat: int = 1) -> list[s
         return []
     top = max(counts) or 1
     eighths = [round(c / top * height * 8) for c in counts]
-    eighths = [max(e, 1) if c else e for e, c in zip(eighths, counts)]
+    eighths = [max(e, 1) if c else e for e, c in zip(eighths, counts, strict=False)]
     lines = []
     for row in range(height - 1, -1, -1):
         lines.append("".join(BLOCKS[min(max(e - row * 8, 0), 8)] * repeat for e in eighths))

@@ -21,12 +21,12 @@ COLUMNS = ("kind", "value", "qty", "tol", "drawer", "about")
 class Row:
     kind: str
     index: int
-    value: float | None        # ohm or farad; gain-bandwidth in hertz for an op amp
+    value: float | None  # ohm or farad; gain-bandwidth in hertz for an op amp
     qty: int
-    cells: tuple[str, ...]     # the texts shown, in COLUMNS order
+    cells: tuple[str, ...]  # the texts shown, in COLUMNS order
 
 
-ASSUMED_MARK = "*"   # after a tolerance the file does not state (the default is assumed)
+ASSUMED_MARK = "*"  # after a tolerance the file does not state (the default is assumed)
 
 
 def _pct(fraction: float, assumed: bool) -> str:
@@ -34,32 +34,74 @@ def _pct(fraction: float, assumed: bool) -> str:
     return text + ASSUMED_MARK if assumed else text
 
 
-def rows_of(stock, fmt_value: Callable[[float, str], str],
-            fmt_si: Callable[[float, str], str]) -> list[Row]:
+def rows_of(
+    stock, fmt_value: Callable[[float, str], str], fmt_si: Callable[[float, str], str]
+) -> list[Row]:
     """One row per stock line: resistors, then capacitors, then op amps."""
     rows: list[Row] = []
     for r in stock.resistors:
         about = [r.note or ""]
         if r.measured:
             about.insert(0, f"{len(r.measured)} measured")
-        rows.append(Row("resistor", r.index, r.value, r.qty, (
-            "R", fmt_value(r.value, "resistor"), str(r.qty), _pct(r.tolerance,
-                                                                  r.tolerance_assumed),
-            r.location or "-", ", ".join(a for a in about if a))))
+        rows.append(
+            Row(
+                "resistor",
+                r.index,
+                r.value,
+                r.qty,
+                (
+                    "R",
+                    fmt_value(r.value, "resistor"),
+                    str(r.qty),
+                    _pct(r.tolerance, r.tolerance_assumed),
+                    r.location or "-",
+                    ", ".join(a for a in about if a),
+                ),
+            )
+        )
     for c in stock.capacitors:
-        about = [c.dielectric or "", fmt_si(c.voltage, "V") if c.voltage else "",
-                 "POLARIZED" if c.polarized else "", c.note or ""]
+        about = [
+            c.dielectric or "",
+            fmt_si(c.voltage, "V") if c.voltage else "",
+            "POLARIZED" if c.polarized else "",
+            c.note or "",
+        ]
         if c.measured:
             about.insert(0, f"{len(c.measured)} measured")
-        rows.append(Row("capacitor", c.index, c.value, c.qty, (
-            "C", fmt_value(c.value, "capacitor"), str(c.qty), _pct(c.tolerance,
-                                                                   c.tolerance_assumed),
-            c.location or "-", ", ".join(a for a in about if a))))
+        rows.append(
+            Row(
+                "capacitor",
+                c.index,
+                c.value,
+                c.qty,
+                (
+                    "C",
+                    fmt_value(c.value, "capacitor"),
+                    str(c.qty),
+                    _pct(c.tolerance, c.tolerance_assumed),
+                    c.location or "-",
+                    ", ".join(a for a in about if a),
+                ),
+            )
+        )
     for o in stock.opamps:
         about = [o.name, f"{o.channels} per package", o.note or ""]
-        rows.append(Row("opamp", o.index, o.gbw, o.qty, (
-            "op amp", fmt_si(o.gbw, "Hz"), str(o.qty), "", o.location or "-",
-            ", ".join(a for a in about if a))))
+        rows.append(
+            Row(
+                "opamp",
+                o.index,
+                o.gbw,
+                o.qty,
+                (
+                    "op amp",
+                    fmt_si(o.gbw, "Hz"),
+                    str(o.qty),
+                    "",
+                    o.location or "-",
+                    ", ".join(a for a in about if a),
+                ),
+            )
+        )
     return rows
 
 

@@ -73,6 +73,7 @@ def read_field(name: str, text: str):
         return int(text)
     if name == "fc":
         from stock.values import parse_frequency
+
         if not text:
             raise ValueParseError("fc is empty: write e.g. 1k or 2.5 kHz")
         f = parse_frequency(text)
@@ -98,6 +99,7 @@ def read_field(name: str, text: str):
         return r
     if name in ("r_min", "r_max", "c_min", "c_max"):
         from stock.values import parse_value
+
         kind = "resistor" if name.startswith("r") else "capacitor"
         if not text:
             raise ValueParseError(f"{TEXT_FIELDS[name][0]} is empty")
@@ -105,8 +107,15 @@ def read_field(name: str, text: str):
     raise KeyError(name)
 
 
-def read_targets(texts: dict[str, str], *, response_type: str, response: str, family: str,
-                 singles: bool, allow_polarized: bool) -> Targets:
+def read_targets(
+    texts: dict[str, str],
+    *,
+    response_type: str,
+    response: str,
+    family: str,
+    singles: bool,
+    allow_polarized: bool,
+) -> Targets:
     """All fields at once; raise ``FormError`` with every bad field."""
     values, errors = {}, {}
     for name in TEXT_FIELDS:
@@ -123,8 +132,19 @@ def read_targets(texts: dict[str, str], *, response_type: str, response: str, fa
             errors["q"] = "band-pass needs a Q (centre / bandwidth), e.g. 5"
     if errors:
         raise FormError(errors)
-    return Targets(response_type=response_type, response=response, order=values["order"],
-                   fc_hz=values["fc"], gain=values["gain"], q=values["q"],
-                   ripple_db=values["ripple"], family=None if family == "any" else family,
-                   r_min=values["r_min"], r_max=values["r_max"], c_min=values["c_min"],
-                   c_max=values["c_max"], singles=singles, allow_polarized=allow_polarized)
+    return Targets(
+        response_type=response_type,
+        response=response,
+        order=values["order"],
+        fc_hz=values["fc"],
+        gain=values["gain"],
+        q=values["q"],
+        ripple_db=values["ripple"],
+        family=None if family == "any" else family,
+        r_min=values["r_min"],
+        r_max=values["r_max"],
+        c_min=values["c_min"],
+        c_max=values["c_max"],
+        singles=singles,
+        allow_polarized=allow_polarized,
+    )

@@ -20,8 +20,14 @@ def test_no_terminal_no_ui(capsys):
 
 
 def test_no_terminal_no_ui_subprocess(tmp_path):
-    r = subprocess.run([sys.executable, "-m", "picker"], stdin=subprocess.DEVNULL,
-                       capture_output=True, text=True, cwd=tmp_path, timeout=60)
+    r = subprocess.run(
+        [sys.executable, "-m", "picker"],
+        stdin=subprocess.DEVNULL,
+        capture_output=True,
+        text=True,
+        cwd=tmp_path,
+        timeout=60,
+    )
     assert r.returncode == 2 and "needs a terminal" in r.stderr
     assert "Traceback" not in r.stderr
 
@@ -35,10 +41,18 @@ def test_help_names_every_command_and_gives_examples():
     assert "0 done, 1 no design is possible from this stock, 2 bad input" in text
 
 
-@pytest.mark.parametrize("argv", [["stock", "check", "--help"], ["stock", "adjust", "--help"],
-                                  ["stock", "list", "--help"], ["bom", "--help"],
-                                  ["netlist", "--help"], ["build", "--help"],
-                                  ["undo", "--help"]])
+@pytest.mark.parametrize(
+    "argv",
+    [
+        ["stock", "check", "--help"],
+        ["stock", "adjust", "--help"],
+        ["stock", "list", "--help"],
+        ["bom", "--help"],
+        ["netlist", "--help"],
+        ["build", "--help"],
+        ["undo", "--help"],
+    ],
+)
 def test_subcommand_help_has_examples(argv, capsys):
     with pytest.raises(SystemExit) as info:
         main(argv)

@@ -78,8 +78,22 @@ def run(capsys, *argv):
 
 
 def test_json_has_the_documented_shape_and_consistent_numbers(capsys, stock_file):
-    code, out, _ = run(capsys, "--stock", str(stock_file), "design", "lowpass", "--fc",
-                       "1k", "--order", "2", "--json", "--trials", "200", "--top", "3")
+    code, out, _ = run(
+        capsys,
+        "--stock",
+        str(stock_file),
+        "design",
+        "lowpass",
+        "--fc",
+        "1k",
+        "--order",
+        "2",
+        "--json",
+        "--trials",
+        "200",
+        "--top",
+        "3",
+    )
     assert code == 0
     doc = json.loads(out)
     assert set(doc) == {"candidates", "tradeoff"}
@@ -91,23 +105,22 @@ def test_json_has_the_documented_shape_and_consistent_numbers(capsys, stock_file
         assert set(cand) == {"score", "pieces", "stages", "budget", "warnings"}
         worst, pieces = 0.0, 0
         for stage in cand["stages"]:
-            assert set(stage) == {"topology", "order", "targets", "achieved", "positions",
-                                  "budget"}
+            assert set(stage) == {"topology", "order", "targets", "achieved", "positions", "budget"}
             topo = get_topology(stage["topology"])
             values = {}
             for ref, pos in stage["positions"].items():
                 assert pos["arrangement"] in ("single", "series", "parallel")
                 for part in pos["parts"]:
                     assert part["kind"] in ("resistor", "capacitor")
-                    assert part["location"] != "E1"        # polarized: never by default
-                    assert part["location"] != "A4"        # used up
+                    assert part["location"] != "E1"  # polarized: never by default
+                    assert part["location"] != "A4"  # used up
                     pieces += 1
                 values[ref] = pos["value"]
             f0, q, _ = topo.characteristics(values)
             assert math.isclose(stage["achieved"]["f0"], f0, rel_tol=1e-12)
             t = stage["targets"]
             # Butterworth second order: Q = 1/sqrt(2) (standard table value)
-            assert math.isclose(t["q"], 2 ** -0.5, rel_tol=1e-9)
+            assert math.isclose(t["q"], 2**-0.5, rel_tol=1e-9)
             worst = max(worst, abs(f0 / t["f0"] - 1), abs(q / t["q"] - 1))
         assert math.isclose(cand["score"], worst, rel_tol=1e-9, abs_tol=1e-15)
         assert cand["pieces"] == pieces
@@ -117,8 +130,22 @@ def test_json_has_the_documented_shape_and_consistent_numbers(capsys, stock_file
 
 def test_json_budget_present_when_the_budget_module_is(capsys, stock_file):
     pytest.importorskip("picker.budget")
-    code, out, _ = run(capsys, "--stock", str(stock_file), "design", "highpass", "--fc",
-                       "500", "--order", "1", "--json", "--trials", "100", "--top", "1")
+    code, out, _ = run(
+        capsys,
+        "--stock",
+        str(stock_file),
+        "design",
+        "highpass",
+        "--fc",
+        "500",
+        "--order",
+        "1",
+        "--json",
+        "--trials",
+        "100",
+        "--top",
+        "1",
+    )
     assert code == 0
     cand = json.loads(out)["candidates"][0]
     assert cand["budget"]["monte_carlo"]["trials"] == 100
@@ -126,8 +153,19 @@ def test_json_budget_present_when_the_budget_module_is(capsys, stock_file):
 
 
 def test_no_design_exits_1_and_says_what_is_missing(capsys, stock_file):
-    code, out, err = run(capsys, "--stock", str(stock_file), "design", "lowpass", "--fc",
-                         "1k", "--r-min", "2M", "--r-max", "3M")
+    code, out, err = run(
+        capsys,
+        "--stock",
+        str(stock_file),
+        "design",
+        "lowpass",
+        "--fc",
+        "1k",
+        "--r-min",
+        "2M",
+        "--r-max",
+        "3M",
+    )
     assert code == 1
     assert "no resistor between 2M and 3M" in err
     assert "Traceback" not in err
@@ -135,20 +173,26 @@ def test_no_design_exits_1_and_says_what_is_missing(capsys, stock_file):
 
 def test_too_few_capacitors_exits_1(capsys, tmp_path):
     path = tmp_path / "s.toml"
-    path.write_text('[[resistor]]\nvalue = "10k"\nqty = 20\n[[capacitor]]\nvalue = "10n"\n'
-                    'qty = 3\n', encoding="utf-8")
-    code, _, err = run(capsys, "--stock", str(path), "design", "lowpass", "--fc", "1k",
-                       "--order", "4")
+    path.write_text(
+        '[[resistor]]\nvalue = "10k"\nqty = 20\n[[capacitor]]\nvalue = "10n"\nqty = 3\n',
+        encoding="utf-8",
+    )
+    code, _, err = run(
+        capsys, "--stock", str(path), "design", "lowpass", "--fc", "1k", "--order", "4"
+    )
     assert code == 1
     assert "the 2 stages need 4 capacitors, the stock has 3 usable" in err
 
 
-@pytest.mark.parametrize("argv, quoted", [
-    (["--fc", "abc"], "abc"),
-    (["--fc", "1k", "--temp", "70..0"], "70..0"),
-    (["--fc", "1k", "--r-min", "10k", "--r-max", "1k"], "--r-min"),
-    (["--fc", "1k", "--c-min", "1x"], "1x"),
-])
+@pytest.mark.parametrize(
+    "argv, quoted",
+    [
+        (["--fc", "abc"], "abc"),
+        (["--fc", "1k", "--temp", "70..0"], "70..0"),
+        (["--fc", "1k", "--r-min", "10k", "--r-max", "1k"], "--r-min"),
+        (["--fc", "1k", "--c-min", "1x"], "1x"),
+    ],
+)
 def test_bad_input_exits_2(capsys, stock_file, argv, quoted):
     code, _, err = run(capsys, "--stock", str(stock_file), "design", "lowpass", *argv)
     assert code == 2
@@ -157,8 +201,19 @@ def test_bad_input_exits_2(capsys, stock_file, argv, quoted):
 
 def test_report_fits_80_columns_and_shows_parts_and_drawers(capsys, stock_file, monkeypatch):
     monkeypatch.setenv("COLUMNS", "80")
-    code, out, _ = run(capsys, "--stock", str(stock_file), "design", "lowpass", "--fc",
-                       "1k", "--order", "2", "--trials", "100")
+    code, out, _ = run(
+        capsys,
+        "--stock",
+        str(stock_file),
+        "design",
+        "lowpass",
+        "--fc",
+        "1k",
+        "--order",
+        "2",
+        "--trials",
+        "100",
+    )
     assert code == 0
     assert max(len(line) for line in out.splitlines()) <= 80
     assert "candidates, best first" in out
@@ -169,8 +224,20 @@ def test_report_fits_80_columns_and_shows_parts_and_drawers(capsys, stock_file, 
 def test_subcommand_stock_option_and_note_for_the_sample(capsys, tmp_path, monkeypatch):
     monkeypatch.delenv("PICKER_STOCK", raising=False)
     monkeypatch.chdir(tmp_path)
-    code, out, err = run(capsys, "design", "lowpass", "--fc", "2k", "--order", "1",
-                         "--json", "--trials", "50", "--top", "1")
+    code, out, err = run(
+        capsys,
+        "design",
+        "lowpass",
+        "--fc",
+        "2k",
+        "--order",
+        "1",
+        "--json",
+        "--trials",
+        "50",
+        "--top",
+        "1",
+    )
     assert code == 0
     assert "bundled sample" in err
     assert json.loads(out)["candidates"]
@@ -179,9 +246,23 @@ def test_subcommand_stock_option_and_note_for_the_sample(capsys, tmp_path, monke
 def test_save_writes_a_design_file(capsys, stock_file, tmp_path):
     export = pytest.importorskip("picker.export")
     target = tmp_path / "design.toml"
-    code, _, err = run(capsys, "design", "lowpass", "--fc", "1k", "--order", "1",
-                       "--stock", str(stock_file), "--save", str(target), "--pick", "2",
-                       "--trials", "50")
+    code, _, err = run(
+        capsys,
+        "design",
+        "lowpass",
+        "--fc",
+        "1k",
+        "--order",
+        "1",
+        "--stock",
+        str(stock_file),
+        "--save",
+        str(target),
+        "--pick",
+        "2",
+        "--trials",
+        "50",
+    )
     assert code == 0, err
     saved = export.load_design(target)
     assert saved is not None and target.stat().st_size > 0
@@ -221,7 +302,6 @@ def test_bad_save_target_is_refused_before_the_search(tmp_path, monkeypatch):
         raise AssertionError("searched before checking --save")
 
     monkeypatch.setattr(search_mod, "search", no_search)
-    code = main(["design", "lowpass", "--fc", "1k", "--stock", str(stock),
-                 "--save", str(stock)])
+    code = main(["design", "lowpass", "--fc", "1k", "--stock", str(stock), "--save", str(stock)])
     assert code == 2
     assert stock.read_bytes() == before

@@ -37,12 +37,20 @@ def deck(stages, gbw_hz):
         lines += [".subckt amp p n o", "E1 o 0 p n 1e9", ".ends amp"]
     else:
         wp = 2 * math.pi * gbw_hz / A0_DEFAULT
-        lines += [".subckt amp p n o", f"E1 x 0 p n {A0_DEFAULT:.17g}", "R1 x y 1",
-                  f"C1 y 0 {1.0 / wp:.17g}", "E2 o 0 y 0 1", ".ends amp"]
+        lines += [
+            ".subckt amp p n o",
+            f"E1 x 0 p n {A0_DEFAULT:.17g}",
+            "R1 x y 1",
+            f"C1 y 0 {1.0 / wp:.17g}",
+            "E2 o 0 y 0 1",
+            ".ends amp",
+        ]
     last = len(stages) - 1
     for k, elements in enumerate(stages):
+
         def node(n, k=k):
             return {"0": "0", "in": f"s{k}", "out": f"s{k + 1}"}.get(n, f"k{k}_{n}")
+
         for el in elements:
             nodes = " ".join(node(n) for n in el.nodes)
             if el.kind == "OA":
@@ -57,18 +65,27 @@ def ngspice_ac(stages, gbw_hz, tmp_path, f_lo=1.0, f_hi=1e6):
     """(f_hz, complex V(out)) from ``ngspice -b``, 20 points per decade."""
     out_node = f"s{len(stages)}"
     data = tmp_path / "ac.txt"
-    text = "\n".join(deck(stages, gbw_hz) + [
-        ".control", f"ac dec 20 {f_lo:g} {f_hi:g}",
-        f"wrdata {data} vr({out_node}) vi({out_node})", ".endc", ".end", ""])
+    text = "\n".join(
+        deck(stages, gbw_hz)
+        + [
+            ".control",
+            f"ac dec 20 {f_lo:g} {f_hi:g}",
+            f"wrdata {data} vr({out_node}) vi({out_node})",
+            ".endc",
+            ".end",
+            "",
+        ]
+    )
     cir = tmp_path / "check.cir"
     cir.write_text(text, encoding="ascii")
-    proc = subprocess.run(["ngspice", "-b", str(cir)], capture_output=True, text=True,
-                          timeout=60, check=False)
+    proc = subprocess.run(
+        ["ngspice", "-b", str(cir)], capture_output=True, text=True, timeout=60, check=False
+    )
     # with only a .control block, batch mode ends with status 1 and the note "no
     # simulations run" (ngspice 39 as packaged by Debian); judge by the data written
     log = proc.stdout + proc.stderr
     assert data.exists() and "error" not in log.lower(), log
-    table = np.loadtxt(data)          # wrdata: freq, re, freq, im per row
+    table = np.loadtxt(data)  # wrdata: freq, re, freq, im per row
     return table[:, 0], table[:, 1] + 1j * table[:, 3]
 
 
@@ -87,19 +104,23 @@ def compare(h_ours, h_spice):
 def test_each_topology_against_ngspice(key, gbw, tmp_path):
     _need_ngspice()
     topo = REGISTRY[key]
-    values = topo.synthesize(StageTarget(1500.0, None if topo.order == 1 else 1.8,
-                                         2.0 if topo.sets_gain else None))
+    values = topo.synthesize(
+        StageTarget(1500.0, None if topo.order == 1 else 1.8, 2.0 if topo.sets_gain else None)
+    )
     elements = topo.netlist(values)
     f, h_spice = ngspice_ac([elements], gbw, tmp_path)
     compare(nodal_response(elements, f, gbw_hz=gbw), h_spice)
 
 
-@pytest.mark.parametrize("response, btype", [("butterworth", "lowpass"),
-                                             ("chebyshev", "highpass"),
-                                             ("bessel", "lowpass")])
+@pytest.mark.parametrize(
+    "response, btype",
+    [("butterworth", "lowpass"), ("chebyshev", "highpass"), ("bessel", "lowpass")],
+)
 def test_cascade_against_ngspice(response, btype, tmp_path):
     _need_ngspice()
-    stages = [t.netlist(t.synthesize(s)) for t, s in
-              plan_stages(btype, response=response, order=7, fc_hz=2000.0, gain=3.0)]
+    stages = [
+        t.netlist(t.synthesize(s))
+        for t, s in plan_stages(btype, response=response, order=7, fc_hz=2000.0, gain=3.0)
+    ]
     f, h_spice = ngspice_ac(stages, GBW, tmp_path)
     compare(cascade_response(stages, f, gbw_hz=GBW), h_spice)

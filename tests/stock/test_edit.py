@@ -16,7 +16,13 @@ import pytest
 
 from stock.errors import StockEditError
 from stock.file import (
-    QtyChange, StockChangedError, add_line, apply_changes, file_sha256, load, replace_bytes,
+    QtyChange,
+    StockChangedError,
+    add_line,
+    apply_changes,
+    file_sha256,
+    load,
+    replace_bytes,
 )
 
 ROOT = Path(__file__).resolve().parents[2]
@@ -50,7 +56,7 @@ def stockfile(tmp_path):
 
 def changed_lines(before: bytes, after: bytes):
     a, b = before.decode().splitlines(True), after.decode().splitlines(True)
-    return [(x, y) for x, y in zip(a, b) if x != y], len(a) - len(b)
+    return [(x, y) for x, y in zip(a, b, strict=False) if x != y], len(a) - len(b)
 
 
 def test_only_the_number_changes(stockfile):
@@ -84,27 +90,32 @@ def test_mode_kept_and_no_temp_left(stockfile):
 def test_measured_pieces_removed(stockfile):
     res = apply_changes(stockfile, [QtyChange("resistor", 0, -1, remove_measured=(0,))])
     diff, _ = changed_lines(res.before, res.after)
-    assert [d[1] for d in diff] == ["qty     =   19    # bag of twenty\n",
-                                    'measured = ["4.71k" ]   # two picked\n']
+    assert [d[1] for d in diff] == [
+        "qty     =   19    # bag of twenty\n",
+        'measured = ["4.71k" ]   # two picked\n',
+    ]
     assert load(stockfile).resistors[0].measured == (4710.0,)
 
 
-@pytest.mark.parametrize("changes, match", [
-    ([QtyChange("resistor", 0, -21)], "below zero"),
-    ([QtyChange("resistor", 0, -15), QtyChange("resistor", 0, -6)], "below zero"),
-    ([QtyChange("resistor", 1, -1)], "no resistor number 1"),
-    ([QtyChange("resistor", -1, -1)], "no resistor number -1"),
-    ([QtyChange("opamp", 0, 1)], "no opamp number 0"),
-    ([QtyChange("diode", 0, 1)], "unknown kind 'diode'"),
-    ([QtyChange("resistor", 0, -19)], "measured pieces"),
-    ([QtyChange("resistor", 0, -1, remove_measured=(2,))], "cannot remove"),
-    ([QtyChange("resistor", 0, -2, remove_measured=(1, 1))], "cannot remove"),
-    ([QtyChange("capacitor", 0, -1), QtyChange("resistor", 0, -99)], "below zero"),
-    # TOML integers are 64-bit (TOML v1.0.0, "Integer"); a count past the project's cap
-    # (stock.fields.MAX_COUNT) is refused so the file stays loadable
-    ([QtyChange("resistor", 0, 10 ** 23)], "more than the 1,000,000"),
-    ([QtyChange("capacitor", 0, 1_000_000 - 8 + 1)], "more than the 1,000,000"),
-])
+@pytest.mark.parametrize(
+    "changes, match",
+    [
+        ([QtyChange("resistor", 0, -21)], "below zero"),
+        ([QtyChange("resistor", 0, -15), QtyChange("resistor", 0, -6)], "below zero"),
+        ([QtyChange("resistor", 1, -1)], "no resistor number 1"),
+        ([QtyChange("resistor", -1, -1)], "no resistor number -1"),
+        ([QtyChange("opamp", 0, 1)], "no opamp number 0"),
+        ([QtyChange("diode", 0, 1)], "unknown kind 'diode'"),
+        ([QtyChange("resistor", 0, -19)], "measured pieces"),
+        ([QtyChange("resistor", 0, -1, remove_measured=(2,))], "cannot remove"),
+        ([QtyChange("resistor", 0, -2, remove_measured=(1, 1))], "cannot remove"),
+        ([QtyChange("capacitor", 0, -1), QtyChange("resistor", 0, -99)], "below zero"),
+        # TOML integers are 64-bit (TOML v1.0.0, "Integer"); a count past the project's cap
+        # (stock.fields.MAX_COUNT) is refused so the file stays loadable
+        ([QtyChange("resistor", 0, 10**23)], "more than the 1,000,000"),
+        ([QtyChange("capacitor", 0, 1_000_000 - 8 + 1)], "more than the 1,000,000"),
+    ],
+)
 def test_refused_edits_leave_file_untouched(stockfile, changes, match):
     before = stockfile.read_bytes()
     with pytest.raises(StockEditError, match=match):
@@ -130,23 +141,31 @@ def test_refuses_broken_file(stockfile):
 
 
 def test_add_line_appends_and_keeps_bytes(stockfile):
-    res = add_line(stockfile, "resistor", {"value": "10k", "qty": 5, "tolerance": "1%",
-                                           "location": "B4", "measured": ["9.99k"]})
+    res = add_line(
+        stockfile,
+        "resistor",
+        {"value": "10k", "qty": 5, "tolerance": "1%", "location": "B4", "measured": ["9.99k"]},
+    )
     assert res.after.startswith(res.before)
-    assert res.after[len(res.before):] == (b'\n[[resistor]]\nvalue = "10k"\nqty = 5\n'
-                                           b'tolerance = "1%"\nlocation = "B4"\n'
-                                           b'measured = ["9.99k"]\n')
+    assert res.after[len(res.before) :] == (
+        b'\n[[resistor]]\nvalue = "10k"\nqty = 5\n'
+        b'tolerance = "1%"\nlocation = "B4"\n'
+        b'measured = ["9.99k"]\n'
+    )
     s = load(stockfile)
     assert [r.value for r in s.resistors] == [4700.0, 10000.0] and s.resistors[1].line == 16
 
 
-@pytest.mark.parametrize("fields, match", [
-    ({"value": "10", "qty": 1}, "capacitor value"),
-    ({"value": "1n"}, "capacitor qty"),
-    ({"value": "1n", "qty": 1, "note": None}, "cannot be written"),
-    ({"value": "1n", "qty": 1, "bad key": 1}, "not a key"),
-    ({"value": "1n", "qty": 2 ** 63 - 1}, "plausible count"),
-])
+@pytest.mark.parametrize(
+    "fields, match",
+    [
+        ({"value": "10", "qty": 1}, "capacitor value"),
+        ({"value": "1n"}, "capacitor qty"),
+        ({"value": "1n", "qty": 1, "note": None}, "cannot be written"),
+        ({"value": "1n", "qty": 1, "bad key": 1}, "not a key"),
+        ({"value": "1n", "qty": 2**63 - 1}, "plausible count"),
+    ],
+)
 def test_add_line_refuses_invalid(stockfile, fields, match):
     before = stockfile.read_bytes()
     with pytest.raises(StockEditError, match=match):
@@ -162,15 +181,24 @@ def test_replace_bytes_undo(stockfile):
     assert stat.S_IMODE(stockfile.stat().st_mode) == 0o640
 
 
-@pytest.mark.parametrize("text, old, new", [
-    # layouts the digit rewrite does not touch go through the tomlkit round trip
-    ('resistor = [{value = "1k", qty = 3}, {value = "2k2", qty = 7}]  # inline\n',
-     "qty = 3}", "qty = 2}"),
-    ('[[resistor]]\nvalue = "1k"\nqty = 0x03\n', "qty = 0x03", "qty = 2"),
-    ('[[resistor]]\nvalue = "1k"\n"qty" = 3\n', '"qty" = 3', '"qty" = 2'),
-    ('[[resistor]]\nvalue = "1k"\nnote = """\nqty = 3\n"""\nqty = 3\n',
-     '"""\nqty = 3\n', '"""\nqty = 2\n'),
-])
+@pytest.mark.parametrize(
+    "text, old, new",
+    [
+        # layouts the digit rewrite does not touch go through the tomlkit round trip
+        (
+            'resistor = [{value = "1k", qty = 3}, {value = "2k2", qty = 7}]  # inline\n',
+            "qty = 3}",
+            "qty = 2}",
+        ),
+        ('[[resistor]]\nvalue = "1k"\nqty = 0x03\n', "qty = 0x03", "qty = 2"),
+        ('[[resistor]]\nvalue = "1k"\n"qty" = 3\n', '"qty" = 3', '"qty" = 2'),
+        (
+            '[[resistor]]\nvalue = "1k"\nnote = """\nqty = 3\n"""\nqty = 3\n',
+            '"""\nqty = 3\n',
+            '"""\nqty = 2\n',
+        ),
+    ],
+)
 def test_other_layouts_still_edit_only_the_number(tmp_path, text, old, new):
     p = tmp_path / "odd.toml"
     p.write_text(text, encoding="utf-8")
@@ -187,8 +215,9 @@ def test_crlf_bom_and_symlink(tmp_path):
     apply_changes(link, [QtyChange("capacitor", 0, 1)])
     assert link.is_symlink()
     data = real.read_bytes()
-    assert data == b"\xef\xbb\xbf" + TEXT.replace("qty = 8", "qty = 9").replace(
-        "\n", "\r\n").encode()
+    assert (
+        data == b"\xef\xbb\xbf" + TEXT.replace("qty = 8", "qty = 9").replace("\n", "\r\n").encode()
+    )
 
 
 def test_sample_round_trip_all_lines(tmp_path):
@@ -196,8 +225,11 @@ def test_sample_round_trip_all_lines(tmp_path):
     p = tmp_path / "s.toml"
     p.write_bytes(SAMPLE.read_bytes())
     s = load(p)
-    changes = [QtyChange(k, i, 1) for k in ("resistor", "capacitor", "opamp")
-               for i in range(len(s.lines(k)))]
+    changes = [
+        QtyChange(k, i, 1)
+        for k in ("resistor", "capacitor", "opamp")
+        for i in range(len(s.lines(k)))
+    ]
     res = apply_changes(p, changes, expect_sha256=s.sha256)
     diff, dlen = changed_lines(res.before, res.after)
     assert dlen == 0 and len(diff) == len(changes)
@@ -217,9 +249,16 @@ WORKER = textwrap.dedent("""
 def test_two_processes_adjusting_at_once_lose_nothing(stockfile):
     stockfile.write_text(TEXT.replace("=   20", "=   200"), encoding="utf-8")
     n = 40
-    procs = [subprocess.Popen([sys.executable, "-c", WORKER, str(stockfile), str(n)],
-                              stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True,
-                              cwd=ROOT) for _ in range(2)]
+    procs = [
+        subprocess.Popen(
+            [sys.executable, "-c", WORKER, str(stockfile), str(n)],
+            stdout=subprocess.PIPE,
+            stderr=subprocess.PIPE,
+            text=True,
+            cwd=ROOT,
+        )
+        for _ in range(2)
+    ]
     outs = [p.communicate(timeout=120) for p in procs]
     assert [int(o[0].split()[-1]) for o in outs] == [n, n], outs
     assert load(stockfile).resistors[0].qty == 200 - 2 * n
@@ -244,8 +283,9 @@ def test_sigkill_mid_burst_leaves_old_or_new_file(tmp_path):
     rng = random.Random(7)
     for _ in range(6):
         r0, c0 = load(p).resistors[0].qty, load(p).capacitors[0].qty
-        proc = subprocess.Popen([sys.executable, "-c", BURST, str(p)], stdout=subprocess.PIPE,
-                                cwd=ROOT)
+        proc = subprocess.Popen(
+            [sys.executable, "-c", BURST, str(p)], stdout=subprocess.PIPE, cwd=ROOT
+        )
         assert proc.stdout.readline().strip() == b"ready"
         time.sleep(rng.uniform(0.05, 0.4))
         os.kill(proc.pid, signal.SIGKILL)
@@ -287,13 +327,15 @@ from hypothesis import strategies as st  # noqa: E402
 
 _SAMPLE_STOCK = load(SAMPLE)
 _change = st.sampled_from(["resistor", "capacitor", "opamp"]).flatmap(
-    lambda k: st.builds(QtyChange, st.just(k),
-                        st.integers(-1, len(_SAMPLE_STOCK.lines(k))),
-                        st.integers(-30, 5)))
+    lambda k: st.builds(
+        QtyChange, st.just(k), st.integers(-1, len(_SAMPLE_STOCK.lines(k))), st.integers(-30, 5)
+    )
+)
 
 
-@settings(max_examples=40, deadline=None,
-          suppress_health_check=[HealthCheck.function_scoped_fixture])
+@settings(
+    max_examples=40, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture]
+)
 @given(st.lists(_change, min_size=1, max_size=4))
 def test_edit_fuzz_all_or_nothing(tmp_path, changes):
     # a change set either applies in full (exactly the planned qty, only qty lines differ)
@@ -332,8 +374,9 @@ HALF = textwrap.dedent("""
 
 def test_sigkill_while_writing_the_temp_file_keeps_the_old_file(stockfile):
     # deterministic: the writer is stopped with half the new file written, then killed
-    proc = subprocess.Popen([sys.executable, "-c", HALF, str(stockfile)], stdout=subprocess.PIPE,
-                            cwd=ROOT)
+    proc = subprocess.Popen(
+        [sys.executable, "-c", HALF, str(stockfile)], stdout=subprocess.PIPE, cwd=ROOT
+    )
     assert proc.stdout.readline().strip() == b"half"
     os.kill(proc.pid, signal.SIGKILL)
     proc.wait()

@@ -9,7 +9,7 @@ import pytest
 from stock import ledger
 from stock.errors import StockEditError
 
-BEFORE = b"# my drawers\r\n[[resistor]]\r\nvalue = \"4k7\"  \r\nqty = 3\r\n\xc2\xb5 ok\r\n"
+BEFORE = b'# my drawers\r\n[[resistor]]\r\nvalue = "4k7"  \r\nqty = 3\r\n\xc2\xb5 ok\r\n'
 
 
 @pytest.fixture
@@ -26,10 +26,11 @@ def test_folder_beside_the_stock_file(stock_path):
 
 
 def test_begin_keeps_exact_bytes_and_a_pending_record(stock_path, tmp_path):
-    rec = ledger.begin(stock_path, BEFORE, design=tmp_path / "d.toml",
-                       summary=["resistor 4k7 from A1: take 2"])
+    rec = ledger.begin(
+        stock_path, BEFORE, design=tmp_path / "d.toml", summary=["resistor 4k7 from A1: take 2"]
+    )
     assert rec.number == 1 and rec.state == "pending"
-    assert rec.before_path.read_bytes() == BEFORE            # CRLF, spaces, UTF-8 kept
+    assert rec.before_path.read_bytes() == BEFORE  # CRLF, spaces, UTF-8 kept
     assert rec.sha256_before == hashlib.sha256(BEFORE).hexdigest()
     assert ledger.before_bytes(rec) == BEFORE
     (back,) = ledger.records(stock_path)

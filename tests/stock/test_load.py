@@ -82,8 +82,10 @@ def test_load_sets_path_and_hash(tmp_path):
 
 
 def test_defaults_and_polarized_override():
-    s = loads('[[resistor]]\nvalue = 470\nqty = 3\n[[capacitor]]\nvalue = "1u"\nqty = 1\n'
-              'dielectric = "tantalum"\npolarized = false\n')
+    s = loads(
+        '[[resistor]]\nvalue = 470\nqty = 3\n[[capacitor]]\nvalue = "1u"\nqty = 1\n'
+        'dielectric = "tantalum"\npolarized = false\n'
+    )
     assert s.resistors[0].value == 470.0 and s.resistors[0].tolerance == 0.05
     assert s.resistors[0].tolerance_assumed
     assert s.capacitors[0].polarized is False
@@ -95,12 +97,12 @@ C = "[[capacitor]]\n"
 BAD = [
     (R + 'value = "4x7"\nqty = 1\n', 2, "resistor value", "'4x7'"),
     (R + 'value = ""\nqty = 1\n', 2, "resistor value", "''"),
-    (R + 'qty = 1\n', 1, "resistor value", "missing"),
+    (R + "qty = 1\n", 1, "resistor value", "missing"),
     (R + 'value = "-4k7"\nqty = 1\n', 2, "resistor value", "'-4k7'"),
     (R + 'value = "0.1m"\nqty = 1\n', 2, "resistor value", "'0.1m'"),
     (R + 'value = "2T"\nqty = 1\n', 2, "resistor value", "'2T'"),
     (C + 'value = "10"\nqty = 1\n', 2, "capacitor value", "'10'"),
-    (C + 'value = 10\nqty = 1\n', 2, "capacitor value", "'10'"),
+    (C + "value = 10\nqty = 1\n", 2, "capacitor value", "'10'"),
     (C + 'value = "0.01p"\nqty = 1\n', 2, "capacitor value", "'0.01p'"),
     (C + 'value = "10uΩ"\nqty = 1\n', 2, "capacitor value", "'10uΩ'"),
     (R + 'value = "1k"\n', 1, "resistor qty", "missing"),
@@ -112,8 +114,7 @@ BAD = [
     (R + 'value = "1k"\nqty = 1000001\n', 3, "resistor qty", "'1000001'"),
     (R + 'value = "1k"\nqty = 999999999999999999999\n', 3, "resistor qty", "plausible"),
     (R + 'value = "1k"\nqty = "ten"\n', 3, "resistor qty", "a number without quotes"),
-    ('[[opamp]]\ngbw = "3MHz"\nqty = 1\nchannels = 10000000\n', 4, "opamp channels",
-     "plausible"),
+    ('[[opamp]]\ngbw = "3MHz"\nqty = 1\nchannels = 10000000\n', 4, "opamp channels", "plausible"),
     (R + 'value = "1k"\nqty = 1\ntolerance = "5"\n', 4, "resistor tolerance", "'5'"),
     (R + 'value = "1k"\nqty = 1\ntolerance = 0.05\n', 4, "resistor tolerance", "'0.05'"),
     (R + 'value = "1k"\nqty = 1\ntolerance = "150%"\n', 4, "resistor tolerance", "'150%'"),
@@ -122,8 +123,12 @@ BAD = [
     (C + 'value = "1n"\nqty = 1\nvoltage = "-5V"\n', 4, "capacitor voltage", "'-5V'"),
     (C + 'value = "1n"\nqty = 1\ndielectric = "X8Q"\n', 4, "capacitor dielectric", "'X8Q'"),
     (C + 'value = "1n"\nqty = 1\npolarized = "yes"\n', 4, "capacitor polarized", "'yes'"),
-    (R + 'value = "1k"\nqty = 1\nmeasured = ["1.01k", "0.99k"]\n', 4, "resistor measured",
-     "2 measured"),
+    (
+        R + 'value = "1k"\nqty = 1\nmeasured = ["1.01k", "0.99k"]\n',
+        4,
+        "resistor measured",
+        "2 measured",
+    ),
     (R + 'value = "1k"\nqty = 3\nmeasured = ["1.01q"]\n', 4, "resistor measured", "'1.01q'"),
     (R + 'value = "1k"\nqty = 3\nmeasured = "1.01k"\n', 4, "resistor measured", "'1.01k'"),
     (R + 'value = "1k"\nqty = 3\nmeter = "x"\n', 4, "resistor meter", "'x'"),
@@ -134,15 +139,20 @@ BAD = [
     ('[[opamp]]\ngbw = "3MHz"\nqty = 1\nslew = "fast"\n', 4, "opamp slew", "'fast'"),
     ('[[opamp]]\ngbw = "3MHz"\nqty = 1\nchannels = 0\n', 4, "opamp channels", "'0'"),
     ('[[opamp]]\ngbw = "3MHz"\n', 1, "opamp qty", "missing"),
-    ('[stock]\nformat = 2\n', 2, "stock format", "'2'"),
+    ("[stock]\nformat = 2\n", 2, "stock format", "'2'"),
     ('[resistor]\nvalue = "1k"\nqty = 1\n', 1, "resistor", "[[resistor]]"),
     ('[[resistor]]\nvalue = "1k"\nqty = 1\nqty = 2\n', 4, "TOML syntax", "'qty = 2'"),
-    ('[[resistor]]\nvalue = 1k\n', 2, "TOML syntax", "'value = 1k'"),
+    ("[[resistor]]\nvalue = 1k\n", 2, "TOML syntax", "'value = 1k'"),
     ('[[resistor]]\nvalue = "1k\nqty = 1\n', 2, "TOML syntax", "'value = \"1k'"),
     ('[[resistor]]\nnote = """open\nqty = 1\n\n', 3, "TOML syntax", "end of the file"),
     ('# inline\nresistor = [{value = "1k", qty = -1}]\n', 2, "resistor qty", "'-1'"),
-    ('\n\n[[resistor]]\nvalue = "1k"\nqty = 1\n\n[[capacitor]]\nvalue = "1n"\nqty = 1\n'
-     'voltage = "5 parsec"\n', 10, "capacitor voltage", "'5 parsec'"),
+    (
+        '\n\n[[resistor]]\nvalue = "1k"\nqty = 1\n\n[[capacitor]]\nvalue = "1n"\nqty = 1\n'
+        'voltage = "5 parsec"\n',
+        10,
+        "capacitor voltage",
+        "'5 parsec'",
+    ),
 ]
 
 
@@ -157,12 +167,15 @@ def test_malformed_file_names_line_and_key(text, line, key, quoted):
 
 
 def test_all_problems_collected():
-    text = (R + 'value = "4x7"\nqty = -1\n' + C + 'value = "10"\nqty = 1\ndielectric = "foo"\n')
+    text = R + 'value = "4x7"\nqty = -1\n' + C + 'value = "10"\nqty = 1\ndielectric = "foo"\n'
     with pytest.raises(StockFileError) as info:
         loads(text, source="f.toml")
     assert [p.split(": ")[0] + ": " + p.split(": ")[1] for p in info.value.problems] == [
-        "f.toml:2: resistor value", "f.toml:3: resistor qty", "f.toml:5: capacitor value",
-        "f.toml:7: capacitor dielectric"]
+        "f.toml:2: resistor value",
+        "f.toml:3: resistor qty",
+        "f.toml:5: capacitor value",
+        "f.toml:7: capacitor dielectric",
+    ]
 
 
 def test_not_utf8(tmp_path):
@@ -178,49 +191,74 @@ def test_missing_file(tmp_path):
 
 
 def test_folder_and_unreadable_file(tmp_path, monkeypatch):
-    with pytest.raises(StockFileError, match=f"{tmp_path}: cannot read the stock file: Is a "
-                                             "directory"):
+    with pytest.raises(
+        StockFileError, match=f"{tmp_path}: cannot read the stock file: Is a directory"
+    ):
         load(tmp_path)
     p = tmp_path / "locked.toml"
     p.write_text('[[resistor]]\nvalue = "1k"\nqty = 1\n', encoding="utf-8")
 
     def denied(self):
         raise PermissionError(13, "Permission denied", str(self))
+
     # root reads a mode-000 file anyway, so the refusal of the OS is simulated
     monkeypatch.setattr(Path, "read_bytes", denied)
-    with pytest.raises(StockFileError, match="locked.toml: cannot read the stock file: "
-                                             "Permission denied"):
+    with pytest.raises(
+        StockFileError, match="locked.toml: cannot read the stock file: Permission denied"
+    ):
         load(p)
 
 
-@pytest.mark.parametrize("text, line, start", [
-    (R + 'value = "1k"\nqty = 1\ncolour = "brown"\n', 4, "resistor colour: unknown key"),
-    ('[drawer]\nx = 1\n' + R + 'value = "1k"\nqty = 1\n', 1, "unknown table 'drawer'"),
-    ('[stock]\nowner = "me"\n' + R + 'value = "1k"\nqty = 1\n', 2, "stock owner: unknown key"),
-    (R + 'value = "1k"\nqty = 1\nlocation = "A1"\n' + R + 'value = "1000"\nqty = 2\n'
-     'location = "a1"\n', 5, "resistor 1k in a1 is listed twice"),
-    (R + 'value = "2m2"\nqty = 3\n', 2, "resistor value: '2m2' is 2.2 mΩ (m is milli); write M"),
-    (R + 'value = "1m"\nqty = 3\n', 2, "resistor value: '1m' is 1 mΩ"),
-    (R + 'value = "1k"\nqty = 3\ntolerance = "1%"\nmeasured = ["1.2k"]\n', 5,
-     "resistor measured: '1.2k' is 20.0% from the nominal"),
-])
+@pytest.mark.parametrize(
+    "text, line, start",
+    [
+        (R + 'value = "1k"\nqty = 1\ncolour = "brown"\n', 4, "resistor colour: unknown key"),
+        ("[drawer]\nx = 1\n" + R + 'value = "1k"\nqty = 1\n', 1, "unknown table 'drawer'"),
+        ('[stock]\nowner = "me"\n' + R + 'value = "1k"\nqty = 1\n', 2, "stock owner: unknown key"),
+        (
+            R + 'value = "1k"\nqty = 1\nlocation = "A1"\n' + R + 'value = "1000"\nqty = 2\n'
+            'location = "a1"\n',
+            5,
+            "resistor 1k in a1 is listed twice",
+        ),
+        (
+            R + 'value = "2m2"\nqty = 3\n',
+            2,
+            "resistor value: '2m2' is 2.2 mΩ (m is milli); write M",
+        ),
+        (R + 'value = "1m"\nqty = 3\n', 2, "resistor value: '1m' is 1 mΩ"),
+        (
+            R + 'value = "1k"\nqty = 3\ntolerance = "1%"\nmeasured = ["1.2k"]\n',
+            5,
+            "resistor measured: '1.2k' is 20.0% from the nominal",
+        ),
+    ],
+)
 def test_warnings(text, line, start):
     s = loads(text, source="w.toml")
     assert len(s.warnings) == 1, s.warnings
     assert s.warnings[0].startswith(f"w.toml:{line}: {start}"), s.warnings[0]
 
 
-@pytest.mark.parametrize("text", ["", "# nothing yet\n", "[stock]\nname = \"empty\"\n"])
+@pytest.mark.parametrize("text", ["", "# nothing yet\n", '[stock]\nname = "empty"\n'])
 def test_empty_stock_warns(text):
     s = loads(text, source="e.toml")
-    assert s.warnings == ("e.toml: the stock is empty: no [[resistor]], [[capacitor]] or "
-                          "[[opamp]] lines",)
+    assert s.warnings == (
+        "e.toml: the stock is empty: no [[resistor]], [[capacitor]] or [[opamp]] lines",
+    )
 
 
 def test_dielectric_spellings():
     # canonical spellings of DESIGN.md section 3; NPO/COG with the letter O are common slips
-    for given_, canon in (("np0", "NP0"), ("NPO", "NP0"), ("COG", "C0G"), ("x7r", "X7R"),
-                          ("Polypropylene", "polypropylene"), ("FILM", "film"), ("Mica", "mica")):
+    for given_, canon in (
+        ("np0", "NP0"),
+        ("NPO", "NP0"),
+        ("COG", "C0G"),
+        ("x7r", "X7R"),
+        ("Polypropylene", "polypropylene"),
+        ("FILM", "film"),
+        ("Mica", "mica"),
+    ):
         s = loads(C + f'value = "1n"\nqty = 1\ndielectric = "{given_}"\n')
         assert s.capacitors[0].dielectric == canon
 
@@ -237,29 +275,63 @@ def test_sample_loads_clean_and_copies_identical():
     assert all(c.voltage for c in s.capacitors)
     # enough film/C0G of 1n, 2n2, 4n7 and 10n for fourth-order designs (two stages x 2 caps)
     for v in (1e-9, 2.2e-9, 4.7e-9, 10e-9):
-        stable = [c for c in s.capacitors if abs(c.value / v - 1) < 1e-9
-                  and c.dielectric in ("C0G", "polypropylene", "polyester")]
+        stable = [
+            c
+            for c in s.capacitors
+            if abs(c.value / v - 1) < 1e-9 and c.dielectric in ("C0G", "polypropylene", "polyester")
+        ]
         assert max(c.qty for c in stable) >= 4
     assert len(s.opamps) == 3
 
 
-keys = st.sampled_from(["value", "qty", "tolerance", "tempco", "power", "location", "measured",
-                        "meter", "dielectric", "polarized", "voltage", "gbw", "slew",
-                        "channels", "supply", "ib", "name", "colour"])
-scalars = st.one_of(st.integers(-5, 10**6), st.floats(allow_nan=True), st.booleans(),
-                    st.text(max_size=8), st.sampled_from(["4k7", "10n", "1%", "50V", "3MHz",
-                                                          "13V/us", "C0G", "-1", "1e400"]),
-                    st.lists(st.sampled_from(["1k", "x", 3, "10n"]), max_size=3))
+keys = st.sampled_from(
+    [
+        "value",
+        "qty",
+        "tolerance",
+        "tempco",
+        "power",
+        "location",
+        "measured",
+        "meter",
+        "dielectric",
+        "polarized",
+        "voltage",
+        "gbw",
+        "slew",
+        "channels",
+        "supply",
+        "ib",
+        "name",
+        "colour",
+    ]
+)
+scalars = st.one_of(
+    st.integers(-5, 10**6),
+    st.floats(allow_nan=True),
+    st.booleans(),
+    st.text(max_size=8),
+    st.sampled_from(["4k7", "10n", "1%", "50V", "3MHz", "13V/us", "C0G", "-1", "1e400"]),
+    st.lists(st.sampled_from(["1k", "x", 3, "10n"]), max_size=3),
+)
 
 
 def _toml_value(v):
     import tomli_w
+
     return tomli_w.dumps({"k": v})[4:].strip()
 
 
 @settings(max_examples=150, deadline=None)
-@given(st.lists(st.tuples(st.sampled_from(["resistor", "capacitor", "opamp", "stock", "x"]),
-                          st.dictionaries(keys, scalars, max_size=6)), max_size=4))
+@given(
+    st.lists(
+        st.tuples(
+            st.sampled_from(["resistor", "capacitor", "opamp", "stock", "x"]),
+            st.dictionaries(keys, scalars, max_size=6),
+        ),
+        max_size=4,
+    )
+)
 def test_loader_fuzz_structured(entries):
     parts = []
     for kind, fields in entries:
@@ -274,8 +346,12 @@ def test_loader_fuzz_structured(entries):
 
 
 @settings(max_examples=150, deadline=None)
-@given(st.one_of(st.text(alphabet=st.sampled_from(list('[]="\'#.\n abqtyvalue1kx')), max_size=60),
-                 st.text(max_size=40)))
+@given(
+    st.one_of(
+        st.text(alphabet=st.sampled_from(list("[]=\"'#.\n abqtyvalue1kx")), max_size=60),
+        st.text(max_size=40),
+    )
+)
 def test_loader_fuzz_text(text):
     try:
         loads(text, source="fuzz.toml")

@@ -29,7 +29,7 @@ def test_a_newer_job_kills_the_running_one():
 
     thread = threading.Thread(target=slow)
     thread.start()
-    for _ in range(400):                       # until the slow job's process is running
+    for _ in range(400):  # until the slow job's process is running
         proc = lane._proc
         if proc is not None and proc.is_alive():
             break
@@ -38,12 +38,12 @@ def test_a_newer_job_kills_the_running_one():
     assert lane.run(abs, -3) == 3
     thread.join(timeout=20)
     assert outcome == {"slow": "cancelled"}
-    assert time.monotonic() - t0 < 20          # nobody waited for the 60 s sleep
+    assert time.monotonic() - t0 < 20  # nobody waited for the 60 s sleep
 
 
 def test_errors_come_back_as_text_and_cancel_is_quiet():
     lane = Lane("test")
     with pytest.raises(JobError, match="ValueError: invalid literal"):
         lane.run(int, "x")
-    lane.cancel()                              # nothing running: no effect
+    lane.cancel()  # nothing running: no effect
     assert lane.run(max, [2, 7, 3]) == 7

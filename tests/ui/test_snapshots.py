@@ -18,7 +18,7 @@ async def settled(pilot) -> None:
     """Wait for the searches and budgets; stop cursors blinking so the picture is fixed."""
     app = pilot.app
     await pilot.pause(0.4)
-    for _ in range(200):             # the panes mount a moment after the first paint
+    for _ in range(200):  # the panes mount a moment after the first paint
         if getattr(app.screen, "idle", True):
             break
         await pilot.pause(0.05)
@@ -64,9 +64,9 @@ def test_add_line_dialog(snap_compare, stock_copy):
 def test_chosen_pane_and_build_confirmation(snap_compare, stock_copy):
     async def run_before(pilot):
         await settled(pilot)
-        await pilot.press("ctrl+n", "ctrl+n")         # to the matches
+        await pilot.press("ctrl+n", "ctrl+n")  # to the matches
         await settled(pilot)
-        await pilot.press("enter")                    # the best candidate
+        await pilot.press("enter")  # the best candidate
         await settled(pilot)
         await pilot.press("b")
         await settled(pilot)

@@ -27,14 +27,19 @@ class Terminal:
         self.base = [TMUX, "-L", name, "-f", "/dev/null"]
 
     def tmux(self, *args: str) -> str:
-        return subprocess.run(self.base + list(args), check=True, capture_output=True,
-                              text=True, timeout=10).stdout
+        return subprocess.run(
+            self.base + list(args), check=True, capture_output=True, text=True, timeout=10
+        ).stdout
 
     def start(self, command: str, env: dict[str, str]) -> None:
         clean = {k: v for k, v in os.environ.items() if k not in ("COLUMNS", "LINES")}
         clean.update(env)
-        subprocess.run(self.base + ["new-session", "-d", "-x", "80", "-y", "24", command],
-                       check=True, env=clean, timeout=10)
+        subprocess.run(
+            self.base + ["new-session", "-d", "-x", "80", "-y", "24", command],
+            check=True,
+            env=clean,
+            timeout=10,
+        )
 
     def screen(self, *, escapes: bool = False) -> str:
         return self.tmux("capture-pane", "-p", *(["-e"] if escapes else []))
@@ -67,17 +72,19 @@ def terminal():
 
 def picker_command(stock) -> str:
     # `env -u`: stale COLUMNS/LINES would freeze the app's size (TERMINAL.md)
-    return (f"env -u COLUMNS -u LINES {shlex.quote(sys.executable)} -m picker --stock "
-            f"{shlex.quote(str(stock))}; echo EXITED:$?; sleep 30")
+    return (
+        f"env -u COLUMNS -u LINES {shlex.quote(sys.executable)} -m picker --stock "
+        f"{shlex.quote(str(stock))}; echo EXITED:$?; sleep 30"
+    )
 
 
 def test_type_a_target_and_quit(terminal, stock_copy):
     # 16 colours, as a plain TERM=screen terminal gets them (TERMINAL.md)
     terminal.start(picker_command(stock_copy), {"TEXTUAL_COLOR_SYSTEM": "standard"})
-    for text in ("e quantity", "4k7", "A3", "[1 drawers]"):   # frames paint in pieces
+    for text in ("e quantity", "4k7", "A3", "[1 drawers]"):  # frames paint in pieces
         terminal.wait_for(text)
     painted = terminal.screen(escapes=True)
-    assert "38;5;" not in painted and "38;2;" not in painted     # no 256 or true colour
+    assert "38;5;" not in painted and "38;2;" not in painted  # no 256 or true colour
     terminal.keys("2")
     terminal.wait_for("[2 targets]")
     terminal.wait_for("what passes")
@@ -86,15 +93,15 @@ def test_type_a_target_and_quit(terminal, stock_copy):
     terminal.wait_for("fc is empty")
     terminal.keys("-l", "2.5k")
     screen = terminal.wait_for("fc 2.5k ")
-    terminal.wait_for("corner (band-pass")     # the hint is back: the field reads
+    terminal.wait_for("corner (band-pass")  # the hint is back: the field reads
     terminal.keys("-l", "Hz!")
-    screen = terminal.wait_for("'2.5kHz!'")    # the bad text is quoted beside the field
+    screen = terminal.wait_for("'2.5kHz!'")  # the bad text is quoted beside the field
     fc_line = next(line for line in screen.splitlines() if line.strip().startswith("fc"))
     assert "error:" in fc_line
     terminal.keys("BSpace")
     terminal.keys("C-n")
     screen = terminal.wait_for("[3 matches]")
-    terminal.wait_for("2500 Hz")           # the search (or its message) names the target
+    terminal.wait_for("2500 Hz")  # the search (or its message) names the target
     terminal.keys("C-q")
     terminal.wait_for("EXITED:0")
 
@@ -106,10 +113,13 @@ def test_no_color_sends_no_colour_codes(terminal, stock_copy):
     terminal.wait_for("[2 targets]")
     painted = terminal.screen(escapes=True)
     # SGR parameters 30-37, 38, 39?, 40-47, 48, 90-97, 100-107 set colours
-    colours = [m for m in re.findall(r"\x1b\[([0-9;]*)m", painted)
-               for p in m.split(";") if p and (30 <= int(p) <= 38 or 40 <= int(p) <= 48
-                                               or 90 <= int(p) <= 107)]
+    colours = [
+        m
+        for m in re.findall(r"\x1b\[([0-9;]*)m", painted)
+        for p in m.split(";")
+        if p and (30 <= int(p) <= 38 or 40 <= int(p) <= 48 or 90 <= int(p) <= 107)
+    ]
     assert colours == [], f"colour codes under NO_COLOR: {colours[:5]}"
-    assert "\x1b[7m" in painted      # the focused list is marked in the reverse attribute instead
+    assert "\x1b[7m" in painted  # the focused list is marked in the reverse attribute instead
     terminal.keys("C-q")
     terminal.wait_for("EXITED:0")

@@ -53,10 +53,17 @@ class MfbBandpass(Topology):
         k = al.target_gain(target, self.key)
         c = al.choice("c", c, self.key)
         if k >= 2.0 * q * q:
-            raise DesignError(f"{self.key}: centre gain {k:g} must be below 2 Q^2 = "
-                              f"{2.0 * q * q:.4g} for Q = {q:g}; lower the gain or raise Q")
-        return {"R1": q / (k * w0 * c), "R2": q / ((2.0 * q * q - k) * w0 * c),
-                "R3": 2.0 * q / (w0 * c), "C1": c, "C2": c}
+            raise DesignError(
+                f"{self.key}: centre gain {k:g} must be below 2 Q^2 = "
+                f"{2.0 * q * q:.4g} for Q = {q:g}; lower the gain or raise Q"
+            )
+        return {
+            "R1": q / (k * w0 * c),
+            "R2": q / ((2.0 * q * q - k) * w0 * c),
+            "R3": 2.0 * q / (w0 * c),
+            "C1": c,
+            "C2": c,
+        }
 
     def netlist(self, values):
         return [

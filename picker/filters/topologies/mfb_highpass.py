@@ -50,8 +50,13 @@ class MfbHighpass(Topology):
         q = al.target_q(target, self.key)
         k = al.target_gain(target, self.key)
         c = al.choice("c", c, self.key)
-        return {"C1": c, "C2": c, "C3": c / k,
-                "R1": k / ((2.0 * k + 1.0) * q * w0 * c), "R2": (2.0 * k + 1.0) * q / (w0 * c)}
+        return {
+            "C1": c,
+            "C2": c,
+            "C3": c / k,
+            "R1": k / ((2.0 * k + 1.0) * q * w0 * c),
+            "R2": (2.0 * k + 1.0) * q / (w0 * c),
+        }
 
     def netlist(self, values):
         return [

@@ -61,8 +61,10 @@ class MfbLowpass(Topology):
         m_min = self.min_ratio(q, k)
         m = m_min if ratio is None else al.choice("ratio", ratio, self.key)
         if m < m_min * (1.0 - 1e-12):
-            raise DesignError(f"{self.key}: capacitor ratio C2/C1 = {m:g} is below the "
-                              f"{m_min:.4g} that Q = {q:g} and gain {k:g} need")
+            raise DesignError(
+                f"{self.key}: capacitor ratio C2/C1 = {m:g} is below the "
+                f"{m_min:.4g} that Q = {q:g} and gain {k:g} need"
+            )
         # R2^2 - S R2 + (1 + K) P = 0 with C1 = c, C2 = m c, R2 R3 = P
         s, p = 1.0 / (w0 * q * c), 1.0 / (w0 * w0 * m * c * c)
         r2 = (s + math.sqrt(max(s * s - 4.0 * (1.0 + k) * p, 0.0))) / 2.0

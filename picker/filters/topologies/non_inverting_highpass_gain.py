@@ -36,8 +36,11 @@ class NonInvertingHighpassGain(NonInvertingHighpass):
         return out
 
     def netlist(self, values):
-        return (self._cr_elements(values) + al.gain_elements(values, "n")
-                + [Element("OA", "U1", ("p", "n", "out"))])
+        return (
+            self._cr_elements(values)
+            + al.gain_elements(values, "n")
+            + [Element("OA", "U1", ("p", "n", "out"))]
+        )
 
 
 register(NonInvertingHighpassGain())

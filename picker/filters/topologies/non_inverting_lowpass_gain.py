@@ -36,8 +36,11 @@ class NonInvertingLowpassGain(NonInvertingLowpass):
         return out
 
     def netlist(self, values):
-        return (self._rc_elements(values) + al.gain_elements(values, "n")
-                + [Element("OA", "U1", ("p", "n", "out"))])
+        return (
+            self._rc_elements(values)
+            + al.gain_elements(values, "n")
+            + [Element("OA", "U1", ("p", "n", "out"))]
+        )
 
 
 register(NonInvertingLowpassGain())

@@ -37,8 +37,11 @@ class SallenKeyHighpassGain(SallenKeyHighpass):
         return out
 
     def netlist(self, values):
-        return (self._core(values) + al.gain_elements(values, "n")
-                + [Element("OA", "U1", ("p", "n", "out"))])
+        return (
+            self._core(values)
+            + al.gain_elements(values, "n")
+            + [Element("OA", "U1", ("p", "n", "out"))]
+        )
 
 
 register(SallenKeyHighpassGain())

@@ -61,8 +61,10 @@ class SallenKeyLowpass(Topology):
         m_min = self.min_ratio(q, k)
         m = max(1.0, m_min) if ratio is None else al.choice("ratio", ratio, self.key)
         if m < m_min * (1.0 - 1e-12):
-            raise DesignError(f"{self.key}: capacitor ratio C1/C2 = {m:g} is below the "
-                              f"{m_min:.4g} that Q = {q:g} needs for real resistors")
+            raise DesignError(
+                f"{self.key}: capacitor ratio C1/C2 = {m:g} is below the "
+                f"{m_min:.4g} that Q = {q:g} needs for real resistors"
+            )
         # a R1^2 - S R1 + P = 0 from f0 and Q with C2 = c, C1 = m c
         a, s, p = 1.0 + m * (1.0 - k), 1.0 / (w0 * q * c), 1.0 / (w0 * w0 * m * c * c)
         r1 = 2.0 * p / (s + math.sqrt(max(s * s - 4.0 * a * p, 0.0)))

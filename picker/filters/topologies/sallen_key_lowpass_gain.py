@@ -42,8 +42,11 @@ class SallenKeyLowpassGain(SallenKeyLowpass):
         return out
 
     def netlist(self, values):
-        return (self._core(values) + al.gain_elements(values, "n")
-                + [Element("OA", "U1", ("p", "n", "out"))])
+        return (
+            self._core(values)
+            + al.gain_elements(values, "n")
+            + [Element("OA", "U1", ("p", "n", "out"))]
+        )
 
 
 register(SallenKeyLowpassGain())

@@ -40,7 +40,7 @@ Window = Callable[[dict, "Windows"], list]
 @dataclass(frozen=True)
 class Step:
     position: str
-    window: Window | None = None       # None: every value of the position's array
+    window: Window | None = None  # None: every value of the position's array
 
 
 @dataclass(frozen=True)
@@ -78,7 +78,7 @@ class Windows:
     r_hi: float
     c_lo: float
     c_hi: float
-    q_lo: float = 0.0    # smallest Q' allowed, Q (1 - t)
+    q_lo: float = 0.0  # smallest Q' allowed, Q (1 - t)
 
     @property
     def d_lo(self) -> float:
@@ -97,9 +97,20 @@ def windows(target: StageTarget, t: float, limits: dict[str, tuple[float, float]
     q = target.q if target.q is not None else 1.0
     g = target.gain if target.gain is not None else 1.0
     b0_lo, b0_hi = 1.0 / (w * lo) ** 2, 1.0 / (w * hi) ** 2
-    return Windows(t, 1.0 / (w * lo), 1.0 / (w * hi), b0_lo, b0_hi,
-                   math.sqrt(b0_lo) / (q * lo), math.sqrt(b0_hi) / (q * hi),
-                   g * hi, g * lo, *limits["resistor"], *limits["capacitor"], q * hi)
+    return Windows(
+        t,
+        1.0 / (w * lo),
+        1.0 / (w * hi),
+        b0_lo,
+        b0_hi,
+        math.sqrt(b0_lo) / (q * lo),
+        math.sqrt(b0_hi) / (q * hi),
+        g * hi,
+        g * lo,
+        *limits["resistor"],
+        *limits["capacitor"],
+        q * hi,
+    )
 
 
 def quad_le(a, b, c):
@@ -121,12 +132,16 @@ def quad_le(a, b, c):
         lin = np.where(b != 0, -c / b, 0.0)
     has = disc >= 0
     pos, neg, flat = a > 0, a < 0, a == 0
-    lo1 = np.select([pos & has, neg & has, neg, flat & (b > 0), flat & (b < 0),
-                     flat & (b == 0) & (c <= 0)],
-                    [np.maximum(small, 0), zero, zero, zero, np.maximum(lin, 0), zero], inf)
-    hi1 = np.select([pos & has, neg & has, neg, flat & (b > 0), flat & (b < 0),
-                     flat & (b == 0) & (c <= 0)],
-                    [large, small, inf, lin, inf, inf], zero)
+    lo1 = np.select(
+        [pos & has, neg & has, neg, flat & (b > 0), flat & (b < 0), flat & (b == 0) & (c <= 0)],
+        [np.maximum(small, 0), zero, zero, zero, np.maximum(lin, 0), zero],
+        inf,
+    )
+    hi1 = np.select(
+        [pos & has, neg & has, neg, flat & (b > 0), flat & (b < 0), flat & (b == 0) & (c <= 0)],
+        [large, small, inf, lin, inf, inf],
+        zero,
+    )
     lo2 = np.where(neg & has, np.maximum(large, 0), empty[0])
     hi2 = np.where(neg & has, inf, empty[1])
     return [(lo1, hi1), (lo2, hi2)]
@@ -144,8 +159,9 @@ def intersect(first, second):
 
 def gain_group(ra: str = "RA", rb: str = "RB") -> Group:
     """The 1 + RB/RA network: RB/RA = K - 1 within the gain window."""
-    return Group((Step(ra), Step(rb, lambda v, w: [(v[ra] * w.d_lo, v[ra] * w.d_hi)])),
-                 determines=("gain",))
+    return Group(
+        (Step(ra), Step(rb, lambda v, w: [(v[ra] * w.d_lo, v[ra] * w.d_hi)])), determines=("gain",)
+    )
 
 
 PLANS: dict[str, Plan] = {}

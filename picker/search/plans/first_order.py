@@ -21,9 +21,25 @@ for _key in ("non-inverting-lowpass", "non-inverting-highpass"):
 for _key in ("non-inverting-lowpass-gain", "non-inverting-highpass-gain"):
     PLANS[_key] = Plan((_RC, gain_group()))
 
-PLANS["inverting-lowpass"] = Plan((Group((
-    Step("C1"), _tau("R2", "C1"),
-    Step("R1", lambda v, w: [(v["R2"] / w.g_hi, v["R2"] / w.g_lo)]))),))
-PLANS["inverting-highpass"] = Plan((Group((
-    Step("C1"), _tau("R1", "C1"),
-    Step("R2", lambda v, w: [(v["R1"] * w.g_lo, v["R1"] * w.g_hi)]))),))
+PLANS["inverting-lowpass"] = Plan(
+    (
+        Group(
+            (
+                Step("C1"),
+                _tau("R2", "C1"),
+                Step("R1", lambda v, w: [(v["R2"] / w.g_hi, v["R2"] / w.g_lo)]),
+            )
+        ),
+    )
+)
+PLANS["inverting-highpass"] = Plan(
+    (
+        Group(
+            (
+                Step("C1"),
+                _tau("R1", "C1"),
+                Step("R2", lambda v, w: [(v["R1"] * w.g_lo, v["R1"] * w.g_hi)]),
+            )
+        ),
+    )
+)

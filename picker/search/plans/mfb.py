@@ -21,9 +21,8 @@ from picker.search.plans import PLANS, Group, Plan, Step, intersect, quad_ge, qu
 
 def _lp_c2(v, w):
     c1 = v["C1"]
-    lo = np.maximum(w.b0_lo / (w.r_hi ** 2 * c1),
-                    c1 * 4.0 * w.q_lo ** 2 * (1.0 + w.g_lo))
-    return [(lo, w.b0_hi / (w.r_lo ** 2 * c1))]
+    lo = np.maximum(w.b0_lo / (w.r_hi**2 * c1), c1 * 4.0 * w.q_lo**2 * (1.0 + w.g_lo))
+    return [(lo, w.b0_hi / (w.r_lo**2 * c1))]
 
 
 def _lp_p(v, w):
@@ -34,8 +33,10 @@ def _lp_p(v, w):
 def _lp_r2(v, w):
     c1 = v["C1"]
     p_lo, p_hi = _lp_p(v, w)
-    return intersect(quad_le(c1, -w.b1_hi, c1 * (1.0 + w.g_lo) * p_lo),
-                     quad_ge(c1, -w.b1_lo, c1 * (1.0 + w.g_hi) * p_hi))
+    return intersect(
+        quad_le(c1, -w.b1_hi, c1 * (1.0 + w.g_lo) * p_lo),
+        quad_ge(c1, -w.b1_lo, c1 * (1.0 + w.g_hi) * p_hi),
+    )
 
 
 def _lp_r3(v, w):
@@ -43,14 +44,24 @@ def _lp_r3(v, w):
     return [(p_lo / v["R2"], p_hi / v["R2"])]
 
 
-PLANS["mfb-lowpass"] = Plan((Group((
-    Step("C1"), Step("C2", _lp_c2), Step("R2", _lp_r2), Step("R3", _lp_r3),
-    Step("R1", lambda v, w: [(v["R2"] / w.g_hi, v["R2"] / w.g_lo)]))),))
+PLANS["mfb-lowpass"] = Plan(
+    (
+        Group(
+            (
+                Step("C1"),
+                Step("C2", _lp_c2),
+                Step("R2", _lp_r2),
+                Step("R3", _lp_r3),
+                Step("R1", lambda v, w: [(v["R2"] / w.g_hi, v["R2"] / w.g_lo)]),
+            )
+        ),
+    )
+)
 
 
 def _hp_c2(v, w):
     c3 = v["C3"]
-    return [(w.b0_lo / (w.r_hi ** 2 * c3), w.b0_hi / (w.r_lo ** 2 * c3))]
+    return [(w.b0_lo / (w.r_hi**2 * c3), w.b0_hi / (w.r_lo**2 * c3))]
 
 
 def _hp_r1(v, w):
@@ -63,9 +74,19 @@ def _hp_r2(v, w):
     return [(w.b0_lo / base, w.b0_hi / base)]
 
 
-PLANS["mfb-highpass"] = Plan((Group((
-    Step("C3"), Step("C1", lambda v, w: [(v["C3"] * w.g_lo, v["C3"] * w.g_hi)]),
-    Step("C2", _hp_c2), Step("R1", _hp_r1), Step("R2", _hp_r2))),))
+PLANS["mfb-highpass"] = Plan(
+    (
+        Group(
+            (
+                Step("C3"),
+                Step("C1", lambda v, w: [(v["C3"] * w.g_lo, v["C3"] * w.g_hi)]),
+                Step("C2", _hp_c2),
+                Step("R1", _hp_r1),
+                Step("R2", _hp_r2),
+            )
+        ),
+    )
+)
 
 
 def _bp_rp(v, w):
@@ -93,6 +114,6 @@ def _bp_r2(v, w):
     return [(lo, hi)]
 
 
-PLANS["mfb-bandpass"] = Plan((Group((
-    Step("C1"), Step("C2"), Step("R3", _bp_r3), Step("R1", _bp_r1),
-    Step("R2", _bp_r2))),))
+PLANS["mfb-bandpass"] = Plan(
+    (Group((Step("C1"), Step("C2"), Step("R3", _bp_r3), Step("R1", _bp_r1), Step("R2", _bp_r2))),)
+)

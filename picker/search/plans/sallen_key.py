@@ -30,7 +30,7 @@ def _p(v, w):
 
 
 def _c2_by_bounds(v, w):
-    return w.b0_lo / (w.r_hi ** 2 * v["C1"]), w.b0_hi / (w.r_lo ** 2 * v["C1"])
+    return w.b0_lo / (w.r_hi**2 * v["C1"]), w.b0_hi / (w.r_lo**2 * v["C1"])
 
 
 def _r1_set(alpha_lo, alpha_hi, beta_lo, beta_hi, w):
@@ -46,7 +46,7 @@ def _lowpass(gain: bool) -> Plan:
     def c2(v, w):
         lo, hi = _c2_by_bounds(v, w)
         if not gain:
-            hi = np.minimum(hi, v["C1"] / (4.0 * w.q_lo ** 2))
+            hi = np.minimum(hi, v["C1"] / (4.0 * w.q_lo**2))
         return [(lo, hi)]
 
     def r1(v, w):
@@ -54,8 +54,10 @@ def _lowpass(gain: bool) -> Plan:
         p_lo, p_hi = _p(v, w)
         return _r1_set(c2v - w.d_hi * c1, c2v - w.d_lo * c1, c2v * p_lo, c2v * p_hi, w)
 
-    group = Group((Step("C1"), Step("C2", c2), Step("R1", r1), Step("R2", _r2)),
-                  determines=("f0",) if gain else ("f0", "q", "gain"))
+    group = Group(
+        (Step("C1"), Step("C2", c2), Step("R1", r1), Step("R2", _r2)),
+        determines=("f0",) if gain else ("f0", "q", "gain"),
+    )
     return Plan((group, gain_group()) if gain else (group,))
 
 
@@ -66,9 +68,15 @@ def _highpass(gain: bool) -> Plan:
         alpha = c1 + c2v
         return _r1_set(alpha, alpha, -w.d_hi * c2v * p_hi, -w.d_lo * c2v * p_lo, w)
 
-    group = Group((Step("C1"), Step("C2", lambda v, w: [_c2_by_bounds(v, w)]),
-                   Step("R1", r1), Step("R2", _r2)),
-                  determines=("f0",) if gain else ("f0", "q", "gain"))
+    group = Group(
+        (
+            Step("C1"),
+            Step("C2", lambda v, w: [_c2_by_bounds(v, w)]),
+            Step("R1", r1),
+            Step("R2", _r2),
+        ),
+        determines=("f0",) if gain else ("f0", "q", "gain"),
+    )
     return Plan((group, gain_group()) if gain else (group,))
 
 

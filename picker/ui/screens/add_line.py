@@ -51,14 +51,17 @@ def check(kind: str, field: str, text: str):
         backend.need("stock.values", "parse_voltage").parse_voltage(text)
     elif field == "dielectric":
         from stock.model import DIELECTRICS
+
         names = {d.lower(): d for d in DIELECTRICS}
         if text.lower() not in names:
             raise ValueParseError(f"dielectric '{text}': write one of {', '.join(DIELECTRICS)}")
         return names[text.lower()]
     elif field in ("qty", "channels"):
         if not text.isdigit() or (field == "channels" and int(text) < 1):
-            raise ValueParseError(f"{field} '{text}': write a whole number"
-                                  + (" from 1" if field == "channels" else ", 0 or more"))
+            raise ValueParseError(
+                f"{field} '{text}': write a whole number"
+                + (" from 1" if field == "channels" else ", 0 or more")
+            )
         return int(text)
     return text
 
@@ -73,9 +76,7 @@ class AddLineScreen(ModalScreen[str | None]):
 
     def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
         # enter belongs to a list while the focus is on it (it opens and chooses)
-        if action == "write" and isinstance(self.focused, (Select, OptionList)):
-            return False
-        return True
+        return not (action == "write" and isinstance(self.focused, (Select, OptionList)))
 
     def __init__(self, path, sha256: str | None) -> None:
         super().__init__()
@@ -84,13 +85,20 @@ class AddLineScreen(ModalScreen[str | None]):
 
     def compose(self) -> ComposeResult:
         with Vertical(id="add-dialog", classes="dialog"):
-            yield Static("A new line in the stock file  (enter in any field: write it)",
-                         classes="dialog-title", markup=False)
+            yield Static(
+                "A new line in the stock file  (enter in any field: write it)",
+                classes="dialog-title",
+                markup=False,
+            )
             with Horizontal(classes="field-row"):
                 yield Label("kind", classes="field-label")
-                yield Select([("resistor", "resistor"), ("capacitor", "capacitor"),
-                              ("op amp", "opamp")], value="resistor", allow_blank=False,
-                             id="add-kind", compact=True)
+                yield Select(
+                    [("resistor", "resistor"), ("capacitor", "capacitor"), ("op amp", "opamp")],
+                    value="resistor",
+                    allow_blank=False,
+                    id="add-kind",
+                    compact=True,
+                )
             for name, (label, _kinds, hint) in FIELDS.items():
                 with Horizontal(classes="field-row", id=f"row-{name}"):
                     yield Label(label, classes="field-label")
@@ -149,8 +157,9 @@ class AddLineScreen(ModalScreen[str | None]):
             if not ok:
                 bad.append(label)
                 if not self.query_one(f"#add-{name}", Input).value.strip():
-                    put(self.query_one(f"#msg-{name}", Static),
-                        say("error", f"{label} is required"))
+                    put(
+                        self.query_one(f"#msg-{name}", Static), say("error", f"{label} is required")
+                    )
             elif value is not None:
                 fields[name] = value
         status = self.query_one("#add-status", Static)
@@ -166,8 +175,10 @@ class AddLineScreen(ModalScreen[str | None]):
             put(status, say("error", str(exc)))
             return
         what = fields.get("value") or fields.get("name")
-        self.dismiss(f"added: {self.kind} {what}, qty {fields['qty']}"
-                     + (f" in {fields['location']}" if "location" in fields else ""))
+        self.dismiss(
+            f"added: {self.kind} {what}, qty {fields['qty']}"
+            + (f" in {fields['location']}" if "location" in fields else "")
+        )
 
     def action_cancel(self) -> None:
         self.dismiss(None)

@@ -28,8 +28,11 @@ class ConfirmScreen(ModalScreen[bool]):
         with Vertical(classes="dialog", id="confirm-dialog"):
             yield Static(self.question, classes="dialog-title", markup=False)
             with VerticalScroll(id="confirm-body"):
-                yield Static(self.body, markup=False) if isinstance(self.body, str) \
+                yield (
+                    Static(self.body, markup=False)
+                    if isinstance(self.body, str)
                     else Static(self.body)
+                )
             yield Static(f"{self.yes}     {self.no}", id="confirm-keys", markup=False)
         yield Footer()
 

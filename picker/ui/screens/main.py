@@ -18,8 +18,7 @@ from textual.screen import Screen
 from textual.widgets import ContentSwitcher, Footer, Static
 from textual.worker import Worker, WorkerState, get_current_worker
 
-from picker.ui import backend
-from picker.ui import offload
+from picker.ui import backend, offload
 from picker.ui.offload import Cancelled, Lane
 from picker.ui.targets_form import Targets
 from picker.ui.widgets.chosen import ChosenPane
@@ -29,10 +28,14 @@ from picker.ui.widgets.matches import MatchesPane
 from picker.ui.widgets.targets import TargetsPane
 from stock.errors import PickerError, StockFileError
 
-PANES = (("drawers", "drawers"), ("targets", "targets"), ("matches", "matches"),
-         ("chosen", "chosen"))
+PANES = (
+    ("drawers", "drawers"),
+    ("targets", "targets"),
+    ("matches", "matches"),
+    ("chosen", "chosen"),
+)
 DEBOUNCE_S = 0.3
-PAUSE_S = 0.15          # between the steps of start-up
+PAUSE_S = 0.15  # between the steps of start-up
 # where the focus lands when a pane is shown (else its first focusable widget)
 FIRST_FOCUS = {"drawers": "#stock-table", "matches": "#m-table", "chosen": "#chosen"}
 
@@ -80,12 +83,12 @@ class MainScreen(TypingAware, Screen):
         self.note = note
         self.stock = None
         self.targets: Targets | None = None
-        self.result_targets: Targets | None = None    # the targets of the matches shown
+        self.result_targets: Targets | None = None  # the targets of the matches shown
         self.busy = False
         self.generation = 0
         self._timer = None
         self._searching: Targets | None = None
-        self.started = False                # True once every pane is mounted
+        self.started = False  # True once every pane is mounted
         self._wanted_pane: str | None = None
         self.lane = Lane("search")
 
@@ -93,7 +96,7 @@ class MainScreen(TypingAware, Screen):
         name = self.stock_path.name if self.stock_path else "no stock file"
         yield PaneBar(bar_text("drawers", busy=False, stock_name=name), id="pane-bar")
         with ContentSwitcher(initial="drawers", id="panes"):
-            yield DrawersPane(id="drawers")       # the other panes come after the first paint
+            yield DrawersPane(id="drawers")  # the other panes come after the first paint
         yield Footer()
 
     def on_mount(self) -> None:
@@ -111,7 +114,7 @@ class MainScreen(TypingAware, Screen):
         self.set_timer(PAUSE_S, self._third_step)
 
     async def _third_step(self) -> None:
-        offload.start()                 # the fork server imports the core meanwhile
+        offload.start()  # the fork server imports the core meanwhile
         panes = [TargetsPane(id="targets"), MatchesPane(id="matches"), ChosenPane(id="chosen")]
         for pane in panes:
             pane.display = False
@@ -119,7 +122,7 @@ class MainScreen(TypingAware, Screen):
         for chosen in self.query(ChosenPane):
             chosen.set_stock(self.stock)
         self.started = True
-        if self._wanted_pane is not None:       # a pane key pressed in the first moment
+        if self._wanted_pane is not None:  # a pane key pressed in the first moment
             self.action_pane(self._wanted_pane)
 
     def on_unmount(self) -> None:
@@ -141,7 +144,7 @@ class MainScreen(TypingAware, Screen):
 
     def action_pane(self, pane_id: str) -> None:
         if not self.query(f"#{pane_id}"):
-            self._wanted_pane = pane_id     # still mounting: go there once it is
+            self._wanted_pane = pane_id  # still mounting: go there once it is
             return
         self.query_one(ContentSwitcher).current = pane_id
         self._bar()
@@ -175,7 +178,7 @@ class MainScreen(TypingAware, Screen):
             drawers.show_error(str(exc))
             return
         drawers.show_stock(self.stock, note)
-        for chosen in self.query(ChosenPane):     # absent until the lazy mount is done
+        for chosen in self.query(ChosenPane):  # absent until the lazy mount is done
             chosen.set_stock(self.stock)
         self.schedule_search()
 
@@ -198,7 +201,8 @@ class MainScreen(TypingAware, Screen):
             self._timer = None
         self.query_one(MatchesPane).show_stale(
             "the targets have a field marked error (pane 2): these matches answer "
-            "the earlier targets")
+            "the earlier targets"
+        )
 
     def schedule_search(self) -> None:
         """Search again after DEBOUNCE_S of quiet: typing restarts the pause."""
@@ -240,7 +244,7 @@ class MainScreen(TypingAware, Screen):
 
     def _searched(self, generation: int, outcome, seconds: float, what: str) -> None:
         if generation != self.generation:
-            return                    # a newer search is on its way
+            return  # a newer search is on its way
         self.busy = False
         self._bar()
         matches = self.query_one(MatchesPane)
@@ -259,7 +263,8 @@ class MainScreen(TypingAware, Screen):
             self._bar()
             error = event.worker.error
             self.query_one(MatchesPane).show_message(
-                f"error: the search failed: {type(error).__name__}: {error}")
+                f"error: the search failed: {type(error).__name__}: {error}"
+            )
 
     @on(MatchesPane.Chosen)
     def _chosen(self, event: MatchesPane.Chosen) -> None:

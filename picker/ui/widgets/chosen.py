@@ -45,8 +45,9 @@ class ChosenPane(VerticalScroll):
         self.stock = None
 
     def compose(self) -> ComposeResult:
-        yield Static("no candidate chosen yet: pick one in pane 3 (matches)", id="c-title",
-                     markup=False)
+        yield Static(
+            "no candidate chosen yet: pick one in pane 3 (matches)", id="c-title", markup=False
+        )
         with Vertical(id="c-body"):
             yield Static("", id="c-schematic", markup=False)
             yield Static("", id="c-warnings", markup=False)
@@ -67,14 +68,16 @@ class ChosenPane(VerticalScroll):
         warn = f"; {len(candidate.warnings)} warning(s) below" if candidate.warnings else ""
         self.query_one("#c-title", Static).update(
             f"candidate {rank}: worst error {pct(candidate.score)}, {candidate.pieces} pieces"
-            f"{warn}   (b: build it, u: undo the last build)")
+            f"{warn}   (b: build it, u: undo the last build)"
+        )
         try:
             schematic = backend.schematic(candidate)
         except backend.Unavailable as exc:
             schematic = Text(f"schematic: not available yet ({exc})")
         self.query_one("#c-schematic", Static).update(schematic)
         self.query_one("#c-warnings", Static).update(
-            "\n".join(f"warning: {w}" for w in candidate.warnings))
+            "\n".join(f"warning: {w}" for w in candidate.warnings)
+        )
         self.query_one("#c-budget", Static).update("error budget: [busy] computing …")
         self.query_one(ResponsePlot).set_note("[busy] computing …")
         self.query_one(F0Histogram).set_note("[busy] computing …")
@@ -122,8 +125,7 @@ class ChosenPane(VerticalScroll):
     @on(Worker.StateChanged)
     def _worker_failed(self, event: Worker.StateChanged) -> None:
         if event.state == WorkerState.ERROR:
-            self.query_one("#c-status", Static).update(
-                say("error", f"{event.worker.error}"))
+            self.query_one("#c-status", Static).update(say("error", f"{event.worker.error}"))
 
     # building --------------------------------------------------------------------
     def _status(self, text: str) -> None:
@@ -159,9 +161,15 @@ class ChosenPane(VerticalScroll):
             self._status(f"built: {note}   (u: undo)")
             self.post_message(self.StockChanged(f"built candidate {self.rank}: {note}"))
 
-        self.app.push_screen(ConfirmScreen(
-            f"Build candidate {self.rank}: take these parts out of the stock file?", body,
-            yes="y: yes, take them out", no="n: no, leave the stock as it is"), answered)
+        self.app.push_screen(
+            ConfirmScreen(
+                f"Build candidate {self.rank}: take these parts out of the stock file?",
+                body,
+                yes="y: yes, take them out",
+                no="n: no, leave the stock as it is",
+            ),
+            answered,
+        )
 
     def action_undo(self) -> None:
         if self.stock is None or self.stock.path is None:
@@ -189,6 +197,12 @@ class ChosenPane(VerticalScroll):
             self._status(f"undone: {note}")
             self.post_message(self.StockChanged(f"undid the last build: {note}"))
 
-        self.app.push_screen(ConfirmScreen(
-            "Undo the last build: put the file back as it was before it?", last,
-            yes="y: yes, restore the file", no="n: no, keep it as it is"), answered)
+        self.app.push_screen(
+            ConfirmScreen(
+                "Undo the last build: put the file back as it was before it?",
+                last,
+                yes="y: yes, restore the file",
+                no="n: no, keep it as it is",
+            ),
+            answered,
+        )

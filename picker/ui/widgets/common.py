@@ -16,9 +16,9 @@ class TypingAware:
     LETTER_ACTIONS: frozenset[str] = frozenset()
 
     def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
-        if action in self.LETTER_ACTIONS and isinstance(self.screen.focused, (Input, TextArea)):
-            return False
-        return True
+        return not (
+            action in self.LETTER_ACTIONS and isinstance(self.screen.focused, (Input, TextArea))
+        )
 
 
 def say(kind: str, text: str) -> str:

@@ -81,8 +81,10 @@ class DrawersPane(TypingAware, Vertical):
         self.rows = []
         self._refill()
         put(self.query_one("#find-count", Static), "no stock")
-        put(self.query_one("#drawers-status", Static),
-            say("error", text) + "\n(fix the file, then press r to read it again)")
+        put(
+            self.query_one("#drawers-status", Static),
+            say("error", text) + "\n(fix the file, then press r to read it again)",
+        )
 
     def _refill(self) -> None:
         table = self.query_one(DataTable)
@@ -106,8 +108,10 @@ class DrawersPane(TypingAware, Vertical):
             for i, row in enumerate(self.shown):
                 if (row.kind, row.index) == (keep.kind, keep.index):
                     table.move_cursor(row=i)
-        put(self.query_one("#find-count", Static),
-            f"{len(self.shown)} of {len(self.rows)} lines" if self.stock else "")
+        put(
+            self.query_one("#find-count", Static),
+            f"{len(self.shown)} of {len(self.rows)} lines" if self.stock else "",
+        )
 
     def current_row(self) -> Row | None:
         table = self.query_one(DataTable)
@@ -123,8 +127,7 @@ class DrawersPane(TypingAware, Vertical):
         if row is None:
             put(label, "")
         else:
-            put(label, f"for {row.cells[0]} {row.cells[1]} in {row.cells[4]} "
-                         f"(now {row.qty})")
+            put(label, f"for {row.cells[0]} {row.cells[1]} in {row.cells[4]} (now {row.qty})")
 
     # events ----------------------------------------------------------------------
     @on(Input.Changed, "#find")
@@ -155,9 +158,11 @@ class DrawersPane(TypingAware, Vertical):
         except PickerError as exc:
             put(self.query_one("#qty-message", Static), say("error", str(exc)))
             return
-        put(self.query_one("#qty-message", Static),
+        put(
+            self.query_one("#qty-message", Static),
             f"enter: {row.qty} -> {row.qty + delta} for {row.cells[0]} {row.cells[1]}"
-            f" in {row.cells[4]}")
+            f" in {row.cells[4]}",
+        )
 
     @on(Input.Submitted, "#qty")
     def _qty_submitted(self, event: Input.Submitted) -> None:
@@ -171,8 +176,9 @@ class DrawersPane(TypingAware, Vertical):
             if delta == 0:
                 put(message, f"unchanged: {row.qty} on hand")
                 return
-            backend.change_qty(self.stock.path, row.kind, row.index, delta,
-                               expect_sha256=self.stock.sha256)
+            backend.change_qty(
+                self.stock.path, row.kind, row.index, delta, expect_sha256=self.stock.sha256
+            )
         except backend.Unavailable as exc:
             put(message, f"not available yet: editing ({exc})")
             return
@@ -180,9 +186,12 @@ class DrawersPane(TypingAware, Vertical):
             put(message, say("error", str(exc)))
             return
         event.input.value = ""
-        self.post_message(self.StockChanged(
-            f"saved: {row.cells[0]} {row.cells[1]} in {row.cells[4]}: "
-            f"{row.qty} -> {row.qty + delta}"))
+        self.post_message(
+            self.StockChanged(
+                f"saved: {row.cells[0]} {row.cells[1]} in {row.cells[4]}: "
+                f"{row.qty} -> {row.qty + delta}"
+            )
+        )
         self.query_one(DataTable).focus()
 
     # actions ---------------------------------------------------------------------
@@ -198,8 +207,7 @@ class DrawersPane(TypingAware, Vertical):
 
     def action_add_line(self) -> None:
         if self.stock is None or self.stock.path is None:
-            put(self.query_one("#drawers-status", Static),
-                say("error", "no stock file is open"))
+            put(self.query_one("#drawers-status", Static), say("error", "no stock file is open"))
             return
         from picker.ui.screens.add_line import AddLineScreen
 

@@ -33,7 +33,8 @@ def parts_text(candidate) -> str:
 
     return " | ".join(
         " ".join(f"{name} {format_rkm(arr.value, arr.kind)}" for name, arr in stage.positions)
-        for stage in candidate.stages)
+        for stage in candidate.stages
+    )
 
 
 def tradeoff_text(tradeoff, *, width: int = 40) -> Text:
@@ -69,8 +70,7 @@ class MatchesPane(Vertical):
         self.last_status = ""
 
     def compose(self) -> ComposeResult:
-        yield Static("no search yet: fill in the targets (pane 2)", id="m-status",
-                     markup=False)
+        yield Static("no search yet: fill in the targets (pane 2)", id="m-status", markup=False)
         yield DataTable(id="m-table", cursor_type="row")
         yield Static("", id="m-tradeoff")
 
@@ -105,11 +105,14 @@ class MatchesPane(Vertical):
             if values in seen:
                 notes.append(f"as {seen[values]}, other drawers")
             seen.setdefault(values, rank)
-            table.add_row(str(rank), pct(c.score), str(c.pieces), values, "; ".join(notes),
-                          key=str(rank))
+            table.add_row(
+                str(rank), pct(c.score), str(c.pieces), values, "; ".join(notes), key=str(rank)
+            )
         n = len(self.candidates)
-        self._show_status(f"done: {n} candidate(s) for {what} in {seconds:.2f} s"
-                     + ("; enter on a row: look closer" if n else ""))
+        self._show_status(
+            f"done: {n} candidate(s) for {what} in {seconds:.2f} s"
+            + ("; enter on a row: look closer" if n else "")
+        )
         self.query_one("#m-tradeoff", Static).update(tradeoff_text(result.tradeoff))
 
     @on(DataTable.RowSelected, "#m-table")

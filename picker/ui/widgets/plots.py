@@ -48,13 +48,30 @@ class ResponsePlot(Widget):
         top = max(finite) if finite else 0.0
         m_lo, m_hi = nice_range(max(min(finite, default=-60.0), top - 80.0), top + 1.0, 20.0)
         finite_p = [p for p in self.phase_deg if math.isfinite(p)]
-        p_lo, p_hi = nice_range(min(finite_p, default=-90.0), max(finite_p, default=90.0),
-                                90.0)
+        p_lo, p_hi = nice_range(min(finite_p, default=-90.0), max(finite_p, default=90.0), 90.0)
         p_step = 90.0 if p_hi - p_lo <= 360 else 180.0
-        mag = labelled_plot(xs, self.mag_db, width=width, height=8, x_range=x_range,
-                            y_range=(m_lo, m_hi), y_step=20.0, y_unit="", x_ticks=ticks)
-        phase = labelled_plot(xs, self.phase_deg, width=width, height=5, x_range=x_range,
-                              y_range=(p_lo, p_hi), y_step=p_step, y_unit="°", x_ticks=ticks)
+        mag = labelled_plot(
+            xs,
+            self.mag_db,
+            width=width,
+            height=8,
+            x_range=x_range,
+            y_range=(m_lo, m_hi),
+            y_step=20.0,
+            y_unit="",
+            x_ticks=ticks,
+        )
+        phase = labelled_plot(
+            xs,
+            self.phase_deg,
+            width=width,
+            height=5,
+            x_range=x_range,
+            y_range=(p_lo, p_hi),
+            y_step=p_step,
+            y_unit="°",
+            x_ticks=ticks,
+        )
         text = Text()
         text.append("magnitude, dB, against frequency, Hz\n", style="bold")
         text.append("\n".join(mag) + "\n")
@@ -106,21 +123,26 @@ class F0Histogram(Widget):
 
         axis = ["─"] * width
         target, window = h["target"], h["window"]
-        for f_hz, ch in ((target * (1 - window), "["), (target * (1 + window), "]"),
-                         (h["nominal"], "o"), (target, "^")):
+        for f_hz, ch in (
+            (target * (1 - window), "["),
+            (target * (1 + window), "]"),
+            (h["nominal"], "o"),
+            (target, "^"),
+        ):
             c = col(f_hz)
             if c is not None:
                 axis[c] = ch
         labels = [" "] * width
         left, right = hz_text(lo), hz_text(hi)
-        labels[:len(left)] = left
-        labels[width - len(right):] = right
+        labels[: len(left)] = left
+        labels[width - len(right) :] = right
         text = Text()
         text.append(f"{h['quantity']}: {h['trials']} trials", style="bold")
         text.append(f", {h['yield'] * 100:.1f}% inside the window ±{window * 100:g}%\n")
         text.append("\n".join(bars) + "\n" + "".join(axis) + "\n" + "".join(labels) + "\n")
-        text.append(f"^ target {hz_text(target)}   o nominal parts {hz_text(h['nominal'])}"
-                    f"   [ ] window")
+        text.append(
+            f"^ target {hz_text(target)}   o nominal parts {hz_text(h['nominal'])}   [ ] window"
+        )
         if h.get("outside"):
             text.append(f"\n{h['outside']} trial(s) had no such frequency and are not shown")
         return text

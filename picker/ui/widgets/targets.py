@@ -13,8 +13,16 @@ from textual.containers import Horizontal, VerticalScroll
 from textual.message import Message
 from textual.widgets import Checkbox, Input, Label, Select, Static
 
-from picker.ui.targets_form import (FAMILIES, RESPONSE_TYPES, RESPONSES, TEXT_FIELDS,
-                                    FormError, Targets, read_field, read_targets)
+from picker.ui.targets_form import (
+    FAMILIES,
+    RESPONSE_TYPES,
+    RESPONSES,
+    TEXT_FIELDS,
+    FormError,
+    Targets,
+    read_field,
+    read_targets,
+)
 from picker.ui.widgets.common import Tick, put, say
 from stock.errors import PickerError
 
@@ -50,27 +58,36 @@ class TargetsPane(VerticalScroll):
         def choice(name: str, label: str, options, hint: str):
             with Horizontal(classes="field-row"):
                 yield Label(label, classes="field-label")
-                yield Select([(o, o) for o in options], value=options[0], allow_blank=False,
-                             id=f"t-{name}", compact=True)
+                yield Select(
+                    [(o, o) for o in options],
+                    value=options[0],
+                    allow_blank=False,
+                    id=f"t-{name}",
+                    compact=True,
+                )
                 yield Static(hint, classes="field-message", markup=False)
 
         yield from choice("type", "type", RESPONSE_TYPES, "what passes")
         yield from choice("response", "response", RESPONSES, "shape of the passband")
         for name, (label, default) in TEXT_FIELDS.items():
             if name == "r_min":
-                yield from choice("family", "circuit", FAMILIES,
-                                  "topology family; any: the search picks")
+                yield from choice(
+                    "family", "circuit", FAMILIES, "topology family; any: the search picks"
+                )
             with Horizontal(classes="field-row"):
                 yield Label(label, classes="field-label")
                 yield Input(default, id=f"t-{name}", compact=True)
-                yield Static(HINTS[name], id=f"m-{name}", classes="field-message",
-                             markup=False)
+                yield Static(HINTS[name], id=f"m-{name}", classes="field-message", markup=False)
         with Horizontal(classes="field-row"):
-            yield Tick("single pieces only (no series/parallel pairs)", id="t-singles",
-                           compact=True)
+            yield Tick(
+                "single pieces only (no series/parallel pairs)", id="t-singles", compact=True
+            )
         with Horizontal(classes="field-row"):
-            yield Tick("allow polarized capacitors (mind polarity and bias)",
-                           id="t-polarized", compact=True)
+            yield Tick(
+                "allow polarized capacitors (mind polarity and bias)",
+                id="t-polarized",
+                compact=True,
+            )
         yield Static("", id="t-status", markup=False)
 
     def on_mount(self) -> None:
@@ -88,7 +105,8 @@ class TargetsPane(VerticalScroll):
                 response=str(self.query_one("#t-response", Select).value),
                 family=str(self.query_one("#t-family", Select).value),
                 singles=self.query_one("#t-singles", Checkbox).value,
-                allow_polarized=self.query_one("#t-polarized", Checkbox).value)
+                allow_polarized=self.query_one("#t-polarized", Checkbox).value,
+            )
         except FormError as exc:
             for name, text in exc.errors.items():
                 put(self.query_one(f"#m-{name}", Static), say("error", text))
@@ -97,7 +115,7 @@ class TargetsPane(VerticalScroll):
                 self.targets = None
                 self.post_message(self.Invalid())
             return
-        except Exception as exc:   # a parser of the core missing or broken
+        except Exception as exc:  # a parser of the core missing or broken
             put(status, say("error", f"cannot read the form: {exc}"))
             return
         put(status, "")

@@ -7,22 +7,32 @@ import numpy as np
 import pytest
 import scipy.signal as ss
 
-from picker.analysis import (cascade_group_delay_s, cascade_response, chain, nodal_response,
-                             step_response)
+from picker.analysis import (
+    cascade_group_delay_s,
+    cascade_response,
+    chain,
+    nodal_response,
+    step_response,
+)
 from picker.filters import plan_stages
 
 
 def nets(btype, response, order, **kw):
-    return [t.netlist(t.synthesize(s)) for t, s in
-            plan_stages(btype, response=response, order=order, fc_hz=1000.0, **kw)]
+    return [
+        t.netlist(t.synthesize(s))
+        for t, s in plan_stages(btype, response=response, order=order, fc_hz=1000.0, **kw)
+    ]
 
 
 @pytest.mark.parametrize("gbw", [None, 1e6])
 def test_chained_netlist_equals_product_of_stages(gbw):
     stages = nets("highpass", "chebyshev", 7, gain=2.0, family="mfb")
     f = np.logspace(1, 5, 400)
-    np.testing.assert_allclose(nodal_response(chain(stages), f, gbw_hz=gbw),
-                               cascade_response(stages, f, gbw_hz=gbw), rtol=1e-9)
+    np.testing.assert_allclose(
+        nodal_response(chain(stages), f, gbw_hz=gbw),
+        cascade_response(stages, f, gbw_hz=gbw),
+        rtol=1e-9,
+    )
     names = [e.name for e in chain(stages)]
     assert len(names) == len(set(names))
 

@@ -15,8 +15,15 @@ FC = 1000.0
 
 
 def cascade(btype, response, order, *, gain=1.0, family=None, ripple_db=1.0):
-    stages = plan_stages(btype, response=response, order=order, fc_hz=FC, gain=gain,
-                         family=family, ripple_db=ripple_db)
+    stages = plan_stages(
+        btype,
+        response=response,
+        order=order,
+        fc_hz=FC,
+        gain=gain,
+        family=family,
+        ripple_db=ripple_db,
+    )
     return [topo.netlist(topo.synthesize(target)) for topo, target in stages]
 
 
@@ -28,7 +35,7 @@ def around(fc=FC, decades=3, n=6001):
 @pytest.mark.parametrize("btype", ["lowpass", "highpass"])
 @pytest.mark.parametrize("order", range(1, 9))
 def test_minus_3db_at_fc(response, btype, order):
-    family = "mfb" if order % 3 == 0 else None       # both families get exercised
+    family = "mfb" if order % 3 == 0 else None  # both families get exercised
     nets = cascade(btype, response, order, family=family, gain=2.0)
     f = around()
     h = cascade_response(nets, f)
@@ -55,7 +62,7 @@ def test_chebyshev_ripple_edge_and_height(btype, order, rp):
     lo, hi = (f[0], FC) if btype == "lowpass" else (FC, f[-1])
     # peak-to-peak over the band is rp (a first-order stage falls monotonically to -rp)
     assert passband_ripple_db(f, h, lo, hi) == pytest.approx(rp, abs=2e-3)
-    assert np.all(mag[~band] - peak < -rp + 1e-9)          # beyond the edge it only falls
+    assert np.all(mag[~band] - peak < -rp + 1e-9)  # beyond the edge it only falls
     # gain reference: DC (low-pass) / high-frequency (high-pass) gain is the product of
     # the stage gains, 1 here; an even order's peak is rp above it
     ref = cascade_response(nets, [FC * (1e-6 if btype == "lowpass" else 1e6)])[0]

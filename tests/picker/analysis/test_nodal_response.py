@@ -6,8 +6,16 @@ import numpy as np
 import pytest
 import scipy.signal as ss
 
-from picker.analysis import (build_system, cascade_response, estimate_stage, group_delay_s,
-                             magnitude_db, nodal_response, phase_deg, poles)
+from picker.analysis import (
+    build_system,
+    cascade_response,
+    estimate_stage,
+    group_delay_s,
+    magnitude_db,
+    nodal_response,
+    phase_deg,
+    poles,
+)
 from picker.errors import DesignError
 from picker.filters import REGISTRY, plan_stages
 from picker.filters.base import Element
@@ -23,16 +31,18 @@ def rc_lowpass(r=1e3, c=100e-9):
 def section_ba(topo, values):
     """(b, a) in s (rad/s) of the standard section with the topology's analytic f0/Q/gain;
     sign from the topology's inverting flag (standard section forms; from memory)."""
-    f0, q, k = (np.asarray(x, dtype=float) if x is not None else None
-                for x in topo.characteristics(values))
+    f0, q, k = (
+        np.asarray(x, dtype=float) if x is not None else None for x in topo.characteristics(values)
+    )
     w0 = 2 * math.pi * float(f0)
     k = float(k) * (-1.0 if topo.inverting else 1.0)
     if topo.order == 1:
         return ([k * w0] if topo.response_type == "lowpass" else [k, 0.0]), [1.0, w0]
     q = float(q)
     a = [1.0, w0 / q, w0 * w0]
-    b = {"lowpass": [k * w0 * w0], "highpass": [k, 0.0, 0.0],
-         "bandpass": [k * w0 / q, 0.0]}[topo.response_type]
+    b = {"lowpass": [k * w0 * w0], "highpass": [k, 0.0, 0.0], "bandpass": [k * w0 / q, 0.0]}[
+        topo.response_type
+    ]
     return b, a
 
 
@@ -61,14 +71,16 @@ def test_follower_with_single_pole_op_amp():
     f = np.logspace(2, 8, 61)
     s = 2j * np.pi * f
     amp = a0 / (1 + s * a0 / (2 * np.pi * gbw))
-    np.testing.assert_allclose(nodal_response(elements, f, gbw_hz=gbw), amp / (1 + amp),
-                               rtol=1e-9)
+    np.testing.assert_allclose(nodal_response(elements, f, gbw_hz=gbw), amp / (1 + amp), rtol=1e-9)
 
 
 def test_inverting_amplifier_bandwidth_is_gbw_over_noise_gain():
     # closed-loop -3 dB at about GBW / (1 + R2/R1) (common practice)
-    elements = [Element("R", "R1", ("in", "n"), 1e3), Element("R", "R2", ("n", "out"), 10e3),
-                Element("OA", "U1", ("0", "n", "out"))]
+    elements = [
+        Element("R", "R1", ("in", "n"), 1e3),
+        Element("R", "R2", ("n", "out"), 10e3),
+        Element("OA", "U1", ("0", "n", "out")),
+    ]
     f = np.array([1.0, 1e6 / 11])
     h = nodal_response(elements, f, gbw_hz=1e6)
     assert abs(h[0]) == pytest.approx(10.0, rel=1e-3)
@@ -92,7 +104,7 @@ def test_phase_is_unwrapped_for_an_eighth_order_cascade():
     stages = plan_stages("lowpass", order=8, fc_hz=1000.0)
     h = cascade_response([t.netlist(t.synthesize(s)) for t, s in stages], np.logspace(0, 6, 2000))
     ph = phase_deg(h)
-    assert ph[-1] == pytest.approx(-720.0, abs=1.0)     # 8 poles: -90 degrees each
+    assert ph[-1] == pytest.approx(-720.0, abs=1.0)  # 8 poles: -90 degrees each
     assert np.all(np.abs(np.diff(ph)) < 10.0)
 
 
@@ -100,22 +112,30 @@ def test_phase_is_unwrapped_for_an_eighth_order_cascade():
 def test_poles_of_planned_stages_match_scipy(response):
     # reference: scipy.signal butter/bessel(norm="mag")/cheby1 analog zpk poles
     wc = 2 * math.pi * 500.0
-    design = {"butterworth": lambda: ss.butter(6, wc, analog=True, output="zpk"),
-              "bessel": lambda: ss.bessel(6, wc, analog=True, output="zpk", norm="mag"),
-              "chebyshev": lambda: ss.cheby1(6, 1.0, wc, analog=True, output="zpk")}
+    design = {
+        "butterworth": lambda: ss.butter(6, wc, analog=True, output="zpk"),
+        "bessel": lambda: ss.bessel(6, wc, analog=True, output="zpk", norm="mag"),
+        "chebyshev": lambda: ss.cheby1(6, 1.0, wc, analog=True, output="zpk"),
+    }
     _, want, _ = design[response]()
-    got = np.concatenate([poles(t.netlist(t.synthesize(s)))
-                          for t, s in plan_stages("lowpass", response=response, order=6,
-                                                  fc_hz=500.0, family="mfb")])
-    key = lambda z: (round(z.real, 3), z.imag)   # noqa: E731
+    got = np.concatenate(
+        [
+            poles(t.netlist(t.synthesize(s)))
+            for t, s in plan_stages(
+                "lowpass", response=response, order=6, fc_hz=500.0, family="mfb"
+            )
+        ]
+    )
+    key = lambda z: (round(z.real, 3), z.imag)  # noqa: E731
     np.testing.assert_allclose(sorted(got, key=key), sorted(want, key=key), rtol=1e-8)
 
 
 @pytest.mark.parametrize("key", sorted(REGISTRY))
 def test_estimate_stage_ideal_equals_analytic(key):
     topo = REGISTRY[key]
-    values = topo.synthesize(StageTarget(900.0, None if topo.order == 1 else 2.2,
-                                         2.0 if topo.sets_gain else None))
+    values = topo.synthesize(
+        StageTarget(900.0, None if topo.order == 1 else 2.2, 2.0 if topo.sets_gain else None)
+    )
     f0, q, k = topo.characteristics(values)
     ef0, eq, ek = estimate_stage(topo.netlist(values), topo.order, topo.response_type)
     assert ef0 == pytest.approx(float(f0), rel=1e-8)
@@ -124,24 +144,26 @@ def test_estimate_stage_ideal_equals_analytic(key):
     if q is not None:
         assert eq == pytest.approx(float(q), rel=1e-8)
     # a very fast op amp changes almost nothing
-    gf0, _, gk = estimate_stage(topo.netlist(values), topo.order, topo.response_type,
-                                gbw_hz=1e12)
+    gf0, _, gk = estimate_stage(topo.netlist(values), topo.order, topo.response_type, gbw_hz=1e12)
     assert gf0 == pytest.approx(float(f0), rel=1e-4)
     assert gk == pytest.approx(float(k), rel=1e-4)
 
 
 def test_descriptor_matrices_shape():
     system = build_system(rc_lowpass())
-    assert system.G.shape == system.C.shape == (3, 3)      # in, out, source current
+    assert system.G.shape == system.C.shape == (3, 3)  # in, out, source current
     assert system.nodes == ("in", "out")
 
 
-@pytest.mark.parametrize("elements, match", [
-    ([Element("R", "R1", ("in", "x"), 1e3)], "no node 'out'"),
-    ([Element("R", "R1", ("in", "out"), -1.0)], "R1 has value -1.0"),
-    ([Element("L", "L1", ("in", "out"), 1e-3)], "unknown kind 'L'"),
-    ([Element("C", "C1", ("in", "out"), 1e-9)], "cannot be solved"),
-])
+@pytest.mark.parametrize(
+    "elements, match",
+    [
+        ([Element("R", "R1", ("in", "x"), 1e3)], "no node 'out'"),
+        ([Element("R", "R1", ("in", "out"), -1.0)], "R1 has value -1.0"),
+        ([Element("L", "L1", ("in", "out"), 1e-3)], "unknown kind 'L'"),
+        ([Element("C", "C1", ("in", "out"), 1e-9)], "cannot be solved"),
+    ],
+)
 def test_bad_netlists(elements, match):
     with pytest.raises(DesignError, match=match):
         nodal_response(elements, [0.0, 100.0])

@@ -21,8 +21,9 @@ def section_tf(topo, values):
         b = [k * w0] if topo.response_type == "lowpass" else [k, 0.0]
         return b, [1.0, w0]
     q = float(q)
-    b = {"lowpass": [k * w0 * w0], "highpass": [k, 0.0, 0.0],
-         "bandpass": [k * w0 / q, 0.0]}[topo.response_type]
+    b = {"lowpass": [k * w0 * w0], "highpass": [k, 0.0, 0.0], "bandpass": [k * w0 / q, 0.0]}[
+        topo.response_type
+    ]
     return b, [1.0, w0 / q, w0 * w0]
 
 
@@ -30,15 +31,16 @@ def section_tf(topo, values):
 def test_step_matches_scipy_step(key):
     # reference: scipy.signal.step (exact for the closed form, via state space)
     topo = REGISTRY[key]
-    values = topo.synthesize(StageTarget(1000.0, None if topo.order == 1 else 2.0,
-                                         1.5 if topo.sets_gain else None))
-    t = np.linspace(0.0, 5e-3, 5001)                      # 1 us steps, 5 periods of f0
+    values = topo.synthesize(
+        StageTarget(1000.0, None if topo.order == 1 else 2.0, 1.5 if topo.sets_gain else None)
+    )
+    t = np.linspace(0.0, 5e-3, 5001)  # 1 us steps, 5 periods of f0
     got = step_response(topo.netlist(values), t)
     _, want = ss.step(section_tf(topo, values), T=t)
-    assert got[0] == 0.0                                  # at rest just before the step
+    assert got[0] == 0.0  # at rest just before the step
     scale = np.max(np.abs(want))
     # BDF2 is second-order accurate; the first two samples carry the start-up error
-    np.testing.assert_allclose(got[3:], want[3:], atol=2e-4 * scale)   # measured 3.5e-5 worst
+    np.testing.assert_allclose(got[3:], want[3:], atol=2e-4 * scale)  # measured 3.5e-5 worst
 
 
 def test_step_of_lowpass_with_q_two_overshoots_as_expected():
@@ -60,11 +62,14 @@ def test_step_with_finite_gbw_settles_to_closed_loop_gain():
     assert y[-1] == pytest.approx(3.0 / (1 + 3.0 / 2e5), rel=1e-4)
 
 
-@pytest.mark.parametrize("t, match", [
-    ([0.0, 1.0], "at least 3 points"),
-    ([0.0, 1.0, 3.0], "uniform and increasing"),
-    ([0.0, -1.0, -2.0], "uniform and increasing"),
-])
+@pytest.mark.parametrize(
+    "t, match",
+    [
+        ([0.0, 1.0], "at least 3 points"),
+        ([0.0, 1.0, 3.0], "uniform and increasing"),
+        ([0.0, -1.0, -2.0], "uniform and increasing"),
+    ],
+)
 def test_bad_time_grid(t, match):
     topo = REGISTRY["non-inverting-lowpass"]
     with pytest.raises(DesignError, match=match):

@@ -9,12 +9,23 @@ from stock.model import Capacitor, OpAmp, Resistor
 
 def piece(kind: str, value: float, tol: float, **line) -> Piece:
     cls = Resistor if kind == "resistor" else Capacitor
-    return Piece(cls(value=value, qty=10, tolerance=tol, tolerance_assumed=False, **line),
-                 value, tol)
+    return Piece(
+        cls(value=value, qty=10, tolerance=tol, tolerance_assumed=False, **line), value, tol
+    )
 
 
-def stage(key: str, values: dict, *, tol=0.01, ctol=None, target=None, pairs=None, r_line=None,
-          c_line=None, tols=None) -> StageChoice:
+def stage(
+    key: str,
+    values: dict,
+    *,
+    tol=0.01,
+    ctol=None,
+    target=None,
+    pairs=None,
+    r_line=None,
+    c_line=None,
+    tols=None,
+) -> StageChoice:
     """A stage of ``key`` with one piece per position (or a pair where ``pairs`` says).
 
     ``pairs`` maps a position to (arrangement, (value_a, value_b)); ``tols`` maps a

@@ -20,9 +20,17 @@ def render(renderable, width=80) -> str:
 
 
 def eighth_order(oa=None):
-    stages = [stage(t.key, t.synthesize(tg), tol=0.01, ctol=0.05, target=tg,
-                    c_line={"dielectric": "X7R", "voltage": 10.0})
-              for t, tg in plan_stages("lowpass", order=8, fc_hz=1000.0, family="sallen-key")]
+    stages = [
+        stage(
+            t.key,
+            t.synthesize(tg),
+            tol=0.01,
+            ctol=0.05,
+            target=tg,
+            c_line={"dielectric": "X7R", "voltage": 10.0},
+        )
+        for t, tg in plan_stages("lowpass", order=8, fc_hz=1000.0, family="sallen-key")
+    ]
     return candidate(*stages, opamp=oa)
 
 
@@ -34,7 +42,7 @@ def test_panel_fits_the_width(compact, width, oa):
     text = render(BudgetPanel(b, compact=compact), width)
     lines = text.splitlines()
     assert max(len(line) for line in lines) <= width
-    assert "…" not in text                      # nothing cut short
+    assert "…" not in text  # nothing cut short
     assert f"Yield {b.monte_carlo.yield_ * 100:.1f} %" in text
     for i in range(1, 5):
         assert f"Stage {i}: sallen-key-lowpass" in text
@@ -44,8 +52,12 @@ def test_panel_fits_the_width(compact, width, oa):
 
 
 def test_one_stage_panel_shows_its_numbers():
-    choice = stage("sallen-key-lowpass", {"R1": 10e3, "R2": 10e3, "C1": 22e-9, "C2": 10e-9},
-                   tol=0.01, ctol=0.05)
+    choice = stage(
+        "sallen-key-lowpass",
+        {"R1": 10e3, "R2": 10e3, "C1": 22e-9, "C2": 10e-9},
+        tol=0.01,
+        ctol=0.05,
+    )
     b = budget(candidate(choice, opamp=opamp()), trials=1000)
     text = render(BudgetPanel(b))
     lo, hi = b.stages[0].tolerance.f0

@@ -29,19 +29,22 @@ def test_low_and_high_resistors():
     assert not has(warnings_of(rc(r=1e3, c=1e-6)), "Below 1 kohm")
     ws = warnings_of(rc(r=2.2e6, c=100e-12), oa=opamp(ib=1e-9))
     high = [w for w in ws if "Above 1 Mohm" in w]
-    assert high and "2.2 mV" in high[0]               # 1 nA x 2.2 Mohm = 2.2 mV
+    assert high and "2.2 mV" in high[0]  # 1 nA x 2.2 Mohm = 2.2 mV
     ws = warnings_of(rc(r=2.2e6, c=100e-12), oa=opamp(ib=None))
     assert has(ws, "bias current is not known")
 
 
-@pytest.mark.parametrize("dielectric, warns", [("X7R", True), ("X5R", True), ("Y5V", True),
-                                               ("C0G", False), ("polypropylene", False)])
+@pytest.mark.parametrize(
+    "dielectric, warns",
+    [("X7R", True), ("X5R", True), ("Y5V", True), ("C0G", False), ("polypropylene", False)],
+)
 def test_class_2_ceramics(dielectric, warns):
     assert has(warnings_of(rc(c_line={"dielectric": dielectric})), "Class-2 ceramic") is warns
 
 
-@pytest.mark.parametrize("rating, warns", [(16.0, True), (22.0, True), (25.0, False),
-                                           (50.0, False)])
+@pytest.mark.parametrize(
+    "rating, warns", [(16.0, True), (22.0, True), (25.0, False), (50.0, False)]
+)
 def test_voltage_rating_against_supply_with_margin(rating, warns):
     """Rating >= 1.5 x supply (common practice): 15 V needs 22.5 V or more."""
     ws = warnings_of(rc(c_line={"dielectric": "C0G", "voltage": rating}), supply=15.0)
@@ -52,14 +55,17 @@ def test_rating_unknown_and_op_amp_supply():
     ws = warnings_of(rc(c_line={"dielectric": "C0G"}), supply=15.0)
     assert has(ws, "Voltage rating not in the stock file")
     assert not has(warnings_of(rc(c_line={"dielectric": "C0G"})), "Voltage rating")
-    ws = warnings_of(rc(c_line={"dielectric": "C0G", "voltage": 100.0}), supply=40.0,
-                     oa=opamp(supply=36.0))
+    ws = warnings_of(
+        rc(c_line={"dielectric": "C0G", "voltage": 100.0}), supply=40.0, oa=opamp(supply=36.0)
+    )
     assert has(ws, "above the op amp's 36 V maximum")
 
 
 def test_polarized_parts_get_the_warning_and_the_safety_caution():
-    ws = warnings_of(rc(c=10e-6, c_line={"dielectric": "electrolytic", "polarized": True,
-                                          "voltage": 50.0}), supply=12.0)
+    ws = warnings_of(
+        rc(c=10e-6, c_line={"dielectric": "electrolytic", "polarized": True, "voltage": 50.0}),
+        supply=12.0,
+    )
     assert has(ws, "Polarized capacitor in a filter position")
     caution = [w for w in ws if w.startswith("Caution")]
     assert caution and "local codes and licensed practice" in caution[0]
@@ -83,17 +89,21 @@ def test_input_impedance_is_stated():
 def test_assumed_tolerance_is_named():
     from picker.parts import Arrangement, Piece, StageChoice
     from stock.model import Resistor
+
     choice = rc()
-    r = Resistor(value=10e3, qty=3)                      # tolerance not given in the file
-    positions = (("R1", Arrangement("single", (Piece(r, 10e3, r.tolerance),))),
-                 choice.positions[1])
+    r = Resistor(value=10e3, qty=3)  # tolerance not given in the file
+    positions = (("R1", Arrangement("single", (Piece(r, 10e3, r.tolerance),))), choice.positions[1])
     choice = StageChoice(choice.topology, choice.target, choice.achieved, positions)
     assert has(warnings_of(choice), "Tolerance assumed (the stock file gives none): stage 1 R1")
 
 
 def test_json_is_plain_and_finite():
-    b = budget(candidate(rc(c_line={"dielectric": "X7R"}), opamp=opamp()), trials=100,
-               supply=12.0, vout_peak=3.0)
+    b = budget(
+        candidate(rc(c_line={"dielectric": "X7R"}), opamp=opamp()),
+        trials=100,
+        supply=12.0,
+        vout_peak=3.0,
+    )
     text = json.dumps(b.to_json(), allow_nan=False)
     back = json.loads(text)
     st = back["stages"][0]
@@ -107,14 +117,17 @@ def test_json_is_plain_and_finite():
     assert b.candidate_json() == {"monte_carlo": b.to_json()["monte_carlo"]}
 
 
-@pytest.mark.parametrize("kw, text", [
-    ({"trials": 0}, "trials 0"),
-    ({"distribution": "triangular"}, "distribution 'triangular'"),
-    ({"window": -0.1}, "window f0=-0.1"),
-    ({"window": {"f": 0.1}}, "unknown key"),
-    ({"temp": (70.0, 0.0)}, "temp (70.0, 0.0)"),
-    ({"supply": -5.0}, "supply -5.0"),
-])
+@pytest.mark.parametrize(
+    "kw, text",
+    [
+        ({"trials": 0}, "trials 0"),
+        ({"distribution": "triangular"}, "distribution 'triangular'"),
+        ({"window": -0.1}, "window f0=-0.1"),
+        ({"window": {"f": 0.1}}, "unknown key"),
+        ({"temp": (70.0, 0.0)}, "temp (70.0, 0.0)"),
+        ({"supply": -5.0}, "supply -5.0"),
+    ],
+)
 def test_bad_options_raise_design_error_quoting_the_input(kw, text):
     with pytest.raises(DesignError) as err:
         budget(candidate(rc()), **kw)

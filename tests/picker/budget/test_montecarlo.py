@@ -28,8 +28,8 @@ def product_cdf(z: float, a: float, b: float) -> float:
     if z >= b * b:
         return 1.0
     if z <= a * b:
-        return (z * math.log(z / a ** 2) - z + a ** 2) / (b - a) ** 2
-    return 1.0 - (b ** 2 - z - z * math.log(b ** 2 / z)) / (b - a) ** 2
+        return (z * math.log(z / a**2) - z + a**2) / (b - a) ** 2
+    return 1.0 - (b**2 - z - z * math.log(b**2 / z)) / (b - a) ** 2
 
 
 def rc_yield(t: float, w: float, offset: float) -> float:
@@ -40,30 +40,32 @@ def rc_yield(t: float, w: float, offset: float) -> float:
     |1 / (X Y offset) - 1| <= w, i.e. 1 / (offset (1 + w)) <= X Y <= 1 / (offset (1 - w)).
     """
     a, b = 1 - t, 1 + t
-    return (product_cdf(1 / (offset * (1 - w)), a, b)
-            - product_cdf(1 / (offset * (1 + w)), a, b))
+    return product_cdf(1 / (offset * (1 - w)), a, b) - product_cdf(1 / (offset * (1 + w)), a, b)
 
 
 def test_product_cdf_against_numerical_integration():
     """Cross-check the closed form with scipy.integrate.quad of the same integral."""
     from scipy.integrate import quad
+
     a, b = 0.9, 1.1
     for z in (0.85, 0.95, 1.0, 1.1, 1.2):
         num, _ = quad(lambda x: (np.clip(z / x, a, b) - a) / (b - a) ** 2, a, b, limit=200)
         assert product_cdf(z, a, b) == pytest.approx(num, abs=1e-9)
 
 
-@pytest.mark.parametrize("t, w, offset", [(0.05, 0.05, 1.0), (0.10, 0.05, 1.0),
-                                          (0.05, 0.03, 1.02), (0.02, 0.01, 1.0)])
+@pytest.mark.parametrize(
+    "t, w, offset", [(0.05, 0.05, 1.0), (0.10, 0.05, 1.0), (0.05, 0.03, 1.02), (0.02, 0.01, 1.0)]
+)
 def test_rc_yield_matches_the_product_of_two_uniforms(t, w, offset):
     choice = stage("non-inverting-lowpass", {"R1": 10e3, "C1": 10e-9}, tol=t)
     f0 = choice.achieved.f0_hz
-    choice = type(choice)(choice.topology, StageTarget(f0 * offset), choice.achieved,
-                          choice.positions)
+    choice = type(choice)(
+        choice.topology, StageTarget(f0 * offset), choice.achieved, choice.positions
+    )
     n = 20000
     b = budget(candidate(choice), trials=n, window={"f0": w}, seed=7)
     p = rc_yield(t, w, offset)
-    se = math.sqrt(p * (1 - p) / n)             # binomial standard error
+    se = math.sqrt(p * (1 - p) / n)  # binomial standard error
     assert abs(b.monte_carlo.yield_ - p) <= 4 * se + 1e-12
     assert b.candidate_json()["monte_carlo"]["trials"] == n
 
@@ -82,8 +84,12 @@ def test_normal_draw_takes_tolerance_as_three_sigma():
 
 
 def test_seeded_and_vectorised_trials_repeat():
-    choice = stage("sallen-key-lowpass", {"R1": 10e3, "R2": 10e3, "C1": 22e-9, "C2": 10e-9},
-                   tol=0.05, ctol=0.10)
+    choice = stage(
+        "sallen-key-lowpass",
+        {"R1": 10e3, "R2": 10e3, "C1": 22e-9, "C2": 10e-9},
+        tol=0.05,
+        ctol=0.10,
+    )
     one = budget(candidate(choice), trials=3000, seed=3).monte_carlo
     two = budget(candidate(choice), trials=3000, seed=3).monte_carlo
     other = budget(candidate(choice), trials=3000, seed=4).monte_carlo
@@ -125,16 +131,18 @@ def test_cascade_histogram_is_the_overall_minus_3db_corner_of_butterworth():
     assert h.edges[0] < fc < h.edges[-1]
 
 
-@pytest.mark.parametrize("response_type, order, fc", [("highpass", 5, 2000.0),
-                                                      ("lowpass", 4, 700.0),
-                                                      ("lowpass", 6, 1234.0)])
+@pytest.mark.parametrize(
+    "response_type, order, fc",
+    [("highpass", 5, 2000.0), ("lowpass", 4, 700.0), ("lowpass", 6, 1234.0)],
+)
 def test_cascade_histogram_of_chebyshev_matches_scipy(response_type, order, fc):
     """1 dB Chebyshev: its -3 dB frequency from scipy.signal.cheby1, relative to the
     passband maximum (0 dB; an even order's DC gain is -1 dB)."""
     b = budget(_designed(response_type, "chebyshev", order, fc, ripple_db=1.0), trials=2000)
     high = response_type == "highpass"
-    num, den = signal.cheby1(order, 1.0, 2 * np.pi * fc, btype="high" if high else "low",
-                             analog=True)
+    num, den = signal.cheby1(
+        order, 1.0, 2 * np.pi * fc, btype="high" if high else "low", analog=True
+    )
     ref = _minus3db_hz(num, den, fc, high=high)
     assert b.monte_carlo.histogram.nominal == pytest.approx(ref, rel=2e-5)
     assert abs(b.monte_carlo.histogram.target / ref - 1) < 2e-5

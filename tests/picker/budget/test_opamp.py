@@ -34,8 +34,16 @@ def test_ideal_op_amp_recovers_the_analytic_characteristics(key):
         assert got[1] == pytest.approx(float(q), rel=1e-8)
 
 
-@pytest.mark.parametrize("key", ["sallen-key-lowpass", "mfb-lowpass", "sallen-key-highpass-gain",
-                                 "mfb-bandpass", "inverting-lowpass"])
+@pytest.mark.parametrize(
+    "key",
+    [
+        "sallen-key-lowpass",
+        "mfb-lowpass",
+        "sallen-key-highpass-gain",
+        "mfb-bandpass",
+        "inverting-lowpass",
+    ],
+)
 def test_huge_gbw_gives_no_shift(key):
     """The ideal op amp is the limit of the single-pole model as GBW grows; only the model's
     finite DC gain A0 = 2e5 (picker.analysis) remains: about noise gain / A0, below 1e-4
@@ -51,14 +59,16 @@ def test_shift_falls_as_one_over_gbw_and_sallen_key_q_rises():
     unity Sallen-Key's Q rises with a slower op amp (known Q enhancement, from memory)."""
     topo = get_topology("sallen-key-lowpass")
     choice = stage(topo.key, topo.synthesize(StageTarget(10e3, 2.0)))
-    shifts = [budget(candidate(choice, opamp=opamp(gbw=g)), trials=10).stages[0].opamp.shift
-              for g in (1e6, 1e7)]   # well above the A0 floor of ~1e-5
+    shifts = [
+        budget(candidate(choice, opamp=opamp(gbw=g)), trials=10).stages[0].opamp.shift
+        for g in (1e6, 1e7)
+    ]  # well above the A0 floor of ~1e-5
     assert shifts[0][1] > 0 and shifts[1][1] > 0
     assert shifts[0][1] / shifts[1][1] == pytest.approx(10.0, rel=0.1)
     assert abs(shifts[0][0]) / abs(shifts[1][0]) == pytest.approx(10.0, rel=0.1)
 
 
-A0 = 2e5   # the single-pole model's DC gain in picker.analysis
+A0 = 2e5  # the single-pole model's DC gain in picker.analysis
 
 
 def test_follower_keeps_the_rc_pole_and_loses_gain_as_the_closed_form_says():
@@ -93,7 +103,7 @@ def test_sallen_key_poles_against_a_hand_derived_cubic():
     q = w0 / -(roots[0] + roots[1]).real
     assert o.real[0] == pytest.approx(w0 / (2 * math.pi), rel=1e-9)
     assert o.real[1] == pytest.approx(q, rel=1e-9)
-    assert o.shift[1] > 0.002          # a slow op amp raises this stage's Q
+    assert o.shift[1] > 0.002  # a slow op amp raises this stage's Q
 
 
 def test_slow_op_amp_warns_with_the_rule():
@@ -106,12 +116,15 @@ def test_slow_op_amp_warns_with_the_rule():
     assert not any("too slow" in w for w in fast.warnings)
 
 
-@pytest.mark.parametrize("key, f0, warns", [
-    ("sallen-key-lowpass", 10e3, True),     # f_p = 7.96 kHz below f0
-    ("sallen-key-lowpass", 1e3, False),
-    ("sallen-key-highpass", 1e3, True),     # a high-pass needs about 10 x f0
-    ("sallen-key-highpass", 500.0, False),
-])
+@pytest.mark.parametrize(
+    "key, f0, warns",
+    [
+        ("sallen-key-lowpass", 10e3, True),  # f_p = 7.96 kHz below f0
+        ("sallen-key-lowpass", 1e3, False),
+        ("sallen-key-highpass", 1e3, True),  # a high-pass needs about 10 x f0
+        ("sallen-key-highpass", 500.0, False),
+    ],
+)
 def test_slew_rate_limit(key, f0, warns):
     """Full-power bandwidth f_p = SR / (2 pi V_p): 0.5 V/us at 10 V peak is 7.96 kHz."""
     topo = get_topology(key)

@@ -21,8 +21,10 @@ from tests.picker.budget.helpers import candidate, opamp, stage
 
 NGSPICE = shutil.which("ngspice")
 A0 = 2e5
-pytestmark = [pytest.mark.ngspice,
-              pytest.mark.skipif(NGSPICE is None, reason="ngspice is not installed")]
+pytestmark = [
+    pytest.mark.ngspice,
+    pytest.mark.skipif(NGSPICE is None, reason="ngspice is not installed"),
+]
 
 
 def spice_deck(elements, gbw_hz: float) -> str:
@@ -33,8 +35,12 @@ def spice_deck(elements, gbw_hz: float) -> str:
         else:
             plus, minus, out = e.nodes
             cp = 1.0 / (2 * math.pi * 1e3 * gbw_hz / A0)
-            lines += [f"E{k}a x{k} 0 {plus} {minus} {A0!r}", f"R{k}p x{k} y{k} 1k",
-                      f"C{k}p y{k} 0 {cp!r}", f"E{k}b {out} 0 y{k} 0 1"]
+            lines += [
+                f"E{k}a x{k} 0 {plus} {minus} {A0!r}",
+                f"R{k}p x{k} y{k} 1k",
+                f"C{k}p y{k} 0 {cp!r}",
+                f"E{k}b {out} 0 y{k} 0 1",
+            ]
     lines += [".control", "pz in 0 out 0 vol pol", "print all", ".endc", ".end"]
     return "\n".join(lines) + "\n"
 
@@ -42,20 +48,26 @@ def spice_deck(elements, gbw_hz: float) -> str:
 def ngspice_poles(deck: str, tmp_path) -> list[complex]:
     path = tmp_path / "pz.cir"
     path.write_text(deck)
-    out = subprocess.run([NGSPICE, "-b", str(path)], capture_output=True, text=True,
-                         timeout=60).stdout
-    poles = [complex(float(a), float(b)) for a, b in
-             re.findall(r"pole\(\d+\)\s*=\s*([-+0-9.eE]+),\s*([-+0-9.eE]+)", out)]
+    out = subprocess.run(
+        [NGSPICE, "-b", str(path)], capture_output=True, text=True, timeout=60
+    ).stdout
+    poles = [
+        complex(float(a), float(b))
+        for a, b in re.findall(r"pole\(\d+\)\s*=\s*([-+0-9.eE]+),\s*([-+0-9.eE]+)", out)
+    ]
     assert poles, out
     return poles
 
 
-@pytest.mark.parametrize("key, target", [
-    ("sallen-key-lowpass", StageTarget(1000.0, 0.7071)),
-    ("mfb-lowpass", StageTarget(5000.0, 1.3, 2.0)),
-    ("sallen-key-highpass-gain", StageTarget(2000.0, 0.9, 2.0)),
-    ("mfb-bandpass", StageTarget(3000.0, 4.0, 1.0)),
-])
+@pytest.mark.parametrize(
+    "key, target",
+    [
+        ("sallen-key-lowpass", StageTarget(1000.0, 0.7071)),
+        ("mfb-lowpass", StageTarget(5000.0, 1.3, 2.0)),
+        ("sallen-key-highpass-gain", StageTarget(2000.0, 0.9, 2.0)),
+        ("mfb-bandpass", StageTarget(3000.0, 4.0, 1.0)),
+    ],
+)
 def test_finite_gbw_poles_match_ngspice(key, target, tmp_path):
     topo = get_topology(key)
     choice = stage(key, topo.synthesize(target))
@@ -67,4 +79,4 @@ def test_finite_gbw_poles_match_ngspice(key, target, tmp_path):
     w = math.sqrt((p1 * p2).real)
     assert o.real[0] == pytest.approx(w / (2 * math.pi), rel=1e-4)
     assert o.real[1] == pytest.approx(w / -(p1 + p2).real, rel=1e-4)
-    assert abs(o.shift[0]) > 1e-4              # the op amp really moved it
+    assert abs(o.shift[0]) > 1e-4  # the op amp really moved it

@@ -33,7 +33,7 @@ def test_build_takes_exactly_the_pieces_then_undo_restores_bytes(tmp_path, stock
     original = stock_file.read_bytes()
     design = _design(tmp_path, stock_file, two_stage_candidate)
     plan = plan_build(design, load(stock_file))
-    assert plan.count == 7 + 1                          # seven pieces, one dual op amp
+    assert plan.count == 7 + 1  # seven pieces, one dual op amp
     assert plan.warnings == ()
     result = do_build(stock_file, plan)
     assert result.before == original
@@ -61,7 +61,8 @@ def test_build_takes_exactly_the_pieces_then_undo_restores_bytes(tmp_path, stock
 def test_build_beyond_stock_refused_file_unchanged(tmp_path, stock_file):
     design = _design(tmp_path, stock_file)
     text = stock_file.read_text(encoding="utf-8").replace(
-        'value = "7k5"\nqty = 3', 'value = "7k5"\nqty = 0')
+        'value = "7k5"\nqty = 3', 'value = "7k5"\nqty = 0'
+    )
     stock_file.write_text(text, encoding="utf-8")
     before = stock_file.read_bytes()
     with pytest.raises(NoDesignError, match=r"resistor line 2 \(7k5 in A10\).*takes 1.*has 0"):
@@ -78,6 +79,7 @@ def test_unmeasured_pieces_beyond_the_unmeasured_count_refused(tmp_path, stock_f
         pair = Arrangement("series", (Piece(r910, 910.0, 0.01), Piece(r910, 910.0, 0.01)))
         positions = (stage.positions[0], ("R2", pair), stage.positions[2])
         return replace(cand, stages=(replace(stage, positions=positions),))
+
     design = _design(tmp_path, stock_file, two_nominal_910)
     # 910R line: qty 2, one of them measured, so one unmeasured piece only
     with pytest.raises(NoDesignError, match=r"takes 2 \(2 unmeasured\).*has 2 \(1 unmeasured\)"):
@@ -122,17 +124,20 @@ def test_undo_of_a_folder_or_missing_file_says_so(tmp_path, capsys):
     assert f"{tmp_path}: is a directory; name the stock file" in capsys.readouterr().err
     assert main(["undo", "--stock", str(tmp_path / "gone.toml"), "--yes"]) == 2
     assert "gone.toml: does not exist" in capsys.readouterr().err
-    assert list(tmp_path.iterdir()) == []              # no ledger folder made
+    assert list(tmp_path.iterdir()) == []  # no ledger folder made
 
 
 def test_unrelated_edit_warns_and_builds(tmp_path, stock_file):
     design = _design(tmp_path, stock_file)
     text = stock_file.read_text(encoding="utf-8").replace(
-        'value = "100u"\nqty = 1', 'value = "100u"\nqty = 6')
+        'value = "100u"\nqty = 1', 'value = "100u"\nqty = 6'
+    )
     stock_file.write_text(text, encoding="utf-8")
     plan = plan_build(design, load(stock_file))
-    assert plan.warnings == ("the stock file changed since the design was saved; every line "
-                             "the design names still matches",)
+    assert plan.warnings == (
+        "the stock file changed since the design was saved; every line "
+        "the design names still matches",
+    )
     do_build(stock_file, plan)
     assert load(stock_file).resistors[2].qty == 2
 
@@ -151,7 +156,8 @@ def test_edit_between_plan_and_build_refused(tmp_path, stock_file):
 def test_measured_piece_consumed_removes_the_right_reading(tmp_path, stock_file):
     text = stock_file.read_text(encoding="utf-8").replace(
         'qty = 2\ntolerance = "1%"\nlocation = "A2"\nmeasured = ["908.5"]',
-        'qty = 4\ntolerance = "1%"\nlocation = "A2"\nmeasured = ["905", "908.5", "912"]')
+        'qty = 4\ntolerance = "1%"\nlocation = "A2"\nmeasured = ["905", "908.5", "912"]',
+    )
     stock_file.write_text(text, encoding="utf-8")
 
     def takes_second_reading(stock):
@@ -161,10 +167,12 @@ def test_measured_piece_consumed_removes_the_right_reading(tmp_path, stock_file)
         pair = Arrangement("series", (Piece(r15k, 15e3, 0.01), Piece(r910, 908.5, 0.01, 1)))
         positions = (stage.positions[0], ("R2", pair), stage.positions[2])
         return replace(cand, stages=(replace(stage, positions=positions),))
+
     design = _design(tmp_path, stock_file, takes_second_reading)
     plan = plan_build(design, load(stock_file))
-    assert [c for c in plan.changes if c.index == 1 and c.kind == "resistor"][0] \
-        .remove_measured == (1,)
+    assert [c for c in plan.changes if c.index == 1 and c.kind == "resistor"][
+        0
+    ].remove_measured == (1,)
     do_build(stock_file, plan)
     line = load(stock_file).resistors[1]
     assert line.qty == 3 and line.measured == (905.0, 912.0)
@@ -189,7 +197,7 @@ def test_undo_refused_after_a_later_edit(tmp_path, stock_file):
 
 
 def test_interrupted_build_that_never_wrote_is_dropped(tmp_path, stock_file):
-    ledger.begin(stock_file, stock_file.read_bytes())          # pending, file untouched
+    ledger.begin(stock_file, stock_file.read_bytes())  # pending, file untouched
     with pytest.raises(StockEditError, match="no build to undo"):
         undo_last(stock_file)
     assert ledger.records(stock_file) == []
@@ -200,8 +208,8 @@ def test_cautions_for_polarized_and_low_voltage_parts(tmp_path, stock_file):
         cand = lowpass_candidate(stock)
         stage = cand.stages[0]
         c = Arrangement("single", (Piece(stock.capacitors[1], 100e-6, 0.1),))
-        return replace(cand, stages=(replace(stage, positions=stage.positions[:2]
-                                             + (("C1", c),)),))
+        return replace(cand, stages=(replace(stage, positions=stage.positions[:2] + (("C1", c),)),))
+
     design = _design(tmp_path, stock_file, with_electrolytic)
     cautions = plan_build(design, load(stock_file)).cautions
     assert any("C1: polarized electrolytic" in c for c in cautions)
@@ -223,8 +231,7 @@ def test_cli_build_needs_yes_without_a_terminal(tmp_path, stock_file, capsys):
 def test_cli_build_and_undo_with_yes(tmp_path, stock_file, capsys):
     _design(tmp_path, stock_file)
     before = stock_file.read_bytes()
-    assert main(["build", str(tmp_path / "design.toml"), "--stock", str(stock_file),
-                 "--yes"]) == 0
+    assert main(["build", str(tmp_path / "design.toml"), "--stock", str(stock_file), "--yes"]) == 0
     out = capsys.readouterr().out
     assert "A1, left" in out and "Took 6 parts" in out
     assert stock_file.read_bytes() != before
@@ -237,13 +244,12 @@ def test_cli_build_and_undo_with_yes(tmp_path, stock_file, capsys):
 
 def test_cli_build_short_stock_exit_1(tmp_path, stock_file, capsys):
     _design(tmp_path, stock_file)
-    text = stock_file.read_text(encoding="utf-8").replace('qty = 4\ntolerance = "1%"\n'
-                                                          'location = "A1, left"',
-                                                          'qty = 0\ntolerance = "1%"\n'
-                                                          'location = "A1, left"')
+    text = stock_file.read_text(encoding="utf-8").replace(
+        'qty = 4\ntolerance = "1%"\nlocation = "A1, left"',
+        'qty = 0\ntolerance = "1%"\nlocation = "A1, left"',
+    )
     stock_file.write_text(text, encoding="utf-8")
-    assert main(["build", str(tmp_path / "design.toml"), "--stock", str(stock_file),
-                 "--yes"]) == 1
+    assert main(["build", str(tmp_path / "design.toml"), "--stock", str(stock_file), "--yes"]) == 1
     assert "cannot supply" in capsys.readouterr().err
 
 
@@ -265,7 +271,6 @@ def test_cli_bom_csv_and_netlist(tmp_path, stock_file, capsys):
     assert ": 2 stages, " in capsys.readouterr().out
 
 
-
 def test_cli_build_defaults_to_the_design_stock(tmp_path, stock_file, capsys):
     _design(tmp_path, stock_file)
     assert main(["build", str(tmp_path / "design.toml"), "--yes"]) == 0
@@ -275,6 +280,7 @@ def test_cli_build_defaults_to_the_design_stock(tmp_path, stock_file, capsys):
 
 def test_cli_never_writes_the_bundled_sample(tmp_path, capsys):
     from picker.commands.common import bundled_sample_path
+
     sample = bundled_sample_path()
     before = sample.read_bytes()
     assert main(["undo", "--stock", str(sample), "--yes"]) == 2
@@ -313,32 +319,45 @@ def test_two_builds_undone_in_turn(tmp_path, stock_file):
 
 def test_cli_build_without_any_stock_path(tmp_path, stock_file, capsys):
     from stock.file import loads
-    stock = loads(stock_file.read_text(encoding="utf-8"))      # no path: read from text
-    save_design(tmp_path / "nopath.toml", candidate=lowpass_candidate(stock), request=REQUEST,
-                stock=stock)
+
+    stock = loads(stock_file.read_text(encoding="utf-8"))  # no path: read from text
+    save_design(
+        tmp_path / "nopath.toml", candidate=lowpass_candidate(stock), request=REQUEST, stock=stock
+    )
     assert main(["build", str(tmp_path / "nopath.toml"), "--yes"]) == 2
     assert "names no stock file; pass --stock FILE" in capsys.readouterr().err
 
 
-@pytest.mark.parametrize("old, new, error, words", [
-    ('channels = 2\nsupply = "30V"\nqty = 2', 'channels = 2\nsupply = "30V"\nqty = 0',
-     NoDesignError, r"op amp line 0 \('dual JFET-input'\).*takes 1, the stock has 0"),
-    ('name = "dual JFET-input"', 'name = "dual bipolar"', StockEditError,
-     r"names op amp line 0 \('dual JFET-input' in IC tray\), but the stock now has op amp "
-     r"line 0 \(dual bipolar in IC tray"),
-])
+@pytest.mark.parametrize(
+    "old, new, error, words",
+    [
+        (
+            'channels = 2\nsupply = "30V"\nqty = 2',
+            'channels = 2\nsupply = "30V"\nqty = 0',
+            NoDesignError,
+            r"op amp line 0 \('dual JFET-input'\).*takes 1, the stock has 0",
+        ),
+        (
+            'name = "dual JFET-input"',
+            'name = "dual bipolar"',
+            StockEditError,
+            r"names op amp line 0 \('dual JFET-input' in IC tray\), but the stock now has op amp "
+            r"line 0 \(dual bipolar in IC tray",
+        ),
+    ],
+)
 def test_opamp_line_checked(tmp_path, stock_file, old, new, error, words):
     design = _design(tmp_path, stock_file)
-    stock_file.write_text(stock_file.read_text(encoding="utf-8").replace(old, new),
-                          encoding="utf-8")
+    stock_file.write_text(
+        stock_file.read_text(encoding="utf-8").replace(old, new), encoding="utf-8"
+    )
     with pytest.raises(error, match=words):
         plan_build(design, load(stock_file))
 
 
 def test_cli_stock_before_the_subcommand(tmp_path, stock_file):
     _design(tmp_path, stock_file)
-    assert main(["--stock", str(stock_file), "build", str(tmp_path / "design.toml"),
-                 "--yes"]) == 0
+    assert main(["--stock", str(stock_file), "build", str(tmp_path / "design.toml"), "--yes"]) == 0
     assert load(stock_file).resistors[2].qty == 2
     assert main(["--stock", str(stock_file), "undo", "--yes"]) == 0
     assert load(stock_file).resistors[2].qty == 3

@@ -5,7 +5,6 @@ from __future__ import annotations
 import os
 import stat
 import tomllib
-
 from pathlib import Path
 
 import pytest
@@ -14,15 +13,18 @@ from picker.errors import DesignError
 from picker.export import load_design, save_design
 from stock.file import load
 from tests.picker.export.helpers import (
-    REQUEST, STOCK_TEXT, lowpass_candidate, stock_records, two_stage_candidate,
+    REQUEST,
+    STOCK_TEXT,
+    lowpass_candidate,
+    stock_records,
+    two_stage_candidate,
 )
 
 
 def _saved(tmp_path, candidate=None, name="design.toml"):
     stock = stock_records(path=tmp_path / "inventory.toml", sha="ab" * 32)
     path = tmp_path / name
-    save_design(path, candidate=candidate or lowpass_candidate(stock), request=REQUEST,
-                stock=stock)
+    save_design(path, candidate=candidate or lowpass_candidate(stock), request=REQUEST, stock=stock)
     return path, stock
 
 
@@ -43,12 +45,15 @@ def test_round_trip_keeps_every_part(tmp_path):
     assert stage.topology == "inverting-lowpass"
     assert stage.target == orig.target and stage.achieved == orig.achieved
     assert [p.name for p in stage.positions] == ["R1", "R2", "C1"]
-    for pos, (name, arr) in zip(stage.positions, orig.positions):
+    for pos, (_name, arr) in zip(stage.positions, orig.positions, strict=False):
         assert pos.arrangement == arr.arrangement
         assert pos.value == arr.value
-        for part, piece in zip(pos.parts, arr.parts):
-            assert (part.kind, part.index, part.line) == (piece.kind, piece.line.index,
-                                                          piece.line.line)
+        for part, piece in zip(pos.parts, arr.parts, strict=False):
+            assert (part.kind, part.index, part.line) == (
+                piece.kind,
+                piece.line.index,
+                piece.line.line,
+            )
             assert part.nominal == piece.line.value and part.value == piece.value
             assert part.measured == piece.measured and part.tolerance == piece.tolerance
             assert part.location == piece.location
@@ -61,9 +66,9 @@ def test_request_kept_as_given_without_nones(tmp_path):
     d = load_design(path)
     assert d.request["type"] == "lowpass" and d.request["fc_hz"] == 1000.0
     assert d.request["bounds"] == {"r_min": 1e3, "r_max": 1e6}
-    assert "q" not in d.request and "ripple_db" not in d.request   # None is left out
+    assert "q" not in d.request and "ripple_db" not in d.request  # None is left out
     with pytest.raises(TypeError):
-        d.request["type"] = "highpass"                              # read-only
+        d.request["type"] = "highpass"  # read-only
 
 
 def test_file_is_plain_toml_with_format_version(tmp_path):
@@ -89,27 +94,49 @@ def _edit(path, old, new):
     path.write_text(text.replace(old, new, 1), encoding="utf-8")
 
 
-@pytest.mark.parametrize("old, new, words", [
-    ('arrangement = "series"', 'arrangement = "stacked"',
-     "candidate.stage[0].position[0].arrangement: 'stacked' is not one of"),
-    ('kind = "resistor"', 'kind = "inductor"',
-     "candidate.stage[0].position[0].part[0].kind: 'inductor'"),
-    ("pieces = 5", "pieces = 4", "candidate.pieces: says 4 but the stages hold 5"),
-    ("pieces = 5", 'pieces = "five"', "candidate.pieces: expected a whole number, got 'five'"),
-    ("format = 1", "format = 7", "format: this picker reads design format 1"),
-    ("value = 7970.0", "value = 8000.0", "candidate.stage[0].position[0].value: 8000.0"),
-    ("tolerance = 0.05", "tolerance = 5.0", "part[1].tolerance: 5.0 is not a fraction"),
-    ('topology = "inverting-lowpass"\n', "\n", "candidate.stage[0].topology: missing"),
-    ("[candidate.stage.target]\nf0_hz = 1000.0", "[candidate.stage.target]\nf0_hz = -1.0",
-     "candidate.stage[0].target.f0_hz: must be above zero"),
-    ("measured = 0", "measured = -1", "part[1].measured: must be 0 or more"),
-    # a circuit picker does not know could be built and billed but never checked
-    ('topology = "inverting-lowpass"', 'topology = "twin-t"',
-     "candidate.stage[0].topology: 'twin-t' is not a circuit this picker knows"),
-    ('topology = "inverting-lowpass"', 'topology = "mfb-lowpass"',
-     "candidate.stage[0].position: mfb-lowpass has positions"),
-    ('name = "C1"', 'name = "C9"', "inverting-lowpass has positions R1, R2, C1, the file gives"),
-])
+@pytest.mark.parametrize(
+    "old, new, words",
+    [
+        (
+            'arrangement = "series"',
+            'arrangement = "stacked"',
+            "candidate.stage[0].position[0].arrangement: 'stacked' is not one of",
+        ),
+        (
+            'kind = "resistor"',
+            'kind = "inductor"',
+            "candidate.stage[0].position[0].part[0].kind: 'inductor'",
+        ),
+        ("pieces = 5", "pieces = 4", "candidate.pieces: says 4 but the stages hold 5"),
+        ("pieces = 5", 'pieces = "five"', "candidate.pieces: expected a whole number, got 'five'"),
+        ("format = 1", "format = 7", "format: this picker reads design format 1"),
+        ("value = 7970.0", "value = 8000.0", "candidate.stage[0].position[0].value: 8000.0"),
+        ("tolerance = 0.05", "tolerance = 5.0", "part[1].tolerance: 5.0 is not a fraction"),
+        ('topology = "inverting-lowpass"\n', "\n", "candidate.stage[0].topology: missing"),
+        (
+            "[candidate.stage.target]\nf0_hz = 1000.0",
+            "[candidate.stage.target]\nf0_hz = -1.0",
+            "candidate.stage[0].target.f0_hz: must be above zero",
+        ),
+        ("measured = 0", "measured = -1", "part[1].measured: must be 0 or more"),
+        # a circuit picker does not know could be built and billed but never checked
+        (
+            'topology = "inverting-lowpass"',
+            'topology = "twin-t"',
+            "candidate.stage[0].topology: 'twin-t' is not a circuit this picker knows",
+        ),
+        (
+            'topology = "inverting-lowpass"',
+            'topology = "mfb-lowpass"',
+            "candidate.stage[0].position: mfb-lowpass has positions",
+        ),
+        (
+            'name = "C1"',
+            'name = "C9"',
+            "inverting-lowpass has positions R1, R2, C1, the file gives",
+        ),
+    ],
+)
 def test_bad_files_name_file_and_key(tmp_path, old, new, words):
     path, _ = _saved(tmp_path)
     _edit(path, old, new)
@@ -123,8 +150,10 @@ def test_same_measured_piece_twice_refused(tmp_path):
     path, _ = _saved(tmp_path)
     text = path.read_text(encoding="utf-8")
     # make R1b the same measured 910R piece that R2b already is
-    text = text.replace('index = 3\nline = 24\nnominal = 470.0\nvalue = 470.0\n',
-                        'index = 1\nline = 11\nnominal = 910.0\nvalue = 908.5\nmeasured = 0\n')
+    text = text.replace(
+        "index = 3\nline = 24\nnominal = 470.0\nvalue = 470.0\n",
+        "index = 1\nline = 11\nnominal = 910.0\nvalue = 908.5\nmeasured = 0\n",
+    )
     text = text.replace("value = 7970.0", "value = 8408.5")
     path.write_text(text, encoding="utf-8")
     with pytest.raises(DesignError, match="measured piece 0 of resistor line 1 is used twice"):
@@ -146,8 +175,11 @@ def test_not_toml_not_utf8_missing(tmp_path):
 def test_stock_file_given_as_design_says_so(tmp_path):
     # a user passing the stock file where a design goes (picker bom inventory.toml)
     sample = Path(__file__).resolve().parents[3] / "sample_inventory.toml"
-    with pytest.raises(DesignError, match="not a design saved by picker .it looks like a "
-                                          "stock file; save one with: picker design"):
+    with pytest.raises(
+        DesignError,
+        match="not a design saved by picker .it looks like a "
+        "stock file; save one with: picker design",
+    ):
         load_design(sample)
     empty = tmp_path / "empty.toml"
     empty.write_text("", encoding="utf-8")
@@ -166,10 +198,17 @@ def test_request_values_made_plain(tmp_path):
         r_max: float | None = None
 
     stock = stock_records(path=tmp_path / "s.toml", sha="00" * 32)
-    request = {"type": "lowpass", "bounds": Limits(), "temp": (0.0, 70.0),
-               "fc_hz": np.float64(1000.0), "path": tmp_path, "gain": float("inf")}
-    save_design(tmp_path / "d.toml", candidate=lowpass_candidate(stock), request=request,
-                stock=stock)
+    request = {
+        "type": "lowpass",
+        "bounds": Limits(),
+        "temp": (0.0, 70.0),
+        "fc_hz": np.float64(1000.0),
+        "path": tmp_path,
+        "gain": float("inf"),
+    }
+    save_design(
+        tmp_path / "d.toml", candidate=lowpass_candidate(stock), request=request, stock=stock
+    )
     req = load_design(tmp_path / "d.toml").request
     assert req["bounds"] == {"r_min": 1e3}
     assert req["temp"] == [0.0, 70.0] and req["fc_hz"] == 1000.0
@@ -202,6 +241,7 @@ def test_failed_rename_is_a_design_error_and_leaves_no_temp(tmp_path, monkeypatc
 
     def refuse(src, dst):
         raise OSError(28, "No space left on device")
+
     monkeypatch.setattr(os, "replace", refuse)
     with pytest.raises(DesignError, match="cannot write the design: No space left"):
         save_design(path, candidate=two_stage_candidate(stock), request=REQUEST, stock=stock)

@@ -15,32 +15,44 @@ from tests.picker.export.helpers import REQUEST, stock_records, two_stage_candid
 @pytest.fixture
 def text(tmp_path):
     stock = stock_records(path=tmp_path / "s.toml", sha="00" * 32)
-    save_design(tmp_path / "d.toml", candidate=two_stage_candidate(stock), request=REQUEST,
-                stock=stock)
+    save_design(
+        tmp_path / "d.toml", candidate=two_stage_candidate(stock), request=REQUEST, stock=stock
+    )
     return spice_netlist(load_design(tmp_path / "d.toml"))
 
 
 def _elements(text):
-    return [ln.split() for ln in text.splitlines()[1:]
-            if ln and not ln.startswith(("*", ".")) and not ln.startswith(("G1", "Rp", "Cp",
-                                                                            "E1"))]
+    return [
+        ln.split()
+        for ln in text.splitlines()[1:]
+        if ln and not ln.startswith(("*", ".")) and not ln.startswith(("G1", "Rp", "Cp", "E1"))
+    ]
 
 
 def test_source_nodes_and_names(text):
     lines = text.splitlines()
-    assert not lines[0].startswith("*") and "lowpass" in lines[0]      # SPICE title line
+    assert not lines[0].startswith("*") and "lowpass" in lines[0]  # SPICE title line
     assert "V1 in 0 DC 0 AC 1" in lines
     assert lines[-1] == ".end"
     els = _elements(text)
     names = [e[0] for e in els]
-    assert len({n.upper() for n in names}) == len(names)                # SPICE ignores case
-    assert {"R1_S1a", "R1_S1b", "R2_S1a", "R2_S1b", "C1_S1", "XU1_S1", "R1_S2", "C1_S2",
-            "XU1_S2"} <= set(names)
+    assert len({n.upper() for n in names}) == len(names)  # SPICE ignores case
+    assert {
+        "R1_S1a",
+        "R1_S1b",
+        "R2_S1a",
+        "R2_S1b",
+        "C1_S1",
+        "XU1_S1",
+        "R1_S2",
+        "C1_S2",
+        "XU1_S2",
+    } <= set(names)
     by = {e[0]: e for e in els}
-    assert by["R1_S1a"][1:] == ["in", "s1_R1_mid", "7500"]              # series pair meets
+    assert by["R1_S1a"][1:] == ["in", "s1_R1_mid", "7500"]  # series pair meets
     assert by["R1_S1b"][1:3] == ["s1_R1_mid", "s1_n"]
-    assert by["R2_S1b"][3] == "908.5"                                   # the measured reading
-    assert by["XU1_S1"][3] == "s1_out" and by["XU1_S2"][3] == "out"    # cascade
+    assert by["R2_S1b"][3] == "908.5"  # the measured reading
+    assert by["XU1_S1"][3] == "s1_out" and by["XU1_S2"][3] == "out"  # cascade
     assert by["R1_S2"][1] == "s1_out"
     assert "* R2_S1b = stage 1 R2b: 908R5 (measured piece 0), 1%, drawer A2" in text
 
@@ -65,6 +77,7 @@ def test_sweep_spans_the_stages(text):
 
 def test_sweep_range_whole_decades(tmp_path):
     stock = stock_records(path=tmp_path / "s.toml", sha="00" * 32)
-    save_design(tmp_path / "d.toml", candidate=two_stage_candidate(stock), request=REQUEST,
-                stock=stock)
+    save_design(
+        tmp_path / "d.toml", candidate=two_stage_candidate(stock), request=REQUEST, stock=stock
+    )
     assert sweep_range(load_design(tmp_path / "d.toml")) == (10.0, 1e6)

@@ -60,14 +60,17 @@ def test_stages_run_lowest_q_first(order):
         assert stages[0][1].q is None
 
 
-@pytest.mark.parametrize("order, family, keys", [
-    (1, None, ["inverting-lowpass"]),
-    (1, "non-inverting", ["non-inverting-lowpass"]),
-    (2, None, ["sallen-key-lowpass"]),
-    (3, None, ["non-inverting-lowpass", "sallen-key-lowpass"]),
-    (3, "mfb", ["inverting-lowpass", "mfb-lowpass"]),
-    (4, "mfb", ["mfb-lowpass", "mfb-lowpass"]),
-])
+@pytest.mark.parametrize(
+    "order, family, keys",
+    [
+        (1, None, ["inverting-lowpass"]),
+        (1, "non-inverting", ["non-inverting-lowpass"]),
+        (2, None, ["sallen-key-lowpass"]),
+        (3, None, ["non-inverting-lowpass", "sallen-key-lowpass"]),
+        (3, "mfb", ["inverting-lowpass", "mfb-lowpass"]),
+        (4, "mfb", ["mfb-lowpass", "mfb-lowpass"]),
+    ],
+)
 def test_default_and_chosen_families(order, family, keys):
     stages = plan_stages("lowpass", order=order, fc_hz=FC, family=family)
     assert [t.key for t, _ in stages] == keys
@@ -83,8 +86,11 @@ def test_unity_gain_targets():
 @pytest.mark.parametrize("btype", ["lowpass", "highpass"])
 def test_gain_goes_into_first_stage(btype):
     stages = plan_stages(btype, order=5, fc_hz=FC, gain=4.0)
-    assert [t.key for t, _ in stages] == [f"non-inverting-{btype}-gain",
-                                           f"sallen-key-{btype}", f"sallen-key-{btype}"]
+    assert [t.key for t, _ in stages] == [
+        f"non-inverting-{btype}-gain",
+        f"sallen-key-{btype}",
+        f"sallen-key-{btype}",
+    ]
     assert [t.gain for _, t in stages] == [4.0, None, None]
     stages = plan_stages(btype, order=4, fc_hz=FC, gain=0.5, family="mfb")
     assert [t.gain for _, t in stages] == [0.5, 1.0]
@@ -101,26 +107,30 @@ def test_single_stage_with_q_and_bandpass():
     assert (target.f0_hz, target.q, target.gain) == (FC, 5.0, 1.0)
 
 
-@pytest.mark.parametrize("kwargs, match", [
-    (dict(response_type="lowpass", order=3, family="inverting"), "'inverting' is first order"),
-    (dict(response_type="lowpass", order=2, gain=0.5), "gain 0.5 is below 1"),
-    (dict(response_type="bandpass", order=2), "band-pass needs its Q"),
-    (dict(response_type="bandpass", order=4, q=2.0), "order must be 2 or omitted, got 4"),
-    (dict(response_type="bandpass", q=2.0, family="sallen-key"), "MFB stage only"),
-    (dict(response_type="notch"), "'notch'"),
-    (dict(response_type="lowpass", fc_hz=-5.0), "fc_hz .* got -5.0"),
-    (dict(response_type="lowpass", family="twin-t"), "'twin-t'"),
-    (dict(response_type="lowpass", order=12), "got 12"),
-])
+@pytest.mark.parametrize(
+    "kwargs, match",
+    [
+        (dict(response_type="lowpass", order=3, family="inverting"), "'inverting' is first order"),
+        (dict(response_type="lowpass", order=2, gain=0.5), "gain 0.5 is below 1"),
+        (dict(response_type="bandpass", order=2), "band-pass needs its Q"),
+        (dict(response_type="bandpass", order=4, q=2.0), "order must be 2 or omitted, got 4"),
+        (dict(response_type="bandpass", q=2.0, family="sallen-key"), "MFB stage only"),
+        (dict(response_type="notch"), "'notch'"),
+        (dict(response_type="lowpass", fc_hz=-5.0), "fc_hz .* got -5.0"),
+        (dict(response_type="lowpass", family="twin-t"), "'twin-t'"),
+        (dict(response_type="lowpass", order=12), "got 12"),
+    ],
+)
 def test_bad_input_names_the_constraint(kwargs, match):
     kwargs.setdefault("fc_hz", FC)
     with pytest.raises(DesignError, match=match):
         plan_stages(**kwargs)
 
 
-@pytest.mark.parametrize("btype, fp, fs", [("lowpass", 1000.0, 3000.0),
-                                           ("lowpass", 1000.0, 1500.0),
-                                           ("highpass", 2000.0, 500.0)])
+@pytest.mark.parametrize(
+    "btype, fp, fs",
+    [("lowpass", 1000.0, 3000.0), ("lowpass", 1000.0, 1500.0), ("highpass", 2000.0, 500.0)],
+)
 @pytest.mark.parametrize("ap, a_s", [(3.0, 40.0), (1.0, 30.0), (0.5, 20.0)])
 def test_minimum_order_matches_scipy_ord(btype, fp, fs, ap, a_s):
     # reference: scipy.signal.buttord / cheb1ord with analog=True
@@ -143,6 +153,7 @@ def _bessel_meets(n, ap, a_s, ratio):
     def loss(w):
         _, h = ss.freqs_zpk(z, p, k, [w])
         return -20 * np.log10(abs(h[0]))
+
     wp = brentq(lambda w: loss(w) - ap, 1e-4, 1e3)
     return loss(wp * ratio) >= a_s
 
@@ -152,8 +163,9 @@ def test_bessel_minimum_order_beyond_eight():
         minimum_order("bessel", 1000.0, 0.5, 5000.0, 30.0)
 
 
-@pytest.mark.parametrize("ap, a_s, ratio", [(3.0, 20.0, 3.0), (1.0, 40.0, 6.0),
-                                            (0.5, 30.0, 8.0), (3.0, 60.0, 8.0)])
+@pytest.mark.parametrize(
+    "ap, a_s, ratio", [(3.0, 20.0, 3.0), (1.0, 40.0, 6.0), (0.5, 30.0, 8.0), (3.0, 60.0, 8.0)]
+)
 def test_bessel_minimum_order_by_evaluation(ap, a_s, ratio):
     n = minimum_order("bessel", 1000.0, ap, 1000.0 * ratio, a_s)
     assert _bessel_meets(n, ap, a_s, ratio)

@@ -16,15 +16,21 @@ from picker.parts import combine
 
 
 def units_of(stock, allow_polarized=False):
-    out = []   # (kind, value, tolerance, count, key)
+    out = []  # (kind, value, tolerance, count, key)
     for kind, lines in (("resistor", stock.resistors), ("capacitor", stock.capacitors)):
         for n, line in enumerate(lines):
-            if line.qty == 0 or (kind == "capacitor" and line.polarized
-                                 and not allow_polarized):
+            if line.qty == 0 or (kind == "capacitor" and line.polarized and not allow_polarized):
                 continue
             if line.qty - len(line.measured):
-                out.append((kind, line.value, line.tolerance, line.qty - len(line.measured),
-                            (kind, n, None)))
+                out.append(
+                    (
+                        kind,
+                        line.value,
+                        line.tolerance,
+                        line.qty - len(line.measured),
+                        (kind, n, None),
+                    )
+                )
             for i, m in enumerate(line.measured):
                 out.append((kind, m, line.meter, 1, (kind, n, i)))
     return out
@@ -62,7 +68,7 @@ def brute(stock, stages, bounds, *, singles=False, allow_polarized=False):
     """All feasible assignments: arrays (score, pieces, tol_max, tol_sum), unsorted."""
     units = units_of(stock, allow_polarized)
     counts = np.array([u[3] for u in units])
-    slots = []   # (stage index, position name, option list)
+    slots = []  # (stage index, position name, option list)
     for s, (topo, _) in enumerate(stages):
         for p in topo.positions:
             slots.append((s, p.name, options(units, p.kind, bounds, singles)))

@@ -14,7 +14,7 @@ from stock.model import Capacitor, Resistor, Stock
 from tests.picker.search.brute import brute, brute_tradeoff
 
 BOUNDS = Bounds()
-E12 = series("E12")   # IEC 60063 E12 mantissas
+E12 = series("E12")  # IEC 60063 E12 mantissas
 E6 = series("E6")
 
 
@@ -28,8 +28,17 @@ def resistor_lines(draw, n_min=3, n_max=6, qty_max=3):
         measured = ()
         if qty and draw(st.booleans()) and draw(st.booleans()):
             measured = (value * draw(st.floats(0.97, 1.03)),)
-        lines.append(Resistor(value=value, qty=qty, tolerance=draw(st.sampled_from((0.01, 0.05))),
-                              measured=measured, meter=0.005, index=i, line=i + 1))
+        lines.append(
+            Resistor(
+                value=value,
+                qty=qty,
+                tolerance=draw(st.sampled_from((0.01, 0.05))),
+                measured=measured,
+                meter=0.005,
+                index=i,
+                line=i + 1,
+            )
+        )
     return tuple(lines)
 
 
@@ -40,22 +49,31 @@ def capacitor_lines(draw, n_min=3, n_max=6, qty_max=3):
     for i in range(n):
         value = draw(st.sampled_from(E6)) * 10.0 ** draw(st.integers(-10, -7))
         polarized = draw(st.integers(0, 5)) == 0
-        lines.append(Capacitor(value=value, qty=draw(st.integers(0, qty_max)),
-                               tolerance=draw(st.sampled_from((0.02, 0.05, 0.1))),
-                               dielectric="electrolytic" if polarized else "C0G",
-                               polarized=polarized, index=i, line=100 + i))
+        lines.append(
+            Capacitor(
+                value=value,
+                qty=draw(st.integers(0, qty_max)),
+                tolerance=draw(st.sampled_from((0.02, 0.05, 0.1))),
+                dielectric="electrolytic" if polarized else "C0G",
+                polarized=polarized,
+                index=i,
+                line=100 + i,
+            )
+        )
     return tuple(lines)
 
 
 def stocks(r=(3, 6), c=(3, 6), qty_max=3):
-    return st.builds(lambda rs, cs: Stock(resistors=rs, capacitors=cs),
-                     resistor_lines(*r, qty_max=qty_max), capacitor_lines(*c, qty_max=qty_max))
+    return st.builds(
+        lambda rs, cs: Stock(resistors=rs, capacitors=cs),
+        resistor_lines(*r, qty_max=qty_max),
+        capacitor_lines(*c, qty_max=qty_max),
+    )
 
 
 def check_against_brute(stock, stages, *, top=3, singles=False, allow_polarized=False):
     """Rank order, trade-off and every candidate's parts against plain enumeration."""
-    bs, bp, bt, bts = brute(stock, stages, BOUNDS, singles=singles,
-                            allow_polarized=allow_polarized)
+    bs, bp, bt, bts = brute(stock, stages, BOUNDS, singles=singles, allow_polarized=allow_polarized)
     if bs.size == 0:
         try:
             search(stock, stages, singles=singles, allow_polarized=allow_polarized, top=top)
@@ -71,8 +89,9 @@ def check_against_brute(stock, stages, *, top=3, singles=False, allow_polarized=
     assert result.candidates[0].pieces == bp[bs == got[0]].min()
     curve = brute_tradeoff(bs, bp)
     assert [k for k, _ in result.tradeoff] == [k for k, _ in curve]
-    np.testing.assert_allclose([s for _, s in result.tradeoff], [s for _, s in curve],
-                               rtol=1e-9, atol=1e-15)
+    np.testing.assert_allclose(
+        [s for _, s in result.tradeoff], [s for _, s in curve], rtol=1e-9, atol=1e-15
+    )
     for cand in result.candidates:
         check_candidate(cand, stock, stages, allow_polarized=allow_polarized)
     return result
@@ -84,7 +103,7 @@ def check_candidate(cand, stock, stages, *, allow_polarized=False):
     worst = 0.0
     assert len(cand.stages) == len(stages)
     pieces = 0
-    for choice, (topo, target) in zip(cand.stages, stages):
+    for choice, (topo, target) in zip(cand.stages, stages, strict=False):
         assert choice.topology == topo.key
         values = {}
         for name, arr in choice.positions:

@@ -15,8 +15,7 @@ from picker.filters import get_topology
 from picker.parts import StageTarget
 from tests.picker.search.helpers import check_against_brute, stocks
 
-SETTINGS = settings(max_examples=50, deadline=None,
-                    suppress_health_check=[HealthCheck.too_slow])
+SETTINGS = settings(max_examples=50, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 F0 = st.floats(200.0, 20e3)
 
 
@@ -47,16 +46,26 @@ def test_sallen_key_highpass(stock, f0, q):
 
 
 @settings(max_examples=12, deadline=None, suppress_health_check=[HealthCheck.too_slow])
-@given(stocks(r=(2, 2), c=(2, 3)), F0, st.sampled_from((0.7071, 1.3)),
-       st.sampled_from((1.5, 2.0)), st.sampled_from(("lowpass", "highpass")))
+@given(
+    stocks(r=(2, 2), c=(2, 3)),
+    F0,
+    st.sampled_from((0.7071, 1.3)),
+    st.sampled_from((1.5, 2.0)),
+    st.sampled_from(("lowpass", "highpass")),
+)
 def test_sallen_key_gain(stock, f0, q, gain, kind):
     topo = get_topology(f"sallen-key-{kind}-gain")
     check_against_brute(stock, [(topo, StageTarget(f0, q, gain))])
 
 
 @settings(max_examples=30, deadline=None, suppress_health_check=[HealthCheck.too_slow])
-@given(stocks(r=(2, 3), c=(2, 3)), F0, st.sampled_from((0.5, 0.7071, 2.0)),
-       st.sampled_from((1.0, 2.0)), st.sampled_from(("lowpass", "highpass", "bandpass")))
+@given(
+    stocks(r=(2, 3), c=(2, 3)),
+    F0,
+    st.sampled_from((0.5, 0.7071, 2.0)),
+    st.sampled_from((1.0, 2.0)),
+    st.sampled_from(("lowpass", "highpass", "bandpass")),
+)
 def test_multiple_feedback(stock, f0, q, gain, kind):
     check_against_brute(stock, [(get_topology(f"mfb-{kind}"), StageTarget(f0, q, gain))])
 
@@ -73,6 +82,8 @@ def test_cascade_competes_for_pieces(stock, f0, ratio):
 @settings(max_examples=15, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 @given(stocks(r=(2, 3), c=(2, 3), qty_max=2), F0, st.floats(1.5, 4.0))
 def test_cascade_with_gain_stage(stock, f0, gain):
-    stages = [(get_topology("non-inverting-lowpass-gain"), StageTarget(f0, None, gain)),
-              (get_topology("non-inverting-lowpass"), StageTarget(f0 * 1.7))]
+    stages = [
+        (get_topology("non-inverting-lowpass-gain"), StageTarget(f0, None, gain)),
+        (get_topology("non-inverting-lowpass"), StageTarget(f0 * 1.7)),
+    ]
     check_against_brute(stock, stages)

@@ -14,9 +14,11 @@ from stock.model import Capacitor, Resistor, Stock
 
 # A small invented bench: two lines of 10k in one drawer (interchangeable pieces).
 STOCK = Stock(
-    resistors=(Resistor(10e3, 4, 0.01, location="A1", index=0, line=1),
-               Resistor(10e3, 4, 0.01, location="A1", index=1, line=5),
-               Resistor(22e3, 4, 0.01, location="A2", index=2, line=9)),
+    resistors=(
+        Resistor(10e3, 4, 0.01, location="A1", index=0, line=1),
+        Resistor(10e3, 4, 0.01, location="A1", index=1, line=5),
+        Resistor(22e3, 4, 0.01, location="A2", index=2, line=9),
+    ),
     capacitors=(Capacitor(10e-9, 4, 0.05, dielectric="C0G", location="C1", index=0, line=13),),
 )
 
@@ -48,10 +50,12 @@ def test_look_alike_candidates_are_shown_once():
     assert plain.candidates[0].score == people.candidates[0].score
 
     def look(c):
-        return tuple((n, a.arrangement, tuple(sorted((p.value, p.location) for p in a.parts)))
-                     for n, a in c.stages[0].positions)
+        return tuple(
+            (n, a.arrangement, tuple(sorted((p.value, p.location) for p in a.parts)))
+            for n, a in c.stages[0].positions
+        )
 
     plain_looks = [look(c) for c in plain.candidates]
     people_looks = [look(c) for c in people.candidates]
-    assert len(set(plain_looks)) < len(plain_looks)          # the plain list repeats
-    assert len(set(people_looks)) == len(people_looks)        # the shown list does not
+    assert len(set(plain_looks)) < len(plain_looks)  # the plain list repeats
+    assert len(set(people_looks)) == len(people_looks)  # the shown list does not

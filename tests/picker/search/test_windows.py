@@ -20,10 +20,15 @@ from stock.model import Capacitor, Resistor, Stock
 
 # E24 resistors (IEC 60063) 1k..910k, E6 capacitors 100p..6.8u, ample quantities
 STOCK = Stock(
-    resistors=tuple(Resistor(m * 10.0 ** e, 4, 0.01, index=i) for i, (e, m) in
-                    enumerate((e, m) for e in range(3, 6) for m in series("E24"))),
-    capacitors=tuple(Capacitor(m * 10.0 ** e, 4, 0.05, index=i) for i, (e, m) in
-                     enumerate((e, m) for e in range(-10, -5) for m in series("E6"))))
+    resistors=tuple(
+        Resistor(m * 10.0**e, 4, 0.01, index=i)
+        for i, (e, m) in enumerate((e, m) for e in range(3, 6) for m in series("E24"))
+    ),
+    capacitors=tuple(
+        Capacitor(m * 10.0**e, 4, 0.05, index=i)
+        for i, (e, m) in enumerate((e, m) for e in range(-10, -5) for m in series("E6"))
+    ),
+)
 SPACE = build_space(STOCK, singles=True)
 
 
@@ -32,14 +37,15 @@ def test_window_keeps_every_assignment_at_its_own_score(key):
     topo = REGISTRY[key]
     rng = np.random.default_rng(7)
     arrays = {p.name: SPACE.values[p.kind] for p in topo.positions}
-    target = StageTarget(1000.0, 0.7071 if topo.order == 2 else None,
-                         2.0 if topo.sets_gain else None)
+    target = StageTarget(
+        1000.0, 0.7071 if topo.order == 2 else None, 2.0 if topo.sets_gain else None
+    )
     found = 0
     for _ in range(200):
         idx = {n: rng.integers(len(a)) for n, a in arrays.items()}
         values = {n: arrays[n].value[i] for n, i in idx.items()}
         s = float(scores(topo, target, values))
-        if not np.isfinite(s) or s >= 0.05:     # keep the enumeration small
+        if not np.isfinite(s) or s >= 0.05:  # keep the enumeration small
             continue
         problem = StageProblem(topo, target, SPACE, arrays)
         rows = problem.within(s)
@@ -55,9 +61,12 @@ def test_window_keeps_every_assignment_at_its_own_score(key):
         f0, q, g = topo.characteristics(values)
         if not (np.isfinite(f0) and (q is None or 0 < q < 20)):
             continue
-        nudge = 1.0 + rng.uniform(-5e-4, 5e-4, 3)   # the binding target varies
-        tgt = StageTarget(float(f0) * nudge[0], None if q is None else float(q) * nudge[1],
-                          float(g) * nudge[2] if topo.sets_gain else None)
+        nudge = 1.0 + rng.uniform(-5e-4, 5e-4, 3)  # the binding target varies
+        tgt = StageTarget(
+            float(f0) * nudge[0],
+            None if q is None else float(q) * nudge[1],
+            float(g) * nudge[2] if topo.sets_gain else None,
+        )
         s = float(scores(topo, tgt, values))
         rows = StageProblem(topo, tgt, SPACE, arrays).within(s)
         hit = np.ones(len(rows), bool)
