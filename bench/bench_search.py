@@ -97,9 +97,15 @@ def main() -> None:
     ]
     for label, (nr, nc), stages in cases:
         stock = make_stock(nr, nc)
-        measure(label + " (top 5)", lambda: search(stock, stages, top=5, tradeoff=False))
+        measure(
+            label + " (top 5)",
+            lambda stock=stock, stages=stages: search(stock, stages, top=5, tradeoff=False),
+        )
         if "8th" not in label or nr < 100:
-            measure(label + " (+ trade-off)", lambda: search(stock, stages, top=5))
+            measure(
+                label + " (+ trade-off)",
+                lambda stock=stock, stages=stages: search(stock, stages, top=5),
+            )
     # against plain enumeration where it is feasible
     sys.path.insert(0, str(Path(__file__).resolve().parent.parent / "tests"))
     from picker.search import Bounds
@@ -121,9 +127,12 @@ def main() -> None:
     ]:
         stock = make_stock(nr, nc, seed=3)
         stages = [(get_topology(topo), target)]
-        (bs, *_), t_brute = measure(label + " [brute]", lambda: brute(stock, stages, Bounds()))
+        (bs, *_), t_brute = measure(
+            label + " [brute]", lambda stock=stock, stages=stages: brute(stock, stages, Bounds())
+        )
         res, t_fast = measure(
-            label + " [search]", lambda: search(stock, stages, top=1, tradeoff=False)
+            label + " [search]",
+            lambda stock=stock, stages=stages: search(stock, stages, top=1, tradeoff=False),
         )
         print(
             f"    ratio {t_brute / t_fast:8.1f}x   best brute {bs.min():.6e}   "

@@ -141,10 +141,9 @@ def _write_atomic(real: Path, data: bytes, st: os.stat_result) -> None:
             while view:
                 view = view[os.write(fd, view) :]
             os.fchmod(fd, st.st_mode & 0o7777)
-            try:
+            # not the owner: the file becomes ours, the mode is kept
+            with suppress(OSError):
                 os.fchown(fd, st.st_uid, st.st_gid)
-            except OSError:
-                pass  # not the owner: the file becomes ours, the mode is kept
             os.fsync(fd)
         finally:
             os.close(fd)

@@ -105,7 +105,7 @@ def spice_netlist(design: SavedDesign) -> str:
             "0": "0",
         }
 
-        def node(name: str) -> str:
+        def node(name: str, nodes: dict[str, str] = nodes, s: int = s) -> str:
             return nodes.get(name, f"s{s}_{name}")
 
         positions = {p.name: p for p in stage.positions}

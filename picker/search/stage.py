@@ -187,10 +187,8 @@ class StageProblem:
 
     def _filter(self, rows, t, probe):
         s = scores(self.topology, self.target, self._values(rows))
-        if probe:  # the probe only needs its best few
-            keep = np.argsort(s, kind="stable")[:PROBE_ROWS]
-        else:
-            keep = np.flatnonzero(s <= t)
+        # the probe only needs its best few
+        keep = np.argsort(s, kind="stable")[:PROBE_ROWS] if probe else np.flatnonzero(s <= t)
         keep = keep[self._feasible({n: rows[n][keep] for n in self.names})]
         if not keep.size:
             return None

@@ -49,7 +49,7 @@ def test_product_cdf_against_numerical_integration():
 
     a, b = 0.9, 1.1
     for z in (0.85, 0.95, 1.0, 1.1, 1.2):
-        num, _ = quad(lambda x: (np.clip(z / x, a, b) - a) / (b - a) ** 2, a, b, limit=200)
+        num, _ = quad(lambda x, z=z: (np.clip(z / x, a, b) - a) / (b - a) ** 2, a, b, limit=200)
         assert product_cdf(z, a, b) == pytest.approx(num, abs=1e-9)
 
 
