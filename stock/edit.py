@@ -106,7 +106,7 @@ def locked(path):
 
 
 def _read_all(fd: int) -> bytes:
-    chunks = []
+    chunks: list[bytes] = []
     os.lseek(fd, 0, os.SEEK_SET)
     while True:
         chunk = os.read(fd, 1 << 20)

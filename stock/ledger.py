@@ -25,7 +25,7 @@ import re
 import tempfile
 import time
 import tomllib
-from dataclasses import dataclass, replace
+from dataclasses import dataclass, field, replace
 from pathlib import Path
 
 import tomli_w
@@ -48,7 +48,7 @@ class BuildRecord:
     design: str | None = None
     summary: tuple[str, ...] = ()
     undone_time: str | None = None
-    path: Path | None = None  # the record's .toml file
+    path: Path = field(kw_only=True)  # the record's .toml file
 
     @property
     def before_path(self) -> Path:

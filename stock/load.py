@@ -44,9 +44,10 @@ class _Keys:
     __slots__ = ("_map", "_start", "_lines")
 
     def __init__(self, linemap: LineMap, start: int):
-        self._map, self._start, self._lines = linemap, start, None
+        self._map, self._start = linemap, start
+        self._lines: dict[str, int] | None = None
 
-    def get(self, key: str, default=None):
+    def get(self, key: str, default: int | None = None) -> int | None:
         if self._lines is None:
             self._lines = self._map._scan_keys(self._start)
         return self._lines.get(key, default)
@@ -92,7 +93,7 @@ class LineMap:
                 in_multi = _opens_multi(raw)
         self._next[previous] = len(self.rows) + 1
         self.top_keys = _Keys(self, 0)
-        self.stock_keys = _Keys(self, stock_header) if stock_header else {}
+        self.stock_keys: _Keys | dict[str, int] = _Keys(self, stock_header) if stock_header else {}
 
     def _scan_keys(self, start: int) -> dict[str, int]:
         keys: dict[str, int] = {}

@@ -77,10 +77,11 @@ def build_system(
                     f"netlist element {el.name} has value {el.value!r}; "
                     f"it must be positive and finite"
                 )
+            na, nb = el.nodes
             if el.kind == "R":
-                stamp(G, *el.nodes, 1.0 / el.value)
+                stamp(G, na, nb, 1.0 / el.value)
             else:
-                stamp(C, *el.nodes, el.value)
+                stamp(C, na, nb, el.value)
         elif el.kind == "OA":
             plus, minus, out = el.nodes
             G[idx[out], row] -= 1.0  # the op amp drives current into its output

@@ -98,6 +98,7 @@ def estimate_stage(
             * (w0 if response_type == "lowpass" else 1.0)
         )
     else:
+        assert q is not None  # set from the two dominant poles above
         num = {"lowpass": w0 * w0, "highpass": s * s, "bandpass": s * w0 / q}[response_type]
         shape = num / (s * s + s * w0 / q + w0 * w0)
     h = nodal_response(elements, [wr / (2.0 * np.pi)], gbw_hz=gbw_hz)[0]

@@ -109,7 +109,9 @@ def budget(
             )
         layout.append((topo, sp, choice))
         values = {k: float(v) for k, v in sp.positions(sp.nominal).items()}
-        f0, q, gain = (None if a is None else float(a[()]) for a in evaluate(topo, values))
+        f0_a, q_a, gain_a = evaluate(topo, values)
+        f0, gain = float(f0_a[()]), float(gain_a[()])
+        q = None if q_a is None else float(q_a[()])
         tol = tolerance(topo, sp, sets_gain=topo.sets_gain, seed=seed + i)
         if tol.q is not None and not (0 < tol.q[0] <= tol.q[1] < math.inf):
             warnings.append(

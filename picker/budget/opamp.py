@@ -50,10 +50,13 @@ def _section_shape(response_type: str, order: int, q: float | None) -> float:
     """|H| / gain of the normalised section at its own f0 (see the module docstring)."""
     if order == 1:
         return 1.0 / np.sqrt(2.0)
+    assert q is not None  # a second-order section has a Q
     return 1.0 if response_type == "bandpass" else float(q)
 
 
-def effective(topology, values: dict[str, float], f0_hz: float, gbw_hz: float | None):
+def effective(
+    topology, values: dict[str, float], f0_hz: float, gbw_hz: float | None
+) -> tuple[float, float | None, float]:
     """(f0_hz, q or None, |gain|) of the stage from its dominant poles and its response.
 
     ``f0_hz`` is the analytic f0, used to pick the dominant poles; ``gbw_hz`` None is the
@@ -92,9 +95,8 @@ def opamp_effects(topology, values, nominal, opamp, *, vout_peak=None) -> OpampR
     f0, q, gain = nominal
     ideal = effective(topology, values, f0, None)
     real = effective(topology, values, f0, float(opamp.gbw))
-    shift = tuple(
-        None if (a is None or b is None) else b / a - 1.0 for a, b in zip(ideal, real, strict=False)
-    )
+    q_shift = None if ideal[1] is None or real[1] is None else real[1] / ideal[1] - 1.0
+    shift = (real[0] / ideal[0] - 1.0, q_shift, real[2] / ideal[2] - 1.0)
     fp = None
     if opamp.slew is not None and vout_peak is not None and vout_peak > 0:
         fp = float(opamp.slew) / (2.0 * np.pi * float(vout_peak))

@@ -8,9 +8,14 @@ values of shape ``(..., n_pieces)`` becomes a dict of position arrays of shape `
 
 from __future__ import annotations
 
+from collections.abc import Mapping
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
 import numpy as np
+
+if TYPE_CHECKING:
+    import numpy.typing as npt
 
 from picker.errors import DesignError
 from picker.parts import Piece, StageChoice
@@ -62,7 +67,9 @@ class StagePieces:
 
 def stage_pieces(stage: StageChoice) -> StagePieces:
     """Column layout of the pieces of ``stage``."""
-    slots, pieces, labels = [], [], []
+    slots: list[Slot] = []
+    pieces: list[Piece] = []
+    labels: list[str] = []
     for name, arr in stage.positions:
         if arr.arrangement not in ("single", "series", "parallel"):
             raise DesignError(f"position {name}: unknown arrangement {arr.arrangement!r}")
@@ -88,7 +95,7 @@ def topology_of(key: str):
     return get_topology(key)
 
 
-def evaluate(topology, values: dict[str, np.ndarray]):
+def evaluate(topology, values: Mapping[str, npt.ArrayLike]):
     """(f0_hz, q or None, gain) as float arrays broadcast to the shape of the values.
 
     Division by zero is allowed: a stage pushed past its stability limit (e.g. a

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from typing import Any
 
 from picker.budget.montecarlo import MonteCarloResult
 from picker.budget.opamp import OpampResult
@@ -82,6 +83,7 @@ class Budget:
                 for d in tp.pieces
             },
         }
+        oa: dict[str, Any]
         if s.opamp is None:
             oa = {"model": "ideal", "note": "no op amp chosen: finite-GBW effects not computed"}
         else:

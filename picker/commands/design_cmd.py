@@ -249,7 +249,8 @@ def _print_report(result, budget, request, stages) -> None:
     from picker.report.design import DesignReport
     from stock.values import format_si
 
-    panel, warnings = None, []
+    panel = None
+    warnings: list[str] = []
     if budget is not None:
         from picker.report.budget_panel import BudgetPanel
 

@@ -12,6 +12,10 @@ from __future__ import annotations
 
 import argparse
 import sys
+from typing import TYPE_CHECKING
+
+if TYPE_CHECKING:
+    from rich.console import RenderableType
 
 KIND_ALIASES = {
     "resistor": "resistor",
@@ -353,7 +357,7 @@ def stock_tables(stock, kinds) -> list:
 
     from stock.values import format_rkm, format_si
 
-    out = []
+    out: list[RenderableType] = []
     assumed = False
     title = f"{stock.name}  ({stock.path})" if stock.name else str(stock.path)
     out.append(Text(title, style="bold"))

@@ -30,7 +30,8 @@ def pick_list(design: SavedDesign) -> tuple[PickGroup, ...]:
     groups: dict[str | None, list[BomRow]] = {}
     for row in bom_rows(design):
         groups.setdefault(row.location, []).append(row)
-    keys = sorted((k for k in groups if k is not None), key=_natural)
+    named = sorted((k for k in groups if k is not None), key=_natural)
+    keys: list[str | None] = list(named)
     if None in groups:
         keys.append(None)
     return tuple(PickGroup(location=k, rows=tuple(groups[k])) for k in keys)

@@ -98,7 +98,8 @@ def sections(poles: np.ndarray) -> list[tuple[float, float | None]]:
     real = [p for p in poles if abs(p.imag) <= 1e-9 * abs(p)]
     out: list[tuple[float, float | None]] = [(float(abs(p)), None) for p in real]
     pairs = sorted((float(abs(p)), float(abs(p) / (-2.0 * p.real))) for p in upper)
-    out += sorted(pairs, key=lambda wq: wq[1])
+    pairs.sort(key=lambda wq: wq[1])  # stable: equal Q stay in order of w0
+    out += pairs
     return out
 
 

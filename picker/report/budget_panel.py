@@ -10,7 +10,7 @@ Everything fits in 80 columns; meaning never rests on colour (marks and words ca
 from __future__ import annotations
 
 from rich import box
-from rich.console import Console, ConsoleOptions, Group, RenderResult
+from rich.console import Console, ConsoleOptions, Group, RenderableType, RenderResult
 from rich.panel import Panel
 from rich.table import Table
 from rich.text import Text
@@ -167,7 +167,7 @@ class BudgetPanel:
     # rich protocol -----------------------------------------------------------------
     def __rich_console__(self, console: Console, options: ConsoleOptions) -> RenderResult:
         width = min(options.max_width, 80)
-        parts = [self._yield_line()]
+        parts: list[RenderableType] = [self._yield_line()]
         for s in self.budget.stages:
             parts += [Text(""), self._stage_table(s), self._notes(s)]
         if not self.compact:

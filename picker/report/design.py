@@ -6,7 +6,7 @@ in a Textual ``Static``.
 
 from __future__ import annotations
 
-from rich.console import Console, ConsoleOptions, Group, RenderResult
+from rich.console import Console, ConsoleOptions, Group, RenderableType, RenderResult
 from rich.table import Table
 from rich.text import Text
 
@@ -96,7 +96,7 @@ class DesignReport:
         return table
 
     def __rich_console__(self, console: Console, options: ConsoleOptions) -> RenderResult:
-        parts = []
+        parts: list[RenderableType] = []
         if self.title:
             parts.append(Text(self.title, style="bold"))
         if not self.result.candidates:

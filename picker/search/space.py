@@ -18,11 +18,11 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from picker.parts import Arrangement, Piece
-from stock.model import Stock
+from picker.parts import Arrangement, ArrangementKind, Piece
+from stock.model import Capacitor, Resistor, Stock
 
 SINGLE, SERIES, PARALLEL = 0, 1, 2
-ARRANGEMENT_NAMES = ("single", "series", "parallel")
+ARRANGEMENT_NAMES: tuple[ArrangementKind, ...] = ("single", "series", "parallel")
 
 
 @dataclass(frozen=True)
@@ -41,7 +41,7 @@ class Bounds:
 @dataclass(frozen=True)
 class Unit:
     kind: str
-    line: object  # stock.model.Resistor | Capacitor
+    line: Resistor | Capacitor
     value: float
     tolerance: float
     count: int
@@ -101,7 +101,7 @@ def stock_units(stock: Stock, *, allow_polarized: bool = False) -> list[Unit]:
         for line in lines:
             if line.qty <= 0:
                 continue
-            if kind == "capacitor" and line.polarized and not allow_polarized:
+            if isinstance(line, Capacitor) and line.polarized and not allow_polarized:
                 continue
             if line.nominal_qty > 0:
                 units.append(

@@ -22,6 +22,7 @@ from __future__ import annotations
 import itertools
 import math
 from dataclasses import dataclass
+from typing import Any
 
 import numpy as np
 
@@ -139,7 +140,7 @@ class StageProblem:
             return self._finish({n: np.zeros(0, np.int64) for n in self.names}, t, probe)
         groups = self.plan.groups
         if len(groups) == 1:
-            state = {"t": t, "best": np.zeros(0)}
+            state: dict[str, Any] = {"t": t, "best": np.zeros(0)}
             outer = None
             if probe:
                 n = len(self.arrays[groups[0].steps[0].position])

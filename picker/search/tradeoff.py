@@ -92,11 +92,10 @@ class StageClasses:
             )
         merged = merge(parts)
         merged = merged.take(slice(0, int(np.searchsorted(merged.score, t, side="right"))))
-        if keep is not None and len(merged) > keep:
+        if keep is not None and len(merged) >= keep:
             merged = merged.take(slice(0, keep))
-            tails[j] = float(merged.score[-1])
-        elif keep is not None and len(merged) == keep:
-            tails[j] = float(merged.score[-1])
+            if tails is not None:
+                tails[j] = float(merged.score[-1])
         return merged
 
 

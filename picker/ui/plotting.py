@@ -115,7 +115,7 @@ def labelled_plot(
     inner = max(width - gutter, 4)
     body = braille_curve(xs, ys, width=inner, height=height, x_range=x_range, y_range=y_range)
     y0, y1 = y_range
-    labels = {}
+    labels: dict[int, str] = {}
     n_steps = int(round((y1 - y0) / y_step))
     for k in range(n_steps + 1):
         value = y0 + k * y_step

@@ -12,6 +12,8 @@ References
 
 from __future__ import annotations
 
+from typing import ClassVar
+
 from picker.filters import _algebra as al
 from picker.filters.base import Element, PositionSpec, Topology, register
 
@@ -23,7 +25,7 @@ class NonInvertingLowpass(Topology):
     order = 1
     sets_gain = False
     inverting = False
-    positions = (
+    positions: ClassVar[tuple[PositionSpec, ...]] = (
         PositionSpec("R1", "resistor", "series resistor"),
         PositionSpec("C1", "capacitor", "capacitor to ground"),
     )

@@ -18,6 +18,7 @@ References
 from __future__ import annotations
 
 import math
+from typing import ClassVar
 
 from picker.filters import _algebra as al
 from picker.filters.base import Element, PositionSpec, Topology, register
@@ -30,7 +31,7 @@ class SallenKeyHighpass(Topology):
     order = 2
     sets_gain = False
     inverting = False
-    positions = (
+    positions: ClassVar[tuple[PositionSpec, ...]] = (
         PositionSpec("C1", "capacitor", "input capacitor"),
         PositionSpec("C2", "capacitor", "second capacitor"),
         PositionSpec("R1", "resistor", "feedback resistor"),

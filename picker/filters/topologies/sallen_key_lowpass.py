@@ -19,6 +19,7 @@ References
 from __future__ import annotations
 
 import math
+from typing import ClassVar
 
 from picker.errors import DesignError
 from picker.filters import _algebra as al
@@ -32,7 +33,7 @@ class SallenKeyLowpass(Topology):
     order = 2
     sets_gain = False
     inverting = False
-    positions = (
+    positions: ClassVar[tuple[PositionSpec, ...]] = (
         PositionSpec("R1", "resistor", "input resistor"),
         PositionSpec("R2", "resistor", "second resistor"),
         PositionSpec("C1", "capacitor", "feedback capacitor"),

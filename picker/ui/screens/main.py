@@ -15,6 +15,7 @@ from textual import on, work
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.screen import Screen
+from textual.timer import Timer
 from textual.widgets import ContentSwitcher, Footer, Static
 from textual.worker import Worker, WorkerState, get_current_worker
 
@@ -86,7 +87,7 @@ class MainScreen(TypingAware, Screen):
         self.result_targets: Targets | None = None  # the targets of the matches shown
         self.busy = False
         self.generation = 0
-        self._timer = None
+        self._timer: Timer | None = None
         self._searching: Targets | None = None
         self.started = False  # True once every pane is mounted
         self._wanted_pane: str | None = None

@@ -2,10 +2,19 @@
 
 from __future__ import annotations
 
+from typing import TYPE_CHECKING
+
 from textual.widgets import Checkbox, Input, TextArea
 
+if TYPE_CHECKING:
+    from textual.widget import Widget
 
-class TypingAware:
+    _Mixin = Widget  # the checker sees what the mixin is always combined with
+else:
+    _Mixin = object
+
+
+class TypingAware(_Mixin):
     """Hide and disable single-letter keys while a text field has the focus.
 
     A text field takes printable keys for itself, so a binding on "e" or "/" cannot
