@@ -21,6 +21,7 @@ COMMAND_MODULES = (
     "picker.commands.stock_cmd",
     "picker.commands.design_cmd",
     "picker.commands.outputs_cmd",
+    "picker.commands.repair_cmd",
 )
 
 
@@ -33,6 +34,8 @@ examples:
   picker netlist d.toml > d.cir && ngspice -b d.cir
   picker build d.toml --stock inventory.toml   take the parts (asks first)
   picker undo --stock inventory.toml           put the stock back as it was
+  picker analyse sallen-key-lowpass R1=10k R2=10k C1=22n C2=10n
+  picker substitute sallen-key-lowpass R1=10k R2=10k C1=22n C2=10n --part C1
   picker --stock inventory.toml                the terminal UI
 
 Each command has its own help: picker design --help, picker stock adjust --help.

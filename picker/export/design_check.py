@@ -14,6 +14,7 @@ from picker.errors import DesignError
 from picker.export.design_file import (
     ARRANGEMENTS,
     FORMAT,
+    KEPT,
     KINDS,
     SavedDesign,
     SavedOpAmp,
@@ -153,10 +154,12 @@ def _read_position(r: _Reader, p, pre: str) -> SavedPosition:
         raise DesignError(f"{r.source}: {pre[:-1]}: expected a table")
     name = r.get(p, "name", str, pre)
     arrangement = r.get(p, "arrangement", str, pre)
+    if arrangement == KEPT:
+        return _read_kept(r, p, name, pre)
     if arrangement not in ARRANGEMENTS:
         raise DesignError(
             f"{r.source}: {pre}arrangement: {arrangement!r} is not one of "
-            + ", ".join(ARRANGEMENTS)
+            + ", ".join(ARRANGEMENTS + (KEPT,))
         )
     plist = r.get(p, "part", list, pre)
     parts = tuple(_read_part(r, x, f"{pre}part[{k}].") for k, x in enumerate(plist))
@@ -175,6 +178,24 @@ def _read_position(r: _Reader, p, pre: str) -> SavedPosition:
             f"{r.source}: {pre}value: {value!r} does not match its pieces ({combined!r})"
         )
     return SavedPosition(name=name, arrangement=arrangement, value=value, parts=parts)
+
+
+def _read_kept(r: _Reader, p: dict, name: str, pre: str) -> SavedPosition:
+    """A position whose part stays in the circuit (a repair): kind and value, no pieces."""
+    if p.get("part"):
+        raise DesignError(f"{r.source}: {pre}part: a kept position takes no piece from the stock")
+    kind = r.get(p, "kind", str, pre)
+    if kind not in KINDS:
+        raise DesignError(f"{r.source}: {pre}kind: {kind!r} is not resistor or capacitor")
+    value = r.number(p, "value", pre)
+    if not value > 0:
+        raise DesignError(f"{r.source}: {pre}value: must be a positive number, got {value!r}")
+    tol = r.number(p, "tolerance", pre, default=None)
+    if tol is not None and not 0 <= tol < 1:
+        raise DesignError(f"{r.source}: {pre}tolerance: {tol!r} is not a fraction in [0, 1)")
+    return SavedPosition(
+        name=name, arrangement=KEPT, value=value, parts=(), kept_kind=kind, kept_tolerance=tol
+    )
 
 
 def _read_part(r: _Reader, x, pre: str) -> SavedPart:

@@ -56,6 +56,17 @@ Layout of the file, format 1 (keys with no value are left out: TOML has no null)
     location = "A3"
     # capacitors also: dielectric, polarized (when true), voltage (rating, volt)
 
+    [[candidate.stage.position]]            # a repair: the part already in the circuit stays
+    name = "R2"
+    arrangement = "kept"                    # no piece is taken from the stock for it
+    kind = "resistor"
+    value = 10000.0
+    tolerance = 0.05                        # of the part on the board, when known
+
+A position is written as kept when its pieces are in the circuit already (their line has
+``on_board = True``: ``picker.repair``); bom, pick list and build take nothing for it,
+the netlist still holds it. See docs/repair.md.
+
 A stock line is named by kind and index *and* checked by nominal value and location
 when the design is built, so a reordered stock file is caught (picker.building).
 """
@@ -83,6 +94,7 @@ from stock.durable import sync_folder
 FORMAT = 1
 KINDS = ("resistor", "capacitor")
 ARRANGEMENTS = ("single", "series", "parallel")
+KEPT = "kept"  # a position whose part stays in the circuit (a repair): no pieces
 
 
 @dataclass(frozen=True)
@@ -107,13 +119,15 @@ class SavedPart:
 @dataclass(frozen=True)
 class SavedPosition:
     name: str  # reference designator, e.g. "R1"
-    arrangement: str  # single | series | parallel
+    arrangement: str  # single | series | parallel | kept
     value: float  # combined value
-    parts: tuple[SavedPart, ...]
+    parts: tuple[SavedPart, ...]  # empty for a kept position
+    kept_kind: str | None = None  # kept positions: the kind of the part in the circuit
+    kept_tolerance: float | None = None  # kept positions: its tolerance, when known
 
     @property
     def kind(self) -> str:
-        return self.parts[0].kind
+        return self.parts[0].kind if self.parts else str(self.kept_kind)
 
 
 @dataclass(frozen=True)
@@ -250,6 +264,17 @@ def design_document(*, candidate: Candidate, request: dict, stock) -> dict:
 def _stage_table(stage) -> dict:
     positions = []
     for name, arr in stage.positions:
+        if all(getattr(p.line, "on_board", False) for p in arr.parts):
+            positions.append(
+                {
+                    "name": name,
+                    "arrangement": KEPT,
+                    "kind": arr.kind,
+                    "value": float(arr.value),
+                    "tolerance": float(max(p.tolerance for p in arr.parts)),
+                }
+            )
+            continue
         parts = []
         for piece in arr.parts:
             line = piece.line

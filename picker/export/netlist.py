@@ -121,6 +121,14 @@ def spice_netlist(design: SavedDesign) -> str:
                 )
             a, b = (node(x) for x in e.nodes)
             pos = positions.get(e.name)
+            if pos is not None and not pos.parts:  # kept: the part in the circuit stays
+                name = _spice_name(e.kind, pos.name, s, "")
+                lines.append(
+                    f"* {name} = stage {s} {pos.name}: "
+                    f"{format_rkm(pos.value, pos.kind)}, stays in the circuit"
+                )
+                lines.append(f"{name} {a} {b} {_num(pos.value)}")
+                continue
             if pos is None:  # a fixed element of the topology
                 lines.append(f"{_spice_name(e.kind, e.name, s, '')} {a} {b} {_num(e.value)}")
                 continue
