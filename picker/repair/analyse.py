@@ -180,13 +180,15 @@ def frequency_grid(f0s: Sequence[float], points_per_decade: int = POINTS_PER_DEC
     return np.geomspace(lo, hi, n)
 
 
-def read_response(freqs_hz: np.ndarray, h: np.ndarray) -> Response:
+def read_response(freqs_hz: np.ndarray, h: np.ndarray, evaluate=None) -> Response:
     """dB, phase and the -3 dB points of a computed response.
 
     A shape whose peak stands more than 3 dB above both ends of the grid is a band
     (band-pass, or a low-pass and a high-pass in cascade): its two half-power points
     below the peak are given. Otherwise the corner is the half-power point below the
-    passband end of the grid (``picker.analysis.corner_hz``).
+    passband end of the grid (``picker.analysis.corner_hz``). ``evaluate`` (frequencies
+    in hertz -> complex H), when given, refines the peak and each crossing between its
+    two grid neighbours (``scipy.optimize``), so they do not depend on the grid.
     """
     from picker.analysis import HALF_POWER_DB, corner_hz, magnitude_db, phase_deg
 
@@ -194,21 +196,60 @@ def read_response(freqs_hz: np.ndarray, h: np.ndarray) -> Response:
     peak = int(np.argmax(mag))
     band = None
     corner = None
+
+    def refine(f_est: float, level_db: float) -> float:
+        if evaluate is None:
+            return f_est
+        return _crossing(evaluate, freqs_hz, f_est, level_db)
+
     if mag[peak] - max(mag[0], mag[-1]) > -HALF_POWER_DB:
-        ref = float(mag[peak])
+        ref = _peak_db(evaluate, freqs_hz, mag, peak)
         try:
-            lo = corner_hz(freqs_hz[: peak + 1], h[: peak + 1], reference="peak")
-            hi = corner_hz(freqs_hz[peak:], h[peak:], reference="peak")
-            band = (lo, hi)
+            lo = corner_hz(freqs_hz[: peak + 1], h[: peak + 1], reference=10 ** (ref / 20))
+            hi = corner_hz(freqs_hz[peak:], h[peak:], reference=10 ** (ref / 20))
+            band = (refine(lo, ref + HALF_POWER_DB), refine(hi, ref + HALF_POWER_DB))
         except DesignError:
             band = None
     else:
         ref = float(max(mag[0], mag[-1]))
         try:
-            corner = corner_hz(freqs_hz, h)
+            corner = refine(corner_hz(freqs_hz, h), ref + HALF_POWER_DB)
         except DesignError:
             corner = None
     return Response(freqs_hz, h, mag, phase_deg(h), corner, band, ref)
+
+
+def _db(evaluate, f_hz: float) -> float:
+    return float(20.0 * np.log10(np.abs(evaluate(np.array([f_hz]))[0])))
+
+
+def _peak_db(evaluate, freqs_hz: np.ndarray, mag: np.ndarray, i: int) -> float:
+    """The largest magnitude in dB near grid point ``i`` (refined when ``evaluate`` given)."""
+    if evaluate is None or i == 0 or i == len(freqs_hz) - 1:
+        return float(mag[i])
+    from scipy.optimize import minimize_scalar
+
+    a, b = np.log10(freqs_hz[i - 1]), np.log10(freqs_hz[i + 1])
+    res = minimize_scalar(
+        lambda x: -_db(evaluate, 10.0**x), bounds=(a, b), method="bounded",
+        options={"xatol": 1e-10},
+    )  # fmt: skip
+    return float(max(mag[i], -res.fun))
+
+
+def _crossing(evaluate, freqs_hz: np.ndarray, f_est: float, level_db: float) -> float:
+    """The frequency near ``f_est`` where the magnitude equals ``level_db`` exactly."""
+    from scipy.optimize import brentq
+
+    j = int(np.clip(np.searchsorted(freqs_hz, f_est), 1, len(freqs_hz) - 1))
+    a, b = np.log10(freqs_hz[j - 1]), np.log10(freqs_hz[j])
+
+    def g(x):
+        return _db(evaluate, 10.0**x) - level_db
+
+    if g(a) * g(b) > 0:
+        return f_est
+    return float(10.0 ** brentq(g, a, b, xtol=1e-13))
 
 
 def analyse(
@@ -237,7 +278,11 @@ def analyse(
     freqs = frequency_grid(f0s)
     nets = [topology_of(r.topology).netlist(r.values) for r in results]
     h = cascade_response(nets, freqs, gbw_hz=gbw_hz)
-    return Analysis(results, read_response(freqs, h), gbw_hz)
+
+    def evaluate(f):
+        return cascade_response(nets, f, gbw_hz=gbw_hz)
+
+    return Analysis(results, read_response(freqs, h, evaluate), gbw_hz)
 
 
 def analyse_marked(stages: Sequence[MarkedStage], *, gbw_hz: float | None = None) -> Analysis:

@@ -19,7 +19,7 @@ from picker.errors import DesignError
 from stock.errors import ValueParseError
 from stock.fields import RANGES
 from stock.model import DEFAULT_CAPACITOR_TOLERANCE, DEFAULT_RESISTOR_TOLERANCE
-from stock.values import format_rkm, parse_percent, parse_value
+from stock.values import format_rkm, format_si, parse_percent, parse_value
 
 DEFAULT_TOLERANCE = {
     "resistor": DEFAULT_RESISTOR_TOLERANCE,
@@ -116,7 +116,10 @@ def parse_part(topology, text: str) -> MarkedPart:
         raise DesignError(f"{name}={rest}: {exc}") from None
     lo, hi, span = RANGES[kind]
     if not (math.isfinite(value) and lo <= value <= hi):
-        raise DesignError(f"{name}={rest}: not a plausible {kind} value ({span})")
+        unit = "Ω" if kind == "resistor" else "F"
+        raise DesignError(
+            f"{name}={rest}: {format_si(value, unit)} is not a plausible {kind} value ({span})"
+        )
     if slash:
         try:
             tol = parse_percent(tol_text.strip())

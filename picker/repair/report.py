@@ -76,6 +76,11 @@ def stage_lines(i: int, s) -> list[str]:
         head += f", Q {_q(s.q)}"
     head += f", gain {_gain(s.gain)}" + (" inverted" if s.inverting else "")
     lines.append(head)
+    if s.q is not None and not 0 < s.q < math.inf:
+        lines.append(
+            "  Q <= 0 or infinite: as marked the stage is unstable and oscillates; "
+            "check the values read off the board"
+        )
     c = s.corners
     lines.append(f"  within tolerance ({c.method}):")
     lines.append(f"    f0   {_span(c.f0, s.f0_hz, 'Hz')}")

@@ -140,15 +140,19 @@ def substitute(
         kept = [stage.part(p.name).value for p in topo.positions if p.kind == kind]
         lo, hi = problem.limits[kind]
         problem.limits[kind] = (min([lo, *kept]), max([hi, *kept]))
-    rows, _ = problem.best(top * SPARE)
-    if len(rows) == 0:
-        raise NoDesignError(
-            f"no parts on hand can refill {', '.join(refill)} with the quantities in stock"
-        )
-    options = [_option(stage, topo, target, space, refill, rows, i) for i in range(len(rows))]
-    keep = {id(c) for c in distinct([o.candidate for o in options])}
-    shown = tuple(o for o in options if id(o.candidate) in keep)[:top]
-    return Substitution(stage, target, refill, shown, allow_polarized, singles)
+    want = top * SPARE
+    while True:  # look-alikes (same values, same drawers) are shown once: ask for more
+        rows, _ = problem.best(want)
+        if len(rows) == 0:
+            raise NoDesignError(
+                f"no parts on hand can refill {', '.join(refill)} with the quantities in stock"
+            )
+        options = [_option(stage, topo, target, space, refill, rows, i) for i in range(len(rows))]
+        keep = {id(c) for c in distinct([o.candidate for o in options])}
+        shown = tuple(o for o in options if id(o.candidate) in keep)[:top]
+        if len(shown) >= top or len(rows) < want:
+            return Substitution(stage, target, refill, shown, allow_polarized, singles)
+        want *= 4
 
 
 def _option(stage, topo, target, space, refill, rows, i) -> Option:
