@@ -52,10 +52,27 @@ def resolve_stock_path(arg: str | None) -> tuple[Path, str | None]:
     )
 
 
+def load_stock(arg: str | None):
+    """The stock a command works on: resolved as ``resolve_stock_path``, loaded, with the
+    note on where it came from and every load warning printed to stderr."""
+    import sys
+
+    from stock.file import load
+
+    path, note = resolve_stock_path(arg)
+    if note:
+        print(f"picker: {note}", file=sys.stderr)
+    stock = load(path)
+    for w in stock.warnings:
+        print(f"picker: warning: {w}", file=sys.stderr)
+    return stock
+
+
 __all__ = [
     "DEFAULT_NAME",
     "ENV_VAR",
     "bundled_sample_path",
     "is_bundled_sample",
+    "load_stock",
     "resolve_stock_path",
 ]

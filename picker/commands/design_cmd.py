@@ -172,18 +172,12 @@ def _budget_module():
 
 
 def run(args) -> int:
-    from picker.commands.common import resolve_stock_path
+    from picker.commands.common import load_stock
     from picker.filters import plan_stages
     from picker.search import Bounds, search
-    from stock.file import load
 
     request = parse_request(args)
-    path, note = resolve_stock_path(getattr(args, "stock", None))
-    if note:
-        print(f"picker: {note}", file=sys.stderr)
-    stock = load(path)
-    for w in stock.warnings:
-        print(f"picker: warning: {w}", file=sys.stderr)
+    stock = load_stock(getattr(args, "stock", None))
     if args.save:
         # refuse a bad save target before a search that may take a while
         from pathlib import Path

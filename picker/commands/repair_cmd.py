@@ -182,22 +182,16 @@ def run_analyse(args) -> int:
 def run_substitute(args) -> int:
     from pathlib import Path
 
-    from picker.commands.common import resolve_stock_path
+    from picker.commands.common import load_stock
     from picker.errors import DesignError
     from picker.repair.marked import parse_stage
-    from stock.file import load
 
     stage = parse_stage(args.topology, args.values)
     if args.top < 1:
         raise DesignError(f"--top {args.top}: give at least 1")
     if args.pick < 1 or args.pick > args.top:
         raise DesignError(f"--pick {args.pick}: choose 1..{args.top} (the --top options)")
-    path, note = resolve_stock_path(getattr(args, "stock", None))
-    if note:
-        print(f"picker: {note}", file=sys.stderr)
-    stock = load(path)
-    for w in stock.warnings:
-        print(f"picker: warning: {w}", file=sys.stderr)
+    stock = load_stock(getattr(args, "stock", None))
     if args.save:
         from picker.export.design_file import check_save_target
 
