@@ -29,12 +29,19 @@ import hashlib
 import os
 import re
 import stat
-import tempfile
+from collections.abc import Callable
 from contextlib import contextmanager, suppress
 from dataclasses import dataclass, replace
 from pathlib import Path
 
-from stock.durable import sync_folder
+from stock.durable import (
+    describe_os_error,
+    open_regular,
+    read_fd,
+    remove_stale_temps,
+    sync_folder,
+    write_temp,
+)
 from stock.errors import StockEditError, StockFileError
 from stock.fields import MAX_COUNT
 from stock.load import KINDS, LineMap, loads
@@ -45,6 +52,14 @@ _BOM = "\ufeff"
 
 class StockChangedError(StockEditError):
     """The file's sha256 is not the one expected: someone changed it since it was read."""
+
+
+class WrittenButUnsynced(StockEditError):
+    """The new file is in place but the folder fsync failed: it may not survive a crash."""
+
+    def __init__(self, message: str, *, after_sha256: str):
+        super().__init__(message)
+        self.after_sha256 = after_sha256
 
 
 @dataclass(frozen=True)
@@ -80,14 +95,18 @@ def _sha(data: bytes) -> str:
 
 @contextmanager
 def locked(path):
-    """Exclusive lock on the file at ``path``; yields ``(fd, real_path, stat)``."""
+    """Exclusive lock on the file at ``path``; yields ``(fd, real_path, stat)``.
+
+    The file is opened without blocking and must be a regular file (a FIFO, a device
+    or a folder is refused at once, see ``stock.durable.open_regular``).
+    """
     real = Path(os.path.realpath(path))
     while True:
         try:
-            fd = os.open(real, os.O_RDONLY)
+            fd = open_regular(real)
         except OSError as exc:
             raise StockEditError(
-                f"{path}: cannot open the stock file: {exc.strerror or exc}"
+                f"{path}: cannot open the stock file: {describe_os_error(exc)}"
             ) from None
         try:
             fcntl.flock(fd, fcntl.LOCK_EX)
@@ -105,59 +124,32 @@ def locked(path):
             os.close(fd)  # also releases the lock
 
 
-def _read_all(fd: int) -> bytes:
-    chunks: list[bytes] = []
-    os.lseek(fd, 0, os.SEEK_SET)
-    while True:
-        chunk = os.read(fd, 1 << 20)
-        if not chunk:
-            return b"".join(chunks)
-        chunks.append(chunk)
-
-
-def _remove_stale_temps(real: Path) -> None:
-    """Delete temporary files a killed writer left behind.
-
-    Called under the lock on the current file: a live writer only writes its temporary
-    file while it holds that lock, so any file of our naming pattern is stale.
-    """
-    prefix = f".{real.name}."
+def _write_atomic(real: Path, data: bytes, fd: int, st: os.stat_result) -> None:
+    # a live writer writes its temporary file only while it holds the lock on the
+    # current file, which we hold: any file of that naming is a killed writer's
+    remove_stale_temps(real.parent, real.name)
+    tmp = write_temp(real.parent, real.name, data, mode=st.st_mode, like=fd)
     try:
-        names = os.listdir(real.parent)
-    except OSError:
-        return
-    for name in names:
-        if name.startswith(prefix) and name.endswith(".tmp") and len(name) == len(prefix) + 12:
-            with suppress(OSError):
-                os.unlink(real.parent / name)
-
-
-def _write_atomic(real: Path, data: bytes, st: os.stat_result) -> None:
-    _remove_stale_temps(real)
-    fd, tmp = tempfile.mkstemp(dir=real.parent, prefix=f".{real.name}.", suffix=".tmp")
-    try:
-        try:
-            view = memoryview(data)
-            while view:
-                view = view[os.write(fd, view) :]
-            os.fchmod(fd, st.st_mode & 0o7777)
-            # not the owner: the file becomes ours, the mode is kept
-            with suppress(OSError):
-                os.fchown(fd, st.st_uid, st.st_gid)
-            os.fsync(fd)
-        finally:
-            os.close(fd)
         os.replace(tmp, real)
     except BaseException:
         with suppress(OSError):
             os.unlink(tmp)
         raise
-    sync_folder(real.parent)  # make the rename itself durable
 
 
-def _edit(path, transform, expect_sha256: str | None) -> EditResult:
+BeforeReplace = Callable[[bytes, bytes], None]
+
+
+def _edit(path, transform, expect_sha256: str | None, before_replace=None) -> EditResult:
+    """Lock, read, ``transform``, write atomically.
+
+    ``before_replace(before, after)`` runs under the lock once the new bytes are known
+    and before anything is written (the build ledger records the build there, so the
+    record is durable before the stock file changes); if it raises, nothing is written.
+    An error after the rename (the folder fsync) raises ``WrittenButUnsynced``.
+    """
     with locked(path) as (fd, real, st):
-        before = _read_all(fd)
+        before = read_fd(fd, name=str(path))
         before_sha = _sha(before)
         if expect_sha256 is not None and before_sha != expect_sha256:
             raise StockChangedError(
@@ -169,11 +161,23 @@ def _edit(path, transform, expect_sha256: str | None) -> EditResult:
             # a file its owner made read-only stays unchanged, even for root
             if not st.st_mode & stat.S_IWUSR or not os.access(real, os.W_OK):
                 raise StockEditError(f"{path}: the stock file is read-only; nothing was written")
+            if before_replace is not None:
+                before_replace(before, after)
             try:
-                _write_atomic(real, after, st)
+                _write_atomic(real, after, fd, st)
             except OSError as exc:
                 raise StockEditError(
-                    f"{path}: cannot write the stock file ({exc.strerror or exc}); it is unchanged"
+                    f"{path}: cannot write the stock file ({describe_os_error(exc)}); "
+                    "it is unchanged"
+                ) from None
+            try:
+                sync_folder(real.parent)  # make the rename itself durable
+            except OSError as exc:
+                raise WrittenButUnsynced(
+                    f"{path}: the stock file was written, but its folder could not be "
+                    f"synced ({describe_os_error(exc)}); a power cut now could bring "
+                    "the old file back",
+                    after_sha256=_sha(after),
                 ) from None
         return EditResult(
             path=Path(path),
@@ -209,7 +213,13 @@ def _describe(item) -> str:
     return f"{item.kind} {name}{where} (line {item.line})"
 
 
-def apply_changes(path, changes, *, expect_sha256: str | None = None) -> EditResult:
+def apply_changes(
+    path,
+    changes,
+    *,
+    expect_sha256: str | None = None,
+    before_replace: BeforeReplace | None = None,
+) -> EditResult:
     """Apply every ``QtyChange`` or none of them.
 
     A change of qty alone rewrites just the digits on the entry's ``qty = N`` line
@@ -236,7 +246,7 @@ def apply_changes(path, changes, *, expect_sha256: str | None = None) -> EditRes
             _check_loads(after_text, path, "the edit would leave the file unreadable")
         return (bom + after_text).encode("utf-8")
 
-    return _edit(path, transform, expect_sha256)
+    return _edit(path, transform, expect_sha256, before_replace)
 
 
 def _plan(stock, changes, path) -> dict:
@@ -391,16 +401,19 @@ def add_line(path, kind: str, fields: dict, *, expect_sha256: str | None = None)
     return _edit(path, transform, expect_sha256)
 
 
-def replace_bytes(path, content: bytes, *, expect_sha256: str) -> EditResult:
+def replace_bytes(
+    path, content: bytes, *, expect_sha256: str, before_replace: BeforeReplace | None = None
+) -> EditResult:
     """Put ``content`` back as the whole file (undo), with the same lock and atomic write."""
     content = bytes(content)
-    return _edit(path, lambda before: content, expect_sha256)
+    return _edit(path, lambda before: content, expect_sha256, before_replace)
 
 
 __all__ = [
     "EditResult",
     "QtyChange",
     "StockChangedError",
+    "WrittenButUnsynced",
     "add_line",
     "apply_changes",
     "locked",

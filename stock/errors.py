@@ -4,7 +4,7 @@
      +-- StockError
      |    +-- ValueParseError     a value, tolerance, ppm ... text that cannot be read
      |    +-- StockFileError      a stock file that cannot be loaded (carries every problem)
-     |    +-- StockEditError      a refused safe edit (file changed, would go below zero ...)
+     |    +-- StockEditError      a safe edit that was refused (file changed, below zero ...)
      +-- DesignError              (picker.errors) targets that cannot be designed
 
 The root lives here because ``stock`` knows nothing of filters; ``picker.errors``

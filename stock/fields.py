@@ -7,7 +7,9 @@ entry's header. Plausible ranges are those of DESIGN.md section 3.
 
 from __future__ import annotations
 
+import math
 import re
+from collections.abc import Callable
 
 from stock import values as V
 from stock.errors import ValueParseError
@@ -22,7 +24,7 @@ from stock.model import (
     Resistor,
 )
 
-# plausible nominal ranges (DESIGN.md section 3): resistor 1 mOhm .. 1 TOhm, capacitor 0.1 pF .. 1 F
+# plausible nominal ranges (docs/stock-file.md): resistor 1 mOhm .. 1 TOhm, capacitor 0.1 pF .. 1 F
 RANGES = {"resistor": (1e-3, 1e12, "1 mΩ .. 1 TΩ"), "capacitor": (1e-13, 1.0, "0.1 pF .. 1 F")}
 GBW_RANGE = (1e3, 1e11)
 # Largest qty (and channels) a line may hold: a million pieces is far beyond any drawer
@@ -64,12 +66,9 @@ _DIELECTRIC_SPELLINGS.update({"cog": "C0G", "npo": "NP0"})
 
 
 def quote(value) -> str:
-    """The bad text as the owner wrote it, in single quotes."""
-    if isinstance(value, bool):
-        return "true" if value else "false"
-    if isinstance(value, str):
-        return f"'{value}'"
-    return f"'{value}'"
+    """A parsed value in single quotes, as TOML spells it (``EntryChecker.q`` prefers
+    the text as written in the file)."""
+    return V.shown(value)
 
 
 def canonical_dielectric(text: str) -> str | None:
@@ -81,12 +80,35 @@ class EntryChecker:
     """Validate one entry; ``build()`` returns the model object or None, filling errors/warnings."""
 
     def __init__(
-        self, kind: str, index: int, entry: dict, src: str, header: int, keylines: dict[str, int]
+        self,
+        kind: str,
+        index: int,
+        entry: dict,
+        src: str,
+        header: int,
+        keylines,
+        written: Callable[[int], str | None] | None = None,
     ):
         self.kind, self.index, self.entry = kind, index, entry
         self.src, self.header, self.keylines = src, header, keylines
+        self.written = written
         self.errors: list[str] = []
         self.warnings: list[str] = []
+
+    def q(self, key: str, raw) -> str:
+        """``raw``, the value of ``key``, quoted as written in the file where known."""
+        if not isinstance(raw, str) and self.written is not None:
+            line = self.keylines.get(key)
+            text = self.written(line) if line else None
+            if text is not None:
+                return V.shown(text)
+        return V.shown(raw)
+
+    def _as_written(self, key: str, raw, msg: str) -> str:
+        """``msg`` of a value parser, with its quote of ``raw`` replaced by the file's text."""
+        if isinstance(raw, str):
+            return msg
+        return msg.replace(V.shown(raw), self.q(key, raw), 1)
 
     # -- messages -----------------------------------------------------------------------
     def _where(self, key: str | None) -> str:
@@ -109,13 +131,13 @@ class EntryChecker:
         try:
             x = parser(raw)
         except ValueParseError as exc:
-            self.error(key, str(exc))
+            self.error(key, self._as_written(key, raw, str(exc)))
             return None
         if positive and x <= 0:
-            self.error(key, f"{quote(raw)} must be above zero")
+            self.error(key, f"{self.q(key, raw)} must be above zero")
             return None
         if (lo is not None and x < lo) or (hi is not None and x > hi):
-            self.error(key, f"{quote(raw)} is outside the plausible range {span}")
+            self.error(key, f"{self.q(key, raw)} is outside the plausible range {span}")
             return None
         return x
 
@@ -128,7 +150,11 @@ class EntryChecker:
         if raw is None:
             return None
         if not isinstance(raw, str):
-            self.error(key, f'{quote(raw)} must be text in quotes, e.g. {key} = "A3"')
+            self.error(
+                key,
+                f"{self.q(key, raw)} is {V.type_word(raw)}; write text in quotes, "
+                f'e.g. {key} = "A3"',
+            )
             return None
         return raw.strip() or None
 
@@ -140,29 +166,36 @@ class EntryChecker:
                 self.error(key, f"missing; every [[{self.kind}]] needs {key} = <{what}>")
             return default
         raw = self.entry[key]
-        if isinstance(raw, (bool, dict, list)):
-            self.error(key, f"{quote(raw)} is not a number; write {key} = <{what}>")
-            return None
+        shown = self.q(key, raw)
         if isinstance(raw, str):
             digits = raw.strip().replace("_", "")
             hint = (
                 f"write the number without quotes, {key} = {digits}"
-                if digits.isdigit()
+                if digits.isdigit() and len(digits) < 20
                 else f"write {key} = <{what}>, a number without quotes"
             )
-            self.error(key, f"{quote(raw)} is text; {hint}")
+            self.error(key, f"{shown} is text; {hint}")
             return None
         if isinstance(raw, float):
-            self.error(key, f"{quote(raw)} is fractional; {key} must be {what}")
+            if math.isfinite(raw) and raw.is_integer() and abs(raw) <= maximum:
+                self.error(
+                    key,
+                    f"{shown} is {V.type_word(raw)}; {key} must be {what}, written "
+                    f"without a point or exponent: {key} = {int(raw)}",
+                )
+            else:
+                self.error(key, f"{shown} is {V.type_word(raw)}; {key} must be {what}")
+            return None
+        if isinstance(raw, bool) or not isinstance(raw, int):
+            self.error(key, f"{shown} is {V.type_word(raw)}, not a number; write {key} = <{what}>")
             return None
         if raw < minimum:
-            self.error(key, f"{quote(raw)} is below {minimum}; {key} must be {what}")
+            self.error(key, f"{shown} is below {minimum}; {key} must be {what}")
             return None
         if raw > maximum:
             self.error(
                 key,
-                f"{quote(raw)} is not a plausible count (at most {maximum:,}); "
-                f"{key} must be {what}",
+                f"{shown} is not a plausible count (at most {maximum:,}); {key} must be {what}",
             )
             return None
         return raw
@@ -180,19 +213,20 @@ class EntryChecker:
         try:
             x = V.parse_value(raw, kind=kind)
         except ValueParseError as exc:
-            self.error("value", str(exc))
+            self.error("value", self._as_written("value", raw, str(exc)))
             return None
         lo, hi, span = RANGES[kind]
         unit = "Ω" if kind == "resistor" else "F"
+        q = self.q("value", raw)
         if x < 0:
-            self.error("value", f"{quote(raw)} is negative; values are positive ({span})")
+            self.error("value", f"{q} is negative; values are positive ({span})")
         elif x == 0:
-            self.error("value", f"{quote(raw)} is zero; a {kind} value lies in {span}")
+            self.error("value", f"{q} is zero; a {kind} value lies in {span}")
         elif not lo <= x <= hi:
             hint = "; write 10p, 10n or 10u" if kind == "capacitor" and x > hi else ""
             self.error(
                 "value",
-                f"{quote(raw)} is {V.format_si(x, unit)}, not a plausible {kind} ({span}){hint}",
+                f"{q} is {V.format_si(x, unit)}, not a plausible {kind} ({span}){hint}",
             )
         else:
             if (
@@ -203,7 +237,7 @@ class EntryChecker:
                 # SI prefixes are case-sensitive; 1m is a milliohm, a likely slip for 1M
                 self.warn(
                     "value",
-                    f"{quote(raw)} is {V.format_si(x, 'Ω')} (m is milli); "
+                    f"{q} is {V.format_si(x, 'Ω')} (m is milli); "
                     f"write M for mega, e.g. {raw.replace('m', 'M', 1)}",
                 )
             return x
@@ -214,7 +248,11 @@ class EntryChecker:
         if raw is None:
             return ()
         if not isinstance(raw, list):
-            self.error("measured", f'{quote(raw)} must be a list, e.g. measured = ["4.693k"]')
+            self.error(
+                "measured",
+                f"{self.q('measured', raw)} is {V.type_word(raw)}; write a list, "
+                'e.g. measured = ["4.693k"]',
+            )
             return ()
         lo, hi, span = RANGES[self.kind]
         out = []
@@ -225,7 +263,7 @@ class EntryChecker:
                 self.error("measured", str(exc))
                 continue
             if not lo <= x <= hi:
-                self.error("measured", f"{quote(item)} is outside the plausible range {span}")
+                self.error("measured", f"{V.shown(item)} is outside the plausible range {span}")
                 continue
             out.append(x)
             if nominal and tolerance is not None:
@@ -233,7 +271,7 @@ class EntryChecker:
                 if off > 3 * tolerance + meter:
                     self.warn(
                         "measured",
-                        f"{quote(item)} is {off:.1%} from the nominal "
+                        f"{V.shown(item)} is {off:.1%} from the nominal "
                         f"{V.format_rkm(nominal, self.kind)} (tolerance "
                         f"{tolerance:.1%}): check the reading",
                     )
@@ -299,7 +337,7 @@ class EntryChecker:
             if dielectric is None:
                 self.error(
                     "dielectric",
-                    f"{quote(raw)} is not a dielectric this format knows; "
+                    f"{self.q('dielectric', raw)} is not a dielectric this format knows; "
                     f"use one of {'|'.join(DIELECTRICS)}",
                 )
         polarized = dielectric in POLARIZED_BY_DEFAULT
@@ -308,7 +346,9 @@ class EntryChecker:
             if isinstance(raw, bool):
                 polarized = raw
             else:
-                self.error("polarized", f"{quote(raw)} must be true or false (no quotes)")
+                self.error(
+                    "polarized", f"{self.q('polarized', raw)} must be true or false (no quotes)"
+                )
         voltage = self._parsed("voltage", V.parse_voltage, hi=1e5, span="up to 100 kV")
         location, note = self._text("location"), self._text("note")
         if value is None or qty is None or self.errors:

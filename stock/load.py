@@ -1,4 +1,4 @@
-"""Load a stock file, format 1 (DESIGN.md section 3), with every problem located.
+"""Load a stock file, format 1 (docs/stock-file.md), with every problem located.
 
 The values come from the standard library's TOML reader (fast, strict); a line scan
 of the same text finds the line of each entry's header and of each key inside it, so
@@ -12,14 +12,15 @@ from __future__ import annotations
 
 import hashlib
 import re
-import tomllib
 from collections import OrderedDict
 from dataclasses import replace
 from pathlib import Path
 
+from stock import tomlread
 from stock import values as V
+from stock.durable import read_bounded, why_not_read
 from stock.errors import StockFileError
-from stock.fields import EntryChecker, quote
+from stock.fields import EntryChecker
 from stock.model import Stock
 
 KINDS = ("resistor", "capacitor", "opamp")
@@ -90,7 +91,7 @@ class LineMap:
                     previous = n
                     continue
             if self._multi:
-                in_multi = _opens_multi(raw)
+                in_multi = tomlread.opens_multiline(raw)
         self._next[previous] = len(self.rows) + 1
         self.top_keys = _Keys(self, 0)
         self.stock_keys: _Keys | dict[str, int] = _Keys(self, stock_header) if stock_header else {}
@@ -108,8 +109,14 @@ class LineMap:
             if m:
                 keys.setdefault(_unquote(m[1]), n)
             if self._multi:
-                in_multi = _opens_multi(raw)
+                in_multi = tomlread.opens_multiline(raw)
         return keys
+
+    def written(self, line: int) -> str | None:
+        """The value's text as written on ``key = value`` line ``line`` (1-based), or None."""
+        if not 0 < line <= len(self.rows):
+            return None
+        return tomlread.written_value(self.rows[line - 1])
 
     def entry(self, kind: str, index: int, count: int):
         """``(header line, key lines)`` of entry ``index`` of ``kind``; key lines has ``get``."""
@@ -119,20 +126,24 @@ class LineMap:
         return self.tables.get(kind) or self.top_keys.get(kind, 0), {}
 
 
-def _opens_multi(raw: str) -> str | None:
-    for delim in ('"""', "'''"):
-        if raw.count(delim) % 2 == 1:
-            return delim
-    return None
-
-
 def file_sha256(path) -> str:
-    """Hex sha256 of the file's bytes."""
-    return hashlib.sha256(Path(path).read_bytes()).hexdigest()
+    """Hex sha256 of the file's bytes (a FIFO, device, folder or huge file is refused)."""
+    return hashlib.sha256(read_stock_bytes(path)).hexdigest()
+
+
+def read_stock_bytes(path) -> bytes:
+    """The stock file's bytes, read with a bound: StockFileError saying why not."""
+    try:
+        return read_bounded(path)
+    except OSError as exc:
+        raise StockFileError(f"{path}: {why_not_read(exc, 'stock file')}") from None
 
 
 def load(path) -> Stock:
     """Read the stock file at ``path``.
+
+    A path that is a folder, a FIFO, a device or a file over 50 MB is refused at once,
+    without waiting on it (``stock.durable.read_bounded``).
 
     Raises
     ------
@@ -140,12 +151,7 @@ def load(path) -> Stock:
         Listing every problem, one line each: ``file:line: kind key: ...``.
     """
     path = Path(path)
-    src = str(path)
-    try:
-        data = path.read_bytes()
-    except OSError as exc:
-        raise StockFileError(f"{src}: cannot read the stock file: {exc.strerror or exc}") from None
-    return _load_bytes(data, src, path)
+    return _load_bytes(read_stock_bytes(path), str(path), path)
 
 
 def decode(data: bytes, src: str) -> str:
@@ -187,26 +193,11 @@ def loads(text: str, *, source: str = "<text>") -> Stock:
     return _load_bytes(text.encode("utf-8"), source, None)
 
 
-_TOML_LINE_RE = re.compile(r"\(at line (\d+), column (\d+)\)")
-
-
 def _parse(text: str, src: str) -> Stock:
     try:
-        doc = tomllib.loads(text)
-    except tomllib.TOMLDecodeError as exc:
-        msg = str(exc)
-        m = _TOML_LINE_RE.search(msg)
-        rows = text.split("\n")
-        if m:
-            line = m[1]
-            detail = _TOML_LINE_RE.sub("", msg).strip() + f" (column {m[2]})"
-            bad = rows[int(line) - 1].strip() if 0 < int(line) <= len(rows) else ""
-        else:  # "(at end of document)": name the last line that has text
-            line = str(max((i + 1 for i, r in enumerate(rows) if r.strip()), default=1))
-            detail = msg.replace("(at end of document)", "at the end of the file").strip()
-            bad = rows[int(line) - 1].strip()
-        quoted = f" in {quote(bad)}" if bad else ""
-        raise StockFileError(f"{src}:{line}: TOML syntax: {detail}{quoted}") from None
+        doc = tomlread.parse(text)
+    except tomlread.TomlProblem as exc:
+        raise StockFileError(f"{src}:{exc.line or 1}: {exc.message}") from None
     lines = LineMap(text)
     errors: list[str] = []
     warnings: list[str] = []
@@ -234,7 +225,7 @@ def _parse(text: str, src: str) -> Stock:
             continue
         for index, entry in enumerate(entries):
             header, keylines = lines.entry(kind, index, len(entries))
-            checker = EntryChecker(kind, index, entry, src, header, keylines)
+            checker = EntryChecker(kind, index, entry, src, header, keylines, lines.written)
             item = checker.build()
             errors.extend(checker.errors)
             warnings.extend(checker.warnings)
@@ -267,14 +258,15 @@ def _check_stock_table(table, src, lines: LineMap, errors, warnings) -> str | No
     if name is not None and not isinstance(name, str):
         errors.append(
             f"{src}:{lines.stock_keys.get('name', where)}: stock name: "
-            f"{quote(name)} must be text in quotes"
+            f"{_written(lines, 'name', name)} must be text in quotes"
         )
         name = None
     fmt = table.get("format", 1)
     if fmt != 1 or isinstance(fmt, bool):
         errors.append(
             f"{src}:{lines.stock_keys.get('format', where)}: stock format: "
-            f"{quote(fmt)} is not a format this version reads; it reads format = 1"
+            f"{_written(lines, 'format', fmt)} is not a format this version reads; "
+            "it reads format = 1"
         )
     for key in table:
         if key not in STOCK_KEYS:
@@ -283,6 +275,12 @@ def _check_stock_table(table, src, lines: LineMap, errors, warnings) -> str | No
                 "key ignored; [stock] knows name and format"
             )
     return name
+
+
+def _written(lines: LineMap, key: str, raw) -> str:
+    """A [stock] value quoted as written in the file where its line is known."""
+    text = None if isinstance(raw, str) else lines.written(lines.stock_keys.get(key, 0))
+    return V.shown(raw if text is None else text)
 
 
 def _duplicates(parsed, src, warnings) -> None:
@@ -305,4 +303,4 @@ def _duplicates(parsed, src, warnings) -> None:
                 seen[key] = item.line
 
 
-__all__ = ["KINDS", "LineMap", "decode", "file_sha256", "load", "loads"]
+__all__ = ["KINDS", "LineMap", "decode", "file_sha256", "load", "loads", "read_stock_bytes"]

@@ -65,6 +65,87 @@ VALUE_HELP = (
 )
 
 
+def shown(text, limit: int = 80) -> str:
+    """``text`` in single quotes for a message, as the owner wrote it.
+
+    Control characters (ESC, CR, tabs ...) are shown escaped (``\\x1b``), never sent
+    raw; past ``limit`` characters the text is cut and its length said.
+    """
+    s = text if isinstance(text, str) else toml_text(text)
+    out = "".join(c if c.isprintable() else c.encode("unicode_escape").decode("ascii") for c in s)
+    if len(out) <= limit:
+        return f"'{out}'"
+    return f"'{out[: limit - 1]}…' ({len(s):,} characters)"
+
+
+def toml_text(value, limit: int = 200) -> str:
+    """How TOML spells a parsed ``value``: ``true``, ``1979-05-27``, ``1000.0``, ``[1, 2]``.
+
+    For messages about a value whose own text in the file is not at hand; long arrays
+    and tables are cut near ``limit`` characters.
+    """
+    if isinstance(value, bool):
+        return "true" if value else "false"
+    if isinstance(value, int):
+        if value.bit_length() > 10_000:  # str() refuses past Python's digit limit
+            return f"<a whole number of about {int(value.bit_length() * 0.30103):,} digits>"
+        return str(value)
+    if isinstance(value, float):
+        if math.isnan(value):
+            return "nan"
+        if math.isinf(value):
+            return "inf" if value > 0 else "-inf"
+        return repr(value)
+    if isinstance(value, str):
+        return '"' + value.replace("\\", "\\\\").replace('"', '\\"') + '"'
+    if hasattr(value, "isoformat"):  # date, time, datetime
+        return value.isoformat()
+    if isinstance(value, (list, tuple)):
+        parts, size = [], 0
+        for x in value:
+            if size > limit:
+                parts.append("…")
+                break
+            parts.append(toml_text(x, limit))
+            size += len(parts[-1]) + 2
+        return "[" + ", ".join(parts) + "]"
+    if isinstance(value, dict):
+        parts, size = [], 0
+        for k, x in value.items():
+            if size > limit:
+                parts.append("…")
+                break
+            parts.append(f"{k} = {toml_text(x, limit)}")
+            size += len(parts[-1]) + 2
+        return "{" + ", ".join(parts) + "}"
+    return str(value)
+
+
+def type_word(value) -> str:
+    """What a parsed TOML value is, in words: "a date", "true or false", "a list" ..."""
+    import datetime as _dt
+
+    if isinstance(value, bool):
+        return "true or false"
+    if isinstance(value, int):
+        return "a whole number"
+    if isinstance(value, float):
+        return "a number with a fraction or exponent (a float)"
+    if isinstance(value, str):
+        return "text"
+    if isinstance(value, _dt.datetime):
+        return "a date and time"
+    if isinstance(value, _dt.date):
+        return "a date"
+    if isinstance(value, _dt.time):
+        return "a time of day"
+    if isinstance(value, (list, tuple)):
+        return "a list"
+    if isinstance(value, dict):
+        return "a table"
+    return type(value).__name__
+
+
 def _prefix_exp(prefix: str | None) -> int:
     if not prefix:
         return 0
@@ -78,7 +159,7 @@ def _scaled(digits: str, exp: int, sign: str, text) -> float:
     try:
         x = float(Decimal(digits).scaleb(exp))
     except (ArithmeticError, ValueError):
-        raise ValueParseError(f"'{text}' is out of range; {VALUE_HELP}") from None
+        raise ValueParseError(f"{shown(text)} is out of range; {VALUE_HELP}") from None
     return _check_number(-x if sign == "-" else x, str(text))
 
 
@@ -99,8 +180,17 @@ def _unit_kind(unit: str, *, after_prefix: bool = False) -> str | None:
 
 def _check_number(x: float, text: str) -> float:
     if not math.isfinite(x):
-        raise ValueParseError(f"'{text}' is not a finite number; {VALUE_HELP}")
+        raise ValueParseError(f"{shown(text)} is not a finite number; {VALUE_HELP}")
     return x
+
+
+def _bare_number(value) -> float:
+    """float of an int or float from the file; a value past float range is an error."""
+    try:
+        x = float(value)
+    except OverflowError:
+        raise ValueParseError(f"{shown(toml_text(value))} is out of range; {VALUE_HELP}") from None
+    return _check_number(x, toml_text(value))
 
 
 def _memo_text(fn):
@@ -153,15 +243,13 @@ def parse_value(text, *, kind: str | None = None) -> float:
     .. [1] IEC 60062:2016, clause 4: RKM code letters R, K, M, G, T (resistance) and
        p, n, µ, m (capacitance) in place of the decimal point.
     """
-    if isinstance(text, bool):
-        raise ValueParseError(f"'{text}' is not a value; {VALUE_HELP}")
+    if isinstance(text, bool) or not isinstance(text, (int, float, str)):
+        raise ValueParseError(f"{shown(text)} is {type_word(text)}, not a value; {VALUE_HELP}")
     if isinstance(text, (int, float)):
-        return _check_number(float(text), str(text))
-    if not isinstance(text, str):
-        raise ValueParseError(f"'{text!r}' is not a value; {VALUE_HELP}")
+        return _bare_number(text)
     s = text.strip()
     if not s:
-        raise ValueParseError(f"empty value '{text}'; {VALUE_HELP}")
+        raise ValueParseError(f"empty value {shown(text)}; {VALUE_HELP}")
     m = _RKM_RE.match(s)
     if m:
         letter = m["letter"]
@@ -170,10 +258,10 @@ def parse_value(text, *, kind: str | None = None) -> float:
         exp = 0 if letter in "RF" else PREFIXES[letter]
         uk = _unit_kind(unit, after_prefix=letter not in "RF")
         if uk is None:
-            raise ValueParseError(f"unknown unit '{unit}' in '{text}'; {VALUE_HELP}")
+            raise ValueParseError(f"unknown unit {shown(unit)} in {shown(text)}; {VALUE_HELP}")
         implied = {"R": "resistor", "F": "capacitor"}.get(letter, "")
         if implied and uk and uk != implied:
-            raise ValueParseError(f"'{text}' mixes ohms and farads; {VALUE_HELP}")
+            raise ValueParseError(f"{shown(text)} mixes ohms and farads; {VALUE_HELP}")
         value_kind = uk or implied
     else:
         m = _SI_RE.match(s)
@@ -181,41 +269,39 @@ def parse_value(text, *, kind: str | None = None) -> float:
             hint = ""
             if re.search(r"[0-9][NP]", s):
                 hint = " (prefixes are case-sensitive: p, n, u, m are lower case)"
-            raise ValueParseError(f"cannot read value '{text}'{hint}; {VALUE_HELP}")
+            raise ValueParseError(f"cannot read value {shown(text)}{hint}; {VALUE_HELP}")
         digits = m["num"]
         prefix = m["prefix"]
         unit = m["unit"]
         exp = _prefix_exp(prefix)
         uk = _unit_kind(unit, after_prefix=bool(prefix))
         if uk is None:
-            raise ValueParseError(f"unknown unit '{unit}' in '{text}'; {VALUE_HELP}")
+            raise ValueParseError(f"unknown unit {shown(unit)} in {shown(text)}; {VALUE_HELP}")
         value_kind = uk
     if kind is not None and value_kind and value_kind != kind:
         unit_name = "ohms" if value_kind == "resistor" else "farads"
-        raise ValueParseError(f"'{text}' is in {unit_name}, not a {kind} value; {VALUE_HELP}")
+        raise ValueParseError(f"{shown(text)} is in {unit_name}, not a {kind} value; {VALUE_HELP}")
     return _scaled(digits, exp, m["sign"], text)
 
 
 def _parse_with_unit(text, unit_re: str, what: str, example: str, *, bare_ok: bool = True) -> float:
     """Number, optional SI prefix, then the unit (matched by ``unit_re``)."""
     help_ = f"write {what} like {example}"
-    if isinstance(text, bool):
-        raise ValueParseError(f"'{text}' is not {what}; {help_}")
+    if isinstance(text, bool) or not isinstance(text, (int, float, str)):
+        raise ValueParseError(f"{shown(text)} is {type_word(text)}, not {what}; {help_}")
     if isinstance(text, (int, float)):
         if not bare_ok:
-            raise ValueParseError(f"'{text}' has no unit; {help_}")
-        return _check_number(float(text), str(text))
-    if not isinstance(text, str):
-        raise ValueParseError(f"'{text!r}' is not {what}; {help_}")
+            raise ValueParseError(f"{shown(text)} has no unit; {help_}")
+        return _bare_number(text)
     s = text.strip()
     for pm in ("±", "+/-"):
         if s.startswith(pm):
             s = s[len(pm) :].strip()
     m = re.fullmatch(rf"([+-]?)({_NUM})\s*({_PREFIX})?\s*({unit_re})?", s)
     if not m:
-        raise ValueParseError(f"cannot read {what} '{text}'; {help_}")
+        raise ValueParseError(f"cannot read {what} {shown(text)}; {help_}")
     if not m[4] and not bare_ok:
-        raise ValueParseError(f"'{text}' has no unit; {help_}")
+        raise ValueParseError(f"{shown(text)} has no unit; {help_}")
     return _scaled(m[2], _prefix_exp(m[3]), m[1], text)
 
 
@@ -231,8 +317,11 @@ def parse_percent(text) -> float:
         m = re.fullmatch(rf"({_NUM})\s*%", s)
         if m:
             return _scaled(m[1], -2, "", text)
-        raise ValueParseError(f"cannot read percentage '{text}'; {help_}")
-    raise ValueParseError(f"'{text}' is not a percentage; {help_} (with the % sign, in quotes)")
+        raise ValueParseError(f"cannot read percentage {shown(text)}; {help_}")
+    raise ValueParseError(
+        f"{shown(text)} is {type_word(text)}, not a percentage; {help_} (with the %"
+        " sign, in quotes)"
+    )
 
 
 @_memo_text
@@ -247,8 +336,10 @@ def parse_ppm(text) -> float:
         m = re.fullmatch(rf"([+-]?)({_NUM})\s*ppm\s*(?:/\s*(?:K|°C|C|°K))?", s, re.IGNORECASE)
         if m:
             return _scaled(m[2], -6, m[1], text)
-        raise ValueParseError(f"cannot read temperature coefficient '{text}'; {help_}")
-    raise ValueParseError(f"'{text}' is not a temperature coefficient; {help_} (in quotes)")
+        raise ValueParseError(f"cannot read temperature coefficient {shown(text)}; {help_}")
+    raise ValueParseError(
+        f"{shown(text)} is {type_word(text)}, not a temperature coefficient; {help_} (in quotes)"
+    )
 
 
 @_memo_text
@@ -289,8 +380,10 @@ def parse_slew(text) -> float:
         if m:
             per = {"": 0, "m": -3, "u": -6, "µ": -6, "μ": -6, "n": -9}[m[3]]
             return _scaled(m[1], _prefix_exp(m[2]) - per, "", text)
-        raise ValueParseError(f"cannot read slew rate '{text}'; {help_}")
-    raise ValueParseError(f"'{text}' is not a slew rate; {help_} (with its unit, in quotes)")
+        raise ValueParseError(f"cannot read slew rate {shown(text)}; {help_}")
+    raise ValueParseError(
+        f"{shown(text)} is {type_word(text)}, not a slew rate; {help_} (with its unit, in quotes)"
+    )
 
 
 def _sig_decimal(value: float, max_digits: int = 6) -> Decimal:
@@ -383,6 +476,9 @@ def format_si(value: float, unit: str = "", *, digits: int = 3, ascii_micro: boo
 
 __all__ = [
     "VALUE_HELP",
+    "shown",
+    "toml_text",
+    "type_word",
     "format_rkm",
     "format_si",
     "parse_current",

@@ -1,7 +1,8 @@
 """Checks of a saved design document, key by key (the layout is in ``design_file``).
 
-Every error is a DesignError that names the file and the dotted key
-(``candidate.stage[0].position[1].part[0].kind``) and quotes the bad value.
+Every error is a DesignError that names the file, the line (when the file's text is at
+hand) and the dotted key (``candidate.stage[0].position[1].part[0].kind``), and quotes
+the bad value as written (at most about 80 characters).
 """
 
 from __future__ import annotations
@@ -23,11 +24,19 @@ from picker.export.design_file import (
     SavedStage,
 )
 from picker.parts import StageTarget, combine
+from stock.tomlread import KeyLines
+from stock.values import shown, type_word
 
 
-def check_document(doc: dict, *, source: str = "<design>", path=None) -> SavedDesign:
-    """Check a parsed design document (see ``design_file``) and build the SavedDesign."""
-    r = _Reader(source)
+def check_document(
+    doc: dict, *, source: str = "<design>", path=None, lines: KeyLines | None = None
+) -> SavedDesign:
+    """Check a parsed design document (see ``design_file``) and build the SavedDesign.
+
+    ``lines`` (of the file's text) lets each message name the line and quote the value
+    as written there.
+    """
+    r = _Reader(source, lines)
     if "candidate" not in doc and "format" not in doc:
         stock_like = any(k in doc for k in ("resistor", "capacitor", "opamp", "stock"))
         raise DesignError(
@@ -37,8 +46,9 @@ def check_document(doc: dict, *, source: str = "<design>", path=None) -> SavedDe
         )
     fmt = r.get(doc, "format", int, "")
     if fmt != FORMAT:
-        raise DesignError(
-            f"{source}: format: this picker reads design format {FORMAT}, the file says {fmt!r}"
+        raise r.fail(
+            "format",
+            f"this picker reads design format {FORMAT}, the file says {r.shown('format', fmt)}",
         )
     request = r.get(doc, "request", dict, "", default={})
     stock_t = r.get(doc, "stock", dict, "", default={})
@@ -53,13 +63,11 @@ def check_document(doc: dict, *, source: str = "<design>", path=None) -> SavedDe
         opamp = _read_opamp(r, r.get(cand, "opamp", dict, "candidate."))
     stage_list = r.get(cand, "stage", list, "candidate.")
     if not stage_list:
-        raise DesignError(f"{source}: candidate.stage: a design needs at least one stage")
+        raise r.fail("candidate.stage", "a design needs at least one stage")
     stages = tuple(_read_stage(r, st, f"candidate.stage[{i}].") for i, st in enumerate(stage_list))
     counted = sum(len(p.parts) for st in stages for p in st.positions)
     if counted != pieces:
-        raise DesignError(
-            f"{source}: candidate.pieces: says {pieces} but the stages hold {counted} pieces"
-        )
+        raise r.fail("candidate.pieces", f"says {pieces} but the stages hold {counted} pieces")
     seen: dict[tuple, str] = {}
     for i, st in enumerate(stages):
         for pos in st.positions:
@@ -94,7 +102,7 @@ def _read_opamp(r: _Reader, t: dict) -> SavedOpAmp:
     pre = "candidate.opamp."
     gbw = r.number(t, "gbw_hz", pre)
     if not gbw > 0:
-        raise DesignError(f"{r.source}: {pre}gbw_hz: must be above zero, got {gbw!r}")
+        raise r.fail(pre + "gbw_hz", f"must be above zero, got {r.shown(pre + 'gbw_hz', gbw)}")
     return SavedOpAmp(
         index=r.index(t, "index", pre),
         name=r.get(t, "name", str, pre),
@@ -109,7 +117,7 @@ def _read_opamp(r: _Reader, t: dict) -> SavedOpAmp:
 def _read_target(r: _Reader, t: dict, pre: str) -> StageTarget:
     f0 = r.number(t, "f0_hz", pre)
     if not f0 > 0:
-        raise DesignError(f"{r.source}: {pre}f0_hz: must be above zero, got {f0!r}")
+        raise r.fail(pre + "f0_hz", f"must be above zero, got {r.shown(pre + 'f0_hz', f0)}")
     return StageTarget(
         f0_hz=f0, q=r.number(t, "q", pre, default=None), gain=r.number(t, "gain", pre, default=None)
     )
@@ -121,21 +129,23 @@ def _check_topology(r: _Reader, topology: str, names: list[str], pre: str) -> No
 
     topo = REGISTRY.get(topology)
     if topo is None:
-        raise DesignError(
-            f"{r.source}: {pre}topology: {topology!r} is not a circuit this "
-            f"picker knows ({', '.join(sorted(REGISTRY))})"
+        raise r.fail(
+            pre + "topology",
+            f"{r.shown(pre + 'topology', topology)} is not a circuit this "
+            f"picker knows ({', '.join(sorted(REGISTRY))})",
         )
     want = topo.position_names()
     if sorted(names) != sorted(want):
-        raise DesignError(
-            f"{r.source}: {pre}position: {topology} has positions "
-            f"{', '.join(want)}, the file gives {', '.join(names) or 'none'}"
+        raise r.fail(
+            pre + "position",
+            f"{topology} has positions "
+            f"{', '.join(want)}, the file gives {', '.join(names) or 'none'}",
         )
 
 
 def _read_stage(r: _Reader, st, pre: str) -> SavedStage:
     if not isinstance(st, dict):
-        raise DesignError(f"{r.source}: {pre[:-1]}: expected a table")
+        raise r.fail(pre[:-1], "expected a table")
     topology = r.get(st, "topology", str, pre)
     target = _read_target(r, r.get(st, "target", dict, pre), pre + "target.")
     achieved = _read_target(r, r.get(st, "achieved", dict, pre), pre + "achieved.")
@@ -144,38 +154,39 @@ def _read_stage(r: _Reader, st, pre: str) -> SavedStage:
     names = [p.name for p in positions]
     for n in names:
         if names.count(n) > 1:
-            raise DesignError(f"{r.source}: {pre}position: {n!r} appears twice")
+            raise r.fail(pre + "position", f"{shown(n)} appears twice")
     _check_topology(r, topology, names, pre)
     return SavedStage(topology=topology, target=target, achieved=achieved, positions=positions)
 
 
 def _read_position(r: _Reader, p, pre: str) -> SavedPosition:
     if not isinstance(p, dict):
-        raise DesignError(f"{r.source}: {pre[:-1]}: expected a table")
+        raise r.fail(pre[:-1], "expected a table")
     name = r.get(p, "name", str, pre)
     arrangement = r.get(p, "arrangement", str, pre)
     if arrangement == KEPT:
         return _read_kept(r, p, name, pre)
     if arrangement not in ARRANGEMENTS:
-        raise DesignError(
-            f"{r.source}: {pre}arrangement: {arrangement!r} is not one of "
-            + ", ".join(ARRANGEMENTS + (KEPT,))
+        raise r.fail(
+            pre + "arrangement",
+            f"{r.shown(pre + 'arrangement', arrangement)} is not one of "
+            + ", ".join(ARRANGEMENTS + (KEPT,)),
         )
     plist = r.get(p, "part", list, pre)
     parts = tuple(_read_part(r, x, f"{pre}part[{k}].") for k, x in enumerate(plist))
     want = 1 if arrangement == "single" else 2
     if len(parts) != want:
-        raise DesignError(
-            f"{r.source}: {pre}part: a {arrangement} position holds {want} "
-            f"piece(s), found {len(parts)}"
+        raise r.fail(
+            pre + "part", f"a {arrangement} position holds {want} piece(s), found {len(parts)}"
         )
     if len({x.kind for x in parts}) != 1:
-        raise DesignError(f"{r.source}: {pre}part: the pieces of one position differ in kind")
+        raise r.fail(pre + "part", "the pieces of one position differ in kind")
     value = r.number(p, "value", pre)
     combined = combine(parts[0].kind, arrangement, [x.value for x in parts])
     if not math.isclose(value, combined, rel_tol=1e-6):
-        raise DesignError(
-            f"{r.source}: {pre}value: {value!r} does not match its pieces ({combined!r})"
+        raise r.fail(
+            pre + "value",
+            f"{r.shown(pre + 'value', value)} does not match its pieces ({combined!r})",
         )
     return SavedPosition(name=name, arrangement=arrangement, value=value, parts=parts)
 
@@ -183,16 +194,20 @@ def _read_position(r: _Reader, p, pre: str) -> SavedPosition:
 def _read_kept(r: _Reader, p: dict, name: str, pre: str) -> SavedPosition:
     """A position whose part stays in the circuit (a repair): kind and value, no pieces."""
     if p.get("part"):
-        raise DesignError(f"{r.source}: {pre}part: a kept position takes no piece from the stock")
+        raise r.fail(pre + "part", "a kept position takes no piece from the stock")
     kind = r.get(p, "kind", str, pre)
     if kind not in KINDS:
-        raise DesignError(f"{r.source}: {pre}kind: {kind!r} is not resistor or capacitor")
+        raise r.fail(pre + "kind", f"{r.shown(pre + 'kind', kind)} is not resistor or capacitor")
     value = r.number(p, "value", pre)
     if not value > 0:
-        raise DesignError(f"{r.source}: {pre}value: must be a positive number, got {value!r}")
+        raise r.fail(
+            pre + "value", f"must be a positive number, got {r.shown(pre + 'value', value)}"
+        )
     tol = r.number(p, "tolerance", pre, default=None)
     if tol is not None and not 0 <= tol < 1:
-        raise DesignError(f"{r.source}: {pre}tolerance: {tol!r} is not a fraction in [0, 1)")
+        raise r.fail(
+            pre + "tolerance", f"{r.shown(pre + 'tolerance', tol)} is not a fraction in [0, 1)"
+        )
     return SavedPosition(
         name=name, arrangement=KEPT, value=value, parts=(), kept_kind=kind, kept_tolerance=tol
     )
@@ -200,23 +215,26 @@ def _read_kept(r: _Reader, p: dict, name: str, pre: str) -> SavedPosition:
 
 def _read_part(r: _Reader, x, pre: str) -> SavedPart:
     if not isinstance(x, dict):
-        raise DesignError(f"{r.source}: {pre[:-1]}: expected a table")
+        raise r.fail(pre[:-1], "expected a table")
     kind = r.get(x, "kind", str, pre)
     if kind not in KINDS:
-        raise DesignError(f"{r.source}: {pre}kind: {kind!r} is not resistor or capacitor")
+        raise r.fail(pre + "kind", f"{r.shown(pre + 'kind', kind)} is not resistor or capacitor")
     values = {}
     for key in ("nominal", "value"):
         v = r.number(x, key, pre)
         if not (v > 0 and math.isfinite(v)):
-            raise DesignError(f"{r.source}: {pre}{key}: must be a positive number, got {v!r}")
+            raise r.fail(pre + key, f"must be a positive number, got {r.shown(pre + key, v)}")
         values[key] = v
     tol = r.number(x, "tolerance", pre)
     if not 0 <= tol < 1:
-        raise DesignError(f"{r.source}: {pre}tolerance: {tol!r} is not a fraction in [0, 1)")
+        raise r.fail(
+            pre + "tolerance", f"{r.shown(pre + 'tolerance', tol)} is not a fraction in [0, 1)"
+        )
     line_tol = r.number(x, "line_tolerance", pre, default=None)
     if line_tol is not None and not 0 <= line_tol < 1:
-        raise DesignError(
-            f"{r.source}: {pre}line_tolerance: {line_tol!r} is not a fraction in [0, 1)"
+        raise r.fail(
+            pre + "line_tolerance",
+            f"{r.shown(pre + 'line_tolerance', line_tol)} is not a fraction in [0, 1)",
         )
     measured = x.get("measured")
     if measured is not None:
@@ -238,45 +256,72 @@ def _read_part(r: _Reader, x, pre: str) -> SavedPart:
 
 
 _MISSING = object()
+MAX_INDEX = 10_000_000  # no stock file holds more lines (or readings) of one kind
 
 
 class _Reader:
-    """Typed look-ups whose errors name the file and the dotted key."""
+    """Typed look-ups whose errors name the file, the line and the dotted key."""
 
-    def __init__(self, source: str):
+    def __init__(self, source: str, lines: KeyLines | None = None):
         self.source = source
+        self.lines = lines
+
+    def fail(self, dotted: str, msg: str) -> DesignError:
+        """The error for key ``dotted`` (``candidate.stage[0].topology``): file:line: key: msg."""
+        line = self.lines.line_of(dotted) if self.lines is not None else 0
+        where = f"{self.source}:{line}" if line else self.source
+        return DesignError(f"{where}: {dotted}: {msg}")
+
+    def shown(self, dotted: str, value) -> str:
+        """``value`` quoted as written in the file where its line holds it."""
+        if not isinstance(value, str) and self.lines is not None:
+            text = self.lines.written(dotted)
+            if text is not None:
+                return shown(text)
+        return shown(value)
 
     def get(self, table: dict, key: str, typ, prefix: str, default=_MISSING):
         if key not in table:
             if default is _MISSING:
-                raise DesignError(f"{self.source}: {prefix}{key}: missing")
+                raise self.fail(prefix + key, "missing")
             return default
         value = table[key]
         ok = isinstance(value, typ) and not (typ is int and isinstance(value, bool))
         if not ok:
-            raise DesignError(
-                f"{self.source}: {prefix}{key}: expected {_TYPE_WORDS[typ]}, got {value!r}"
+            raise self.fail(
+                prefix + key,
+                f"expected {_TYPE_WORDS[typ]}, got {self.shown(prefix + key, value)} "
+                f"({type_word(value)})",
             )
         return value
 
     def number(self, table: dict, key: str, prefix: str, default=_MISSING):
         if key not in table:
             if default is _MISSING:
-                raise DesignError(f"{self.source}: {prefix}{key}: missing")
+                raise self.fail(prefix + key, "missing")
             return default
         value = table[key]
-        if (
-            isinstance(value, bool)
-            or not isinstance(value, (int, float))
-            or not math.isfinite(value)
-        ):
-            raise DesignError(f"{self.source}: {prefix}{key}: expected a number, got {value!r}")
-        return float(value)
+        x = None
+        if isinstance(value, (int, float)) and not isinstance(value, bool):
+            try:
+                x = float(value)
+            except OverflowError:  # an integer past float range
+                x = None
+        if x is None or not math.isfinite(x):
+            raise self.fail(
+                prefix + key,
+                f"expected a finite number, got {self.shown(prefix + key, value)} "
+                f"({type_word(value)})",
+            )
+        return x
 
     def index(self, table: dict, key: str, prefix: str) -> int:
         value = self.get(table, key, int, prefix)
-        if value < 0:
-            raise DesignError(f"{self.source}: {prefix}{key}: must be 0 or more, got {value}")
+        if not 0 <= value <= MAX_INDEX:
+            raise self.fail(
+                prefix + key,
+                f"must be 0 .. {MAX_INDEX:,}, got {self.shown(prefix + key, value)}",
+            )
         return value
 
 

@@ -73,13 +73,11 @@ when the design is built, so a reordered stock file is caught (picker.building).
 
 from __future__ import annotations
 
-import contextlib
 import dataclasses
 import math
 import os
-import tempfile
+import stat
 import time
-import tomllib
 from collections.abc import Mapping
 from dataclasses import dataclass
 from pathlib import Path
@@ -89,7 +87,10 @@ import tomli_w
 
 from picker.errors import DesignError
 from picker.parts import Candidate, StageTarget
-from stock.durable import sync_folder
+from stock import durable, tomlread
+from stock.durable import describe_os_error, kind_of, read_bounded, why_not_read
+from stock.errors import StockFileError
+from stock.load import decode
 
 FORMAT = 1
 KINDS = ("resistor", "capacitor")
@@ -201,12 +202,22 @@ def save_design(path, *, candidate: Candidate, request: dict, stock) -> None:
 
 
 def check_save_target(path: Path, stock) -> None:
-    """Refuse to replace a folder, the stock file or any file that is not a saved design."""
+    """Refuse to replace a folder, a FIFO or device, the stock file or any file that is not
+    a saved design. Nothing is read without bound: the old file goes through
+    ``stock.durable.read_bounded``."""
     hint = "pick another name, e.g. d.toml; nothing was written"
-    if path.is_dir():
-        raise DesignError(f"{path}: is a folder, not a file name; {hint}")
-    if not path.exists():
+    path = Path(path)
+    try:
+        st = os.stat(path)
+    except FileNotFoundError:
         return
+    except OSError as exc:
+        raise DesignError(f"{path}: cannot check it: {describe_os_error(exc)}; {hint}") from None
+    if stat.S_ISDIR(st.st_mode):
+        raise DesignError(f"{path}: is a folder, not a file name; {hint}")
+    why = kind_of(st.st_mode)
+    if why is not None:
+        raise DesignError(f"{path}: {why}; {hint}")
     stock_path = getattr(stock, "path", None)
     try:
         same = stock_path is not None and path.samefile(stock_path)
@@ -218,8 +229,8 @@ def check_save_target(path: Path, stock) -> None:
             f"would replace your stock; {hint}"
         )
     try:
-        old = tomllib.loads(path.read_bytes().decode("utf-8"))
-    except (OSError, UnicodeDecodeError, tomllib.TOMLDecodeError):
+        old = tomlread.parse(decode(read_bounded(path), str(path)))
+    except (OSError, StockFileError, tomlread.TomlProblem):
         old = None
     if not (isinstance(old, dict) and "candidate" in old and "format" in old):
         raise DesignError(
@@ -344,63 +355,53 @@ def _plain(value):
 
 
 def write_atomic(path: Path, data: bytes) -> None:
-    """Write ``data`` to ``path`` through a temporary file in the same folder, fsync, rename."""
-    folder = path.parent if str(path.parent) else Path(".")
+    """Write ``data`` to ``path`` whole (``stock.durable.write_atomic``); DesignError if not."""
     try:
-        mode = path.stat().st_mode & 0o7777
-    except FileNotFoundError:
-        umask = os.umask(0)
-        os.umask(umask)
-        mode = 0o666 & ~umask
-    try:
-        fd, tmp = tempfile.mkstemp(dir=folder, prefix=f".{path.name}.", suffix=".tmp")
+        durable.write_atomic(Path(path), data)
     except OSError as exc:
-        raise DesignError(f"{path}: cannot write the design: {exc.strerror or exc}") from exc
-    try:
-        with os.fdopen(fd, "wb") as fh:
-            fh.write(data)
-            fh.flush()
-            os.fsync(fh.fileno())
-        os.chmod(tmp, mode)
-        os.replace(tmp, path)
-    except BaseException as exc:
-        with contextlib.suppress(FileNotFoundError):
-            os.unlink(tmp)
-        if isinstance(exc, OSError):
-            raise DesignError(f"{path}: cannot write the design: {exc.strerror or exc}") from exc
-        raise
-    sync_folder(folder)
+        raise DesignError(f"{path}: cannot write the design: {describe_os_error(exc)}") from exc
 
 
 # --------------------------------------------------------------------------- loading
 
 
 def load_design(path) -> SavedDesign:
-    """Read and check a saved design; raise DesignError naming the file and the key."""
+    """Read and check a saved design; raise DesignError naming the file, line and key.
+
+    A path that is a folder, a FIFO, a device or a file over 50 MB is refused at once
+    (``stock.durable.read_bounded``); TOML that is hostile (nesting thousands deep,
+    numbers past Python's digit limit, bare CR line ends) is a located DesignError
+    (``stock.tomlread``).
+    """
     path = Path(path)
     try:
-        raw = path.read_bytes()
+        raw = read_bounded(path)
     except OSError as exc:
-        raise DesignError(f"{path}: cannot read the design file: {exc.strerror or exc}") from exc
+        raise DesignError(f"{path}: {why_not_read(exc, 'design file')}") from None
     try:
-        text = raw.decode("utf-8")
-    except UnicodeDecodeError as exc:
-        raise DesignError(f"{path}: not UTF-8 text (byte {exc.start})") from exc
+        text = decode(raw, str(path))
+    except StockFileError as exc:
+        raise DesignError(str(exc)) from None
     try:
-        doc = tomllib.loads(text)
-    except tomllib.TOMLDecodeError as exc:
-        raise DesignError(f"{path}: not a valid TOML file: {exc}") from exc
-    return design_from_document(doc, source=str(path), path=path)
+        doc = tomlread.parse(text)
+    except tomlread.TomlProblem as exc:
+        where = f"{path}:{exc.line}" if exc.line else str(path)
+        raise DesignError(f"{where}: {exc.message}") from None
+    return design_from_document(doc, source=str(path), path=path, text=text)
 
 
-def design_from_document(doc: dict, *, source: str = "<design>", path=None) -> SavedDesign:
+def design_from_document(
+    doc: dict, *, source: str = "<design>", path=None, text: str | None = None
+) -> SavedDesign:
     """Check a parsed design document and build the frozen SavedDesign.
 
-    Raises DesignError naming ``source`` and the dotted key (``picker.export.design_check``).
+    Raises DesignError naming ``source``, the line (when ``text``, the file's text, is
+    given) and the dotted key (``picker.export.design_check``).
     """
     from picker.export.design_check import check_document
 
-    return check_document(doc, source=source, path=path)
+    lines = None if text is None else tomlread.KeyLines(text)
+    return check_document(doc, source=source, path=path, lines=lines)
 
 
 def design_from_candidate(*, candidate: Candidate, request: dict, stock) -> SavedDesign:

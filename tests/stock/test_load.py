@@ -1,6 +1,7 @@
 """Loading format 1 (DESIGN.md section 3): every error and warning names file, line and key."""
 
 import hashlib
+import os
 from pathlib import Path
 
 import pytest
@@ -191,18 +192,20 @@ def test_missing_file(tmp_path):
 
 
 def test_folder_and_unreadable_file(tmp_path, monkeypatch):
-    with pytest.raises(
-        StockFileError, match=f"{tmp_path}: cannot read the stock file: Is a directory"
-    ):
+    with pytest.raises(StockFileError, match=f"{tmp_path}: is a folder, not a file"):
         load(tmp_path)
     p = tmp_path / "locked.toml"
     p.write_text('[[resistor]]\nvalue = "1k"\nqty = 1\n', encoding="utf-8")
 
-    def denied(self):
-        raise PermissionError(13, "Permission denied", str(self))
+    real_open = os.open
+
+    def denied(path, flags, *args):
+        if str(path).endswith("locked.toml"):
+            raise PermissionError(13, "Permission denied", str(path))
+        return real_open(path, flags, *args)
 
     # root reads a mode-000 file anyway, so the refusal of the OS is simulated
-    monkeypatch.setattr(Path, "read_bytes", denied)
+    monkeypatch.setattr(os, "open", denied)
     with pytest.raises(
         StockFileError, match="locked.toml: cannot read the stock file: Permission denied"
     ):

@@ -110,15 +110,15 @@ def _edit(path, old, new):
         ("pieces = 5", "pieces = 4", "candidate.pieces: says 4 but the stages hold 5"),
         ("pieces = 5", 'pieces = "five"', "candidate.pieces: expected a whole number, got 'five'"),
         ("format = 1", "format = 7", "format: this picker reads design format 1"),
-        ("value = 7970.0", "value = 8000.0", "candidate.stage[0].position[0].value: 8000.0"),
-        ("tolerance = 0.05", "tolerance = 5.0", "part[1].tolerance: 5.0 is not a fraction"),
+        ("value = 7970.0", "value = 8000.0", "candidate.stage[0].position[0].value: '8000.0' does not match"),
+        ("tolerance = 0.05", "tolerance = 5.0", "part[1].tolerance: '5.0' is not a fraction"),
         ('topology = "inverting-lowpass"\n', "\n", "candidate.stage[0].topology: missing"),
         (
             "[candidate.stage.target]\nf0_hz = 1000.0",
             "[candidate.stage.target]\nf0_hz = -1.0",
             "candidate.stage[0].target.f0_hz: must be above zero",
         ),
-        ("measured = 0", "measured = -1", "part[1].measured: must be 0 or more"),
+        ("measured = 0", "measured = -1", "part[1].measured: must be 0 .. 10,000,000, got '-1'"),
         # a circuit picker does not know could be built and billed but never checked
         (
             'topology = "inverting-lowpass"',
@@ -163,10 +163,10 @@ def test_same_measured_piece_twice_refused(tmp_path):
 def test_not_toml_not_utf8_missing(tmp_path):
     bad = tmp_path / "bad.toml"
     bad.write_text("format = = 1\n", encoding="utf-8")
-    with pytest.raises(DesignError, match="bad.toml: not a valid TOML file"):
+    with pytest.raises(DesignError, match="bad.toml:1: TOML syntax: Invalid value"):
         load_design(bad)
     bad.write_bytes(b"format = 1\n\xff\n")
-    with pytest.raises(DesignError, match="bad.toml: not UTF-8"):
+    with pytest.raises(DesignError, match="bad.toml:2: not UTF-8"):
         load_design(bad)
     with pytest.raises(DesignError, match="nothere.toml: cannot read"):
         load_design(tmp_path / "nothere.toml")
