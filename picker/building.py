@@ -1,4 +1,7 @@
-"""Build a saved design from the stock, and undo the last build (DESIGN.md sections 3, 9).
+"""Build a saved design from the stock, and undo the last build (docs/outputs.md).
+
+The plan lives here; the writing (``do_build``, ``undo_preview``, ``undo_last``,
+``settle``) in ``picker.build_write``, re-exported below.
 
 Shared by the CLI (``picker build``, ``picker undo``) and the terminal UI.
 
@@ -11,20 +14,20 @@ makes the changes with the safe edit of ``stock.file`` and records the build in
 only while the file is exactly as that build left it.
 
 A build takes the design's resistor and capacitor pieces and its op-amp packages (one
-channel per stage, ``ceil(stages / channels)`` packages), so the stock count stays right.
+channel per stage, ``ceil(stages / channels)`` packages, channels from the stock line, not
+the design file), so the stock count stays right. What holds when a build or an undo is
+stopped or fails part way is in docs/reliability.md.
 """
 
 from __future__ import annotations
 
-import hashlib
 import math
 from dataclasses import dataclass
 from pathlib import Path
 
 from picker.errors import NoDesignError
-from picker.export import SavedDesign, opamp_packages, pick_count, pick_list
+from picker.export import SavedDesign, pick_count, pick_list
 from picker.export.bom import designator
-from stock import ledger
 from stock.errors import StockEditError
 
 VOLTAGE_MARGIN = 1.5  # capacitor rating at least 1.5x the supply (common practice derating)
@@ -100,7 +103,8 @@ def plan_build(design: SavedDesign, stock) -> BuildPlan:
     if design.opamp is not None:
         line = _same_opamp(src, design.opamp, stock, problems)
         if line is not None:
-            need = opamp_packages(design)
+            # the stock line says how many op amps a package holds; a design file could lie
+            need = math.ceil(len(design.stages) / max(1, line.channels))
             if need > line.qty:
                 short.append(
                     f"op amp line {line.index} ({line.name!r}) (file line "
@@ -250,86 +254,21 @@ def _cautions(kind: str, line, names: list[str], design: SavedDesign) -> list[st
     return out
 
 
-def _sha(data: bytes) -> str:
-    return hashlib.sha256(data).hexdigest()
+from picker.build_write import (  # noqa: E402  (the plan above is what they take)
+    UndoPreview,
+    do_build,
+    settle,
+    undo_last,
+    undo_preview,
+)
 
-
-def do_build(stock_path, plan: BuildPlan, *, expect_sha256=None):
-    """Take the plan's pieces out of the stock file and record the build for undo.
-
-    ``expect_sha256`` defaults to the sha256 of the stock the plan was checked against:
-    a file changed since then is refused (StockEditError, nothing changed).
-    Returns the ``stock.file.EditResult``.
-    """
-    from stock.file import apply_changes
-
-    path = Path(stock_path)
-    try:
-        before = path.read_bytes()
-    except OSError as exc:
-        raise StockEditError(f"{path}: cannot read the stock file: {exc.strerror or exc}") from exc
-    sha = _sha(before)
-    want = expect_sha256 if expect_sha256 is not None else plan.stock_sha256
-    if want is not None and sha != want:
-        raise StockEditError(
-            f"{path}: the stock file changed since the build was checked; "
-            f"nothing was changed; run the build again"
-        )
-    record = ledger.begin(path, before, design=plan.design_path, summary=plan.summary)
-    try:
-        result = apply_changes(path, list(plan.changes), expect_sha256=sha)
-    except BaseException:
-        ledger.discard(record)
-        raise
-    ledger.finish(record, result.after_sha256)
-    return result
-
-
-def undo_preview(stock_path) -> ledger.BuildRecord:
-    """The build ``undo_last`` would undo, checked; raises StockEditError if it cannot."""
-    path = Path(stock_path)
-    if not path.is_file():
-        why = "is a directory" if path.is_dir() else "does not exist"
-        raise StockEditError(
-            f"{path}: {why}; name the stock file the build changed, e.g. --stock inventory.toml"
-        )
-    while True:
-        record = ledger.last_build(path)
-        if record is None:
-            raise StockEditError(
-                f"{path}: no build to undo (no records in {ledger.ledger_dir(path)})"
-            )
-        try:
-            current = _sha(path.read_bytes())
-        except OSError as exc:
-            raise StockEditError(
-                f"{path}: cannot read the stock file: {exc.strerror or exc}"
-            ) from exc
-        if record.state == "pending":
-            if current == record.sha256_before:
-                ledger.discard(record)  # the build never reached the file
-                continue
-            raise StockEditError(
-                f"{path}: build {record.number} ({record.time}) was interrupted and the file "
-                f"has changed since; undo will not guess. The file as it was before that build "
-                f"is kept in {record.before_path}: compare it and copy it back by hand if right"
-            )
-        if current != record.sha256_after:
-            raise StockEditError(
-                f"{path}: the stock file changed since build {record.number} ({record.time}); "
-                f"undo restores only a file exactly as the build left it, so nothing was "
-                f"changed. The file as it was before that build is kept in "
-                f"{record.before_path}; redo your later edits by hand, or copy it back"
-            )
-        return record
-
-
-def undo_last(stock_path):
-    """Put back the stock file's bytes from before the last build; returns the EditResult."""
-    from stock.file import replace_bytes
-
-    record = undo_preview(stock_path)
-    data = ledger.before_bytes(record)
-    result = replace_bytes(Path(stock_path), data, expect_sha256=record.sha256_after)
-    ledger.mark_undone(record)
-    return result
+__all__ = [
+    "SAFETY_NOTE",
+    "BuildPlan",
+    "UndoPreview",
+    "do_build",
+    "plan_build",
+    "settle",
+    "undo_last",
+    "undo_preview",
+]

@@ -140,6 +140,32 @@ def _write_atomic(real: Path, data: bytes, fd: int, st: os.stat_result) -> None:
 BeforeReplace = Callable[[bytes, bytes], None]
 
 
+SAMPLE_NAME = "sample_inventory.toml"
+
+
+def is_sample(path) -> bool:
+    """The sample stock shipped with picker: the package's copy (``picker/data/``) or the
+    one at the root of a picker source tree (beside ``picker/data/``). Never written."""
+    try:
+        real = Path(os.path.realpath(path))
+    except (OSError, ValueError):
+        return False
+    if real.name != SAMPLE_NAME:
+        return False
+    if real.parent.name == "data" and real.parent.parent.name == "picker":
+        return True
+    return (real.parent / "picker" / "data" / SAMPLE_NAME).is_file()
+
+
+def refuse_sample(path) -> None:
+    """StockEditError for the sample stock (``is_sample``), which no command changes."""
+    if is_sample(path):
+        raise StockEditError(
+            f"{path}: is picker's sample stock, which picker never changes; copy it "
+            "(cp sample_inventory.toml inventory.toml) and use the copy"
+        )
+
+
 def _edit(path, transform, expect_sha256: str | None, before_replace=None) -> EditResult:
     """Lock, read, ``transform``, write atomically.
 
@@ -148,6 +174,7 @@ def _edit(path, transform, expect_sha256: str | None, before_replace=None) -> Ed
     record is durable before the stock file changes); if it raises, nothing is written.
     An error after the rename (the folder fsync) raises ``WrittenButUnsynced``.
     """
+    refuse_sample(path)
     with locked(path) as (fd, real, st):
         before = read_fd(fd, name=str(path))
         before_sha = _sha(before)
@@ -416,6 +443,8 @@ __all__ = [
     "WrittenButUnsynced",
     "add_line",
     "apply_changes",
+    "is_sample",
     "locked",
+    "refuse_sample",
     "replace_bytes",
 ]

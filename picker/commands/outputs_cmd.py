@@ -2,8 +2,11 @@
 
     picker bom DESIGN.toml [--csv]              parts list and pick list by drawer
     picker netlist DESIGN.toml                  SPICE text for ngspice
-    picker build DESIGN.toml --stock FILE [--yes]
+    picker build DESIGN.toml --stock FILE [--yes] [--again]
     picker undo --stock FILE [--yes]
+
+Exit 3 from build or undo: the stock file was changed but the command could not finish
+(docs/reliability.md); the message says what was done and how to undo it.
 
 Heavy imports (rich, the export package) happen inside ``run`` functions.
 """
@@ -56,9 +59,16 @@ def register(subparsers) -> None:
         "--stock",
         metavar="FILE",
         default=argparse.SUPPRESS,
-        help="stock file to take from (default: the one the design was saved from)",
+        help="stock file to take from (without it picker names the file the design was "
+        "saved from and asks; with --yes it is needed)",
     )
     p.add_argument("--yes", action="store_true", help="do not ask for confirmation")
+    p.add_argument(
+        "--again",
+        action="store_true",
+        help="build the same design a second time onto the stock as its last build left it "
+        "(otherwise read as a retry and refused, so parts are never taken twice)",
+    )
     p.set_defaults(run=run_build)
 
     p = subparsers.add_parser(
@@ -194,15 +204,24 @@ def run_build(args) -> int:
     from picker.building import do_build, plan_build
     from picker.errors import DesignError
     from picker.export import load_design
+    from stock.errors import PartlyDoneError
     from stock.file import load
 
     design = load_design(args.design)
     stock_arg = getattr(args, "stock", None)
     if stock_arg is None:
+        # the design file never chooses what gets written: name the file, and ask
         if design.stock_path is None:
             raise DesignError(f"{args.design}: the design names no stock file; pass --stock FILE")
         stock_path = design.stock_path
-        _err(f"note: taking from {stock_path}, the stock the design was saved from")
+        if args.yes or not _interactive():
+            raise DesignError(
+                f"{args.design} was saved from {stock_path}; name the stock file to take "
+                f"from: picker build {args.design} --stock {stock_path}"
+            )
+        if not _ask(f"The design was saved from {stock_path}. Take the parts from that file?"):
+            print("Nothing taken; no stock file was changed.")
+            return 0
     else:
         stock_path = Path(stock_arg)
     _refuse_sample(stock_path)
@@ -218,10 +237,15 @@ def run_build(args) -> int:
         if not _interactive():
             _err("not a terminal: pass --yes to take the parts without asking")
             return 2
-        if not _ask(f"Take these {plan.count} parts from the stock?"):
+        if not _ask(f"Take these {plan.count} parts from {stock_path}?"):
             console.print("Nothing taken; the stock file is unchanged.")
             return 0
-    result = do_build(stock_path, plan)
+    try:
+        result = do_build(stock_path, plan, again=bool(getattr(args, "again", False)))
+    except PartlyDoneError as exc:
+        for line in str(exc).splitlines():
+            _err(line)
+        return exc.exit_code
     console.print(f"Took {plan.count} parts; {result.path} updated.")
     for line in plan.summary:
         console.print(f"  {line}")
@@ -243,13 +267,30 @@ def _refuse_sample(stock_path) -> None:
 def run_undo(args) -> int:
     from picker.building import undo_last, undo_preview
     from picker.commands.common import resolve_stock_path
+    from stock.errors import PartlyDoneError
 
     stock_path, note = resolve_stock_path(getattr(args, "stock", None))
     _refuse_sample(stock_path)
     if note:
         _err(f"note: {note}")
-    record = undo_preview(stock_path)
+    preview = undo_preview(stock_path)
+    for line in preview.notes:
+        _err(f"note: {line}")
+    record = preview.record
     console = _console()
+    if preview.already_undone:
+        try:
+            undo_last(stock_path)  # only records it: the file is as it was already
+        except PartlyDoneError as exc:
+            for line in str(exc).splitlines():
+                _err(line)
+            return exc.exit_code
+        console.print(
+            f"Build {record.number} ({record.time}) was undone already: {stock_path} is as it "
+            "was before it (an undo had been stopped before it could record that). "
+            "Recorded it as undone; nothing else changed."
+        )
+        return 0
     console.print(
         f"Last build on {stock_path}: number {record.number}, {record.time}"
         + (f", design {record.design}" if record.design else "")
@@ -263,6 +304,11 @@ def run_undo(args) -> int:
         if not _ask(f"Put {stock_path} back as it was before build {record.number}?"):
             console.print("Nothing changed.")
             return 0
-    undo_last(stock_path)
+    try:
+        undo_last(stock_path)
+    except PartlyDoneError as exc:
+        for line in str(exc).splitlines():
+            _err(line)
+        return exc.exit_code
     console.print(f"Restored {stock_path} as it was before build {record.number}.")
     return 0

@@ -81,7 +81,9 @@ def test_tampered_copy_is_refused(stock_path):
 def test_unreadable_record_named(stock_path):
     rec = ledger.begin(stock_path, BEFORE)
     rec.path.write_text("state = = 1\n", encoding="utf-8")
-    with pytest.raises(StockEditError, match="build-0001.toml: unreadable build record"):
+    with pytest.raises(
+        StockEditError, match="build-0001.toml:1: unreadable build record: TOML syntax"
+    ):
         ledger.records(stock_path)
 
 

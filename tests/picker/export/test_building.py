@@ -121,7 +121,7 @@ def test_hand_edited_design_blamed_not_the_stock(tmp_path, stock_file):
 
 def test_undo_of_a_folder_or_missing_file_says_so(tmp_path, capsys):
     assert main(["undo", "--stock", str(tmp_path), "--yes"]) == 2
-    assert f"{tmp_path}: is a directory; name the stock file" in capsys.readouterr().err
+    assert f"{tmp_path}: is a folder, not a file; name the stock file" in capsys.readouterr().err
     assert main(["undo", "--stock", str(tmp_path / "gone.toml"), "--yes"]) == 2
     assert "gone.toml: does not exist" in capsys.readouterr().err
     assert list(tmp_path.iterdir()) == []  # no ledger folder made
@@ -271,10 +271,36 @@ def test_cli_bom_csv_and_netlist(tmp_path, stock_file, capsys):
     assert ": 2 stages, " in capsys.readouterr().out
 
 
-def test_cli_build_defaults_to_the_design_stock(tmp_path, stock_file, capsys):
+def test_cli_build_never_lets_the_design_file_choose_the_stock(tmp_path, stock_file, capsys):
     _design(tmp_path, stock_file)
-    assert main(["build", str(tmp_path / "design.toml"), "--yes"]) == 0
-    assert f"taking from {stock_file.resolve()}" in capsys.readouterr().err
+    before = stock_file.read_bytes()
+    # with --yes (or without a terminal) the stock must be named; the message names it
+    assert main(["build", str(tmp_path / "design.toml"), "--yes"]) == 2
+    err = capsys.readouterr().err
+    assert f"was saved from {stock_file.resolve()}; name the stock file" in err
+    assert f"--stock {stock_file.resolve()}" in err
+    assert stock_file.read_bytes() == before
+    assert not ledger.ledger_dir(stock_file).exists()
+
+
+def test_cli_build_asks_naming_the_design_stock(tmp_path, stock_file, capsys, monkeypatch):
+    from picker.commands import outputs_cmd
+
+    _design(tmp_path, stock_file)
+    asked = []
+
+    def answer(question):
+        asked.append(question)
+        return "n" if len(asked) == 1 else "y"
+
+    monkeypatch.setattr(outputs_cmd, "_interactive", lambda: True)
+    monkeypatch.setattr("builtins.input", answer)
+    before = stock_file.read_bytes()
+    assert main(["build", str(tmp_path / "design.toml")]) == 0  # "n": nothing taken
+    assert f"saved from {stock_file.resolve()}. Take the parts from that file?" in asked[0]
+    assert stock_file.read_bytes() == before
+    assert main(["build", str(tmp_path / "design.toml")]) == 0  # "y" to the file, then parts
+    assert f"parts from {stock_file.resolve()}?" in asked[2]
     assert load(stock_file).resistors[2].qty == 2
 
 
@@ -308,7 +334,8 @@ def test_two_builds_undone_in_turn(tmp_path, stock_file):
     design = _design(tmp_path, stock_file, _no_measured)
     do_build(stock_file, plan_build(design, load(stock_file)))
     middle = stock_file.read_bytes()
-    do_build(stock_file, plan_build(design, load(stock_file)))
+    # the same design onto the file as its last build left it reads as a retry: say "again"
+    do_build(stock_file, plan_build(design, load(stock_file)), again=True)
     assert load(stock_file).resistors[2].qty == 3 - 2
     assert [r.number for r in ledger.records(stock_file)] == [1, 2]
     undo_last(stock_file)

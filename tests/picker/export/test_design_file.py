@@ -110,7 +110,11 @@ def _edit(path, old, new):
         ("pieces = 5", "pieces = 4", "candidate.pieces: says 4 but the stages hold 5"),
         ("pieces = 5", 'pieces = "five"', "candidate.pieces: expected a whole number, got 'five'"),
         ("format = 1", "format = 7", "format: this picker reads design format 1"),
-        ("value = 7970.0", "value = 8000.0", "candidate.stage[0].position[0].value: '8000.0' does not match"),
+        (
+            "value = 7970.0",
+            "value = 8000.0",
+            "candidate.stage[0].position[0].value: '8000.0' does not match",
+        ),
         ("tolerance = 0.05", "tolerance = 5.0", "part[1].tolerance: '5.0' is not a fraction"),
         ('topology = "inverting-lowpass"\n', "\n", "candidate.stage[0].topology: missing"),
         (
