@@ -22,7 +22,7 @@ from stock.durable import kind_of, read_bounded, why_not_read
 from stock.errors import PartlyDoneError, StockEditError
 
 if TYPE_CHECKING:
-    from picker.building import BuildPlan
+    from picker.building import BuildPlan  # noqa: F401  (annotations)
 
 
 def _sha(data: bytes) -> str:
@@ -119,7 +119,7 @@ def do_build(stock_path, plan: BuildPlan, *, expect_sha256=None, again: bool = F
             )
         design_sha = _design_sha(plan.design_path)
         if not again:
-            _refuse_retry(path, plan, sha, design_sha)
+            _refuse_retry(path, plan.design_path, sha, design_sha)
         made: list = []
 
         def record_it(old: bytes, new: bytes) -> None:
@@ -170,20 +170,35 @@ def _finish_or_say(path: Path, record, after_sha: str, why: str | None) -> None:
         ) from None
 
 
-def _refuse_retry(path: Path, plan: BuildPlan, sha: str, design_sha: str | None) -> None:
-    if plan.design_path is None or design_sha is None:
+def before_build(stock_path, design_path, *, again: bool = False) -> list[str]:
+    """Before a build is planned: settle a stopped build and refuse a retry (unless
+    ``again``), so the message says "already built" rather than that the stock no longer
+    holds the parts. Returns the notes of ``settle``."""
+    path = Path(stock_path)
+    if not ledger.ledger_dir(path).is_dir():
+        return []
+    with ledger.locked(path):
+        sha = _sha(_read(path))
+        notes = settle(path, sha)
+        if not again:
+            _refuse_retry(path, design_path, sha, _design_sha(design_path))
+    return notes
+
+
+def _refuse_retry(path: Path, design_path, sha: str, design_sha: str | None) -> None:
+    if design_path is None or design_sha is None:
         return
     last = ledger.last_build(path)
     if (
         last is not None
         and last.state == "done"
         and last.sha256_after == sha
-        and last.design == str(Path(plan.design_path).resolve())
+        and last.design == str(Path(design_path).resolve())
         and last.design_sha256 == design_sha
     ):
         raise StockEditError(
             f"{path}: build {last.number} ({last.time}) already took the parts of "
-            f"{plan.design_path}, and the stock file is exactly as it left it: nothing was "
+            f"{design_path}, and the stock file is exactly as it left it: nothing was "
             "taken again. To build the design a second time, add --again; to put the "
             f"parts back, picker undo --stock {path}"
         )

@@ -256,6 +256,7 @@ def _cautions(kind: str, line, names: list[str], design: SavedDesign) -> list[st
 
 from picker.build_write import (  # noqa: E402  (the plan above is what they take)
     UndoPreview,
+    before_build,
     do_build,
     settle,
     undo_last,
@@ -266,6 +267,7 @@ __all__ = [
     "SAFETY_NOTE",
     "BuildPlan",
     "UndoPreview",
+    "before_build",
     "do_build",
     "plan_build",
     "settle",

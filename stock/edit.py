@@ -42,7 +42,7 @@ from stock.durable import (
     sync_folder,
     write_temp,
 )
-from stock.errors import StockEditError, StockFileError
+from stock.errors import PartlyDoneError, StockEditError, StockFileError
 from stock.fields import MAX_COUNT
 from stock.load import KINDS, LineMap, loads
 from stock.values import format_rkm
@@ -54,7 +54,7 @@ class StockChangedError(StockEditError):
     """The file's sha256 is not the one expected: someone changed it since it was read."""
 
 
-class WrittenButUnsynced(StockEditError):
+class WrittenButUnsynced(PartlyDoneError):
     """The new file is in place but the folder fsync failed: it may not survive a crash."""
 
     def __init__(self, message: str, *, after_sha256: str):

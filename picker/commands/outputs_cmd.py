@@ -201,7 +201,7 @@ def run_netlist(args) -> int:
 
 
 def run_build(args) -> int:
-    from picker.building import do_build, plan_build
+    from picker.building import before_build, do_build, plan_build
     from picker.errors import DesignError
     from picker.export import load_design
     from stock.errors import PartlyDoneError
@@ -225,6 +225,9 @@ def run_build(args) -> int:
     else:
         stock_path = Path(stock_arg)
     _refuse_sample(stock_path)
+    again = bool(getattr(args, "again", False))
+    for line in before_build(stock_path, design.path, again=again):
+        _err(f"note: {line}")
     stock = load(stock_path)
     plan = plan_build(design, stock)
     console = _console()
@@ -241,7 +244,7 @@ def run_build(args) -> int:
             console.print("Nothing taken; the stock file is unchanged.")
             return 0
     try:
-        result = do_build(stock_path, plan, again=bool(getattr(args, "again", False)))
+        result = do_build(stock_path, plan, again=again)
     except PartlyDoneError as exc:
         for line in str(exc).splitlines():
             _err(line)

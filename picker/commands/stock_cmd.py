@@ -234,7 +234,7 @@ def _detail(item) -> str:
 
 def run_adjust(args) -> int:
     from picker.commands.common import is_bundled_sample
-    from stock.errors import StockEditError
+    from stock.errors import PartlyDoneError, StockEditError
     from stock.file import QtyChange, StockChangedError, apply_changes, load
 
     path, _note = _stock_path(args, positional=False)
@@ -260,6 +260,10 @@ def run_adjust(args) -> int:
             if attempt == ADJUST_ATTEMPTS - 1:
                 raise
             continue
+        except PartlyDoneError as exc:  # written, but the folder could not be synced
+            print(f"picker: {exc}", file=sys.stderr)
+            print(f"{_describe(item)}: qty {item.qty} -> {new_qty}")
+            return exc.exit_code
         print(f"{_describe(item)}: qty {item.qty} -> {new_qty}")
         return 0
     return 2  # not reached
