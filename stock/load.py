@@ -279,7 +279,7 @@ def _check_stock_table(table, src, lines: LineMap, errors, warnings) -> str | No
 
 def _written(lines: LineMap, key: str, raw) -> str:
     """A [stock] value quoted as written in the file where its line is known."""
-    text = None if isinstance(raw, str) else lines.written(lines.stock_keys.get(key, 0))
+    text = None if isinstance(raw, str) else lines.written(lines.stock_keys.get(key) or 0)
     return V.shown(raw if text is None else text)
 
 

@@ -248,9 +248,9 @@ class KeyLines:
                     in_multi = None
                 continue
             head = _AOT_RE.match(raw)
-            table = None if head else _TABLE_RE.match(raw)
-            if head or table:
-                parts = split_key((head or table)[1])
+            found = head or _TABLE_RE.match(raw)
+            if found:
+                parts = split_key(found[1])
                 path = self._resolve(parts[:-1] if head else parts, aot)
                 if head:
                     arr = path + (parts[-1],)
