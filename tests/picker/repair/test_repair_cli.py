@@ -159,7 +159,8 @@ def test_saved_repair_goes_through_bom_netlist_build_and_undo(capsys, bench, tmp
     want = doc["candidate"]["stage"][0]["target"]["f0_hz"]
     assert json.loads(out)["stages"][0]["f0_hz"] == pytest.approx(want, rel=1e-12)
 
-    code, out, err = run(capsys, "build", "fix.toml", "--yes")
+    # a design file never chooses what gets written: with --yes the stock is named
+    code, out, err = run(capsys, "build", "fix.toml", "--yes", "--stock", str(bench))
     assert code == 0, err
     after = bench.read_text(encoding="utf-8")
     line = taken[0]["line"]
