@@ -49,6 +49,7 @@ _NUM = r"(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE][+-]?[0-9]+)?"
 _PREFIX = r"(?:[mM][eE][gG]|[fpnuµμmkKMGT])"
 _OHM = r"(?:Ω|Ω|[oO][hH][mM][sS]?|R)"
 _RKM_LETTER = r"[RFfpnuµμmkKMGT]"
+_RKM_PREFIX = r"[fpnuµμmkKMGT]"  # RKM letters that are SI prefixes (not the R or F unit)
 
 _SI_RE = re.compile(
     rf"^(?P<sign>[+-]?)(?P<num>{_NUM})\s*(?P<prefix>{_PREFIX})?"
@@ -298,11 +299,16 @@ def _parse_with_unit(text, unit_re: str, what: str, example: str, *, bare_ok: bo
         if s.startswith(pm):
             s = s[len(pm) :].strip()
     m = re.fullmatch(rf"([+-]?)({_NUM})\s*({_PREFIX})?\s*({unit_re})?", s)
-    if not m:
-        raise ValueParseError(f"cannot read {what} {shown(text)}; {help_}")
-    if not m[4] and not bare_ok:
+    if m:
+        sign, digits, exp, unit = m[1], m[2], _prefix_exp(m[3]), m[4]
+    else:  # RKM style, the prefix letter as the decimal point: 1k5 = 1.5 k (IEC 60062)
+        m = re.fullmatch(rf"([+-]?)([0-9]*)({_RKM_PREFIX})([0-9]+)\s*({unit_re})?", s)
+        if not m:
+            raise ValueParseError(f"cannot read {what} {shown(text)}; {help_}")
+        sign, digits, exp, unit = m[1], f"{m[2] or '0'}.{m[4]}", PREFIXES[m[3]], m[5]
+    if not unit and not bare_ok:
         raise ValueParseError(f"{shown(text)} has no unit; {help_}")
-    return _scaled(m[2], _prefix_exp(m[3]), m[1], text)
+    return _scaled(digits, exp, sign, text)
 
 
 @_memo_text
@@ -356,6 +362,13 @@ def parse_voltage(text) -> float:
 def parse_frequency(text) -> float:
     """``"1k"``, ``"1kHz"``, ``"2.5 MHz"`` or a bare number -> hertz."""
     return _parse_with_unit(text, "[Hh][Zz]", "a frequency", "'1kHz', '2.5 MHz' or '1k'")
+
+
+@_memo_text
+def parse_number(text) -> float:
+    """A plain number with an optional SI prefix or RKM letter, no unit: ``"2"``,
+    ``"0.707"``, ``"1k"``, ``"1k5"`` (1500), ``"1e3"``."""
+    return _parse_with_unit(text, "(?!)", "a number", "'2', '0.707', '1k' or '1k5'")
 
 
 @_memo_text
@@ -483,6 +496,7 @@ __all__ = [
     "format_si",
     "parse_current",
     "parse_frequency",
+    "parse_number",
     "parse_percent",
     "parse_power",
     "parse_ppm",
