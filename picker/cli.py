@@ -4,14 +4,19 @@ Each subcommand lives in ``picker/commands/<name>.py`` with ``register(subparser
 ``run(args) -> int``. Those modules import nothing heavy at module level: numpy, scipy,
 rich and textual are imported inside ``run`` so that ``picker stock ...`` starts fast.
 
-Exit codes (DESIGN.md section 6): 0 done; 1 no design is possible from this stock;
-2 bad input. No traceback reaches a user.
+Exit codes, output streams and value syntax: docs/cli.md. In short: 0 done; 1 no design
+is possible from this stock; 2 bad input; 70 internal error (one line, the traceback
+only with ``PICKER_DEBUG=1``); 141 output cut short by a closed pipe. No traceback
+reaches a user otherwise, and a crash never reads as "no design".
 """
 
 from __future__ import annotations
 
 import argparse
+import contextlib
 import importlib
+import os
+import re
 import sys
 
 from stock.errors import PickerError
@@ -24,6 +29,9 @@ COMMAND_MODULES = (
     "picker.commands.repair_cmd",
 )
 
+EX_SOFTWARE = 70  # sysexits.h: an internal software error
+EX_PIPE = 141  # 128 + SIGPIPE, what a shell reports for a reader that went away
+DEBUG_VAR = "PICKER_DEBUG"
 
 EXAMPLES = """\
 examples:
@@ -39,11 +47,50 @@ examples:
   picker --stock inventory.toml                the terminal UI
 
 Each command has its own help: picker design --help, picker stock adjust --help.
-Exit codes: 0 done, 1 no design is possible from this stock, 2 bad input."""
+Exit codes: 0 done, 1 no design is possible from this stock, 2 bad input,
+70 internal error (PICKER_DEBUG=1 shows the details)."""
+
+
+class Parser(argparse.ArgumentParser):
+    """argparse, except that a value beginning with a minus sign and a digit or a point
+    (``--temp -20..85``, ``--fc -1k``, ``--by -2``) is read as the option's value, not
+    as an unknown option; picker has no option spelt like a number."""
+
+    def __init__(self, *args, **kwargs) -> None:
+        super().__init__(*args, **kwargs)
+        # argparse's own pattern takes only plain negative numbers (-2, -0.5)
+        self._negative_number_matcher = re.compile(r"^-\.?[0-9]")
+
+
+def _subparser_actions(parser: argparse.ArgumentParser):
+    return [a for a in parser._actions if isinstance(a, argparse._SubParsersAction)]
+
+
+def _leaf_parsers(parser: argparse.ArgumentParser):
+    """Every parser that runs a command (the subcommands' parsers, nested ones included)."""
+    subs = _subparser_actions(parser)
+    if not subs:
+        yield parser
+        return
+    for action in subs:
+        for child in dict.fromkeys(action.choices.values()):
+            yield from _leaf_parsers(child)
+
+
+def _add_stock_everywhere(parser: argparse.ArgumentParser) -> None:
+    """``--stock FILE`` after every subcommand (``picker stock check --stock F``)."""
+    for leaf in _leaf_parsers(parser):
+        if "--stock" not in leaf._option_string_actions:
+            leaf.add_argument(
+                "--stock",
+                metavar="FILE",
+                default=argparse.SUPPRESS,
+                help="stock file (as the top-level --stock)",
+            )
 
 
 def build_parser() -> argparse.ArgumentParser:
-    parser = argparse.ArgumentParser(
+    parser = Parser(
         prog="picker",
         description="Design active analog filters from the parts in your own drawers. "
         "Without a COMMAND, picker opens its terminal UI on the stock file.",
@@ -67,36 +114,144 @@ def build_parser() -> argparse.ArgumentParser:
                 raise
             continue  # a command not built yet
         module.register(sub)
+    _add_stock_everywhere(parser)
     return parser
 
 
-def main(argv: list[str] | None = None) -> int:
-    parser = build_parser()
-    args = parser.parse_args(argv)
-    try:
-        if args.command is None:
-            if not (sys.stdin.isatty() and sys.stdout.isatty()):
-                print(
-                    "picker: the terminal UI needs a terminal (standard input and output "
-                    "are not one here); for scripts use a command, see picker --help",
-                    file=sys.stderr,
-                )
-                return 2
-            from picker.commands.ui_cmd import run as run_ui
+# characters picker prints that an ASCII-only terminal cannot show, and what to show instead
+PLAIN = {
+    "\u03a9": "ohm",  # Greek capital omega
+    "\u2126": "ohm",  # ohm sign
+    "\u00b5": "u",  # micro sign
+    "\u03bc": "u",  # Greek small mu
+    "\u00b1": "+/-",
+    "\u00b0": "deg",
+    "\u00d7": "x",
+    "\u2026": "...",
+    "\u2013": "-",
+    "\u2014": "-",
+    "\u2019": "'",
+}
 
-            return run_ui(args)
-        return int(args.run(args) or 0)
+
+def _plain(err: UnicodeError):
+    """codecs error handler: a character the terminal cannot encode becomes plain text."""
+    if not isinstance(err, UnicodeEncodeError):
+        raise err
+    out = []
+    for ch in err.object[err.start : err.end]:
+        if ch in PLAIN:
+            out.append(PLAIN[ch])
+        elif "\u2500" <= ch <= "\u257f":  # box drawing: rules and corners
+            out.append("|" if ch in "│┃║┆┇┊┋" else "-" if ch in "─━═┄┅┈┉" else "+")
+        elif "\u2580" <= ch <= "\u259f":  # block elements of the histogram bars
+            out.append("#")
+        else:
+            out.append(f"\\u{ord(ch):04x}" if ord(ch) < 0x10000 else f"\\U{ord(ch):08x}")
+    return "".join(out), err.end
+
+
+def plain_text_streams() -> None:
+    """Let stdout and stderr fall back to plain text where their encoding lacks a character
+    (PYTHONIOENCODING=ascii, a Latin-1 terminal), instead of failing mid-report."""
+    import codecs
+
+    try:
+        codecs.lookup_error("picker-plain")
+    except LookupError:
+        codecs.register_error("picker-plain", _plain)
+    for stream in (sys.stdout, sys.stderr):
+        encoding = (getattr(stream, "encoding", None) or "").lower().replace("_", "-")
+        if encoding in ("utf-8", "utf8", "utf-16", "utf-32"):
+            continue
+        # not every stream can change (a test's StringIO): then it stays as it is
+        with contextlib.suppress(AttributeError, ValueError, OSError):
+            stream.reconfigure(errors="picker-plain")  # type: ignore[union-attr]
+
+
+def _quiet_stdout() -> None:
+    """After a closed pipe: point stdout at /dev/null so the exit flush says nothing."""
+    try:
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
+        os.close(devnull)
+    except (OSError, ValueError, AttributeError):
+        pass
+
+
+def _rich_broken_pipe(exc: SystemExit) -> bool:
+    """rich's Console meets a closed pipe by pointing stdout at /dev/null and raising
+    SystemExit(1) from ``Console.on_broken_pipe``; 1 would read as "no design"."""
+    tb = exc.__traceback__
+    while tb is not None and tb.tb_next is not None:
+        tb = tb.tb_next
+    return tb is not None and tb.tb_frame.f_code.co_name == "on_broken_pipe"
+
+
+def _shown(line: str) -> str:
+    """A message line with any control character escaped (it may quote owner text)."""
+    if line.isprintable():
+        return line
+    from picker.report.owner import visible
+
+    return visible(line)
+
+
+def _internal_error(exc: BaseException) -> int:
+    if os.environ.get(DEBUG_VAR, "").strip() not in ("", "0"):
+        import traceback
+
+        traceback.print_exception(exc, file=sys.stderr)
+    what = _shown(" ".join(str(exc).split())[:200]) or "no message"
+    print(
+        f"picker: internal error: {type(exc).__name__}: {what}; "
+        f"run again with {DEBUG_VAR}=1 for details",
+        file=sys.stderr,
+    )
+    return EX_SOFTWARE
+
+
+def main(argv: list[str] | None = None) -> int:
+    plain_text_streams()
+    try:
+        return _main(argv)
+    except SystemExit as exc:
+        if _rich_broken_pipe(exc):
+            return EX_PIPE
+        raise  # argparse's own exit: 0 after --help, 2 for a bad option
     except KeyboardInterrupt:
         print("picker: interrupted", file=sys.stderr)
         return 130
+    except BrokenPipeError:
+        _quiet_stdout()
+        return EX_PIPE
     except PickerError as exc:
         from picker.errors import NoDesignError
 
         for line in str(exc).splitlines() or [type(exc).__name__]:
-            print(f"picker: {line}", file=sys.stderr)
+            print(f"picker: {_shown(line)}", file=sys.stderr)
         return 1 if isinstance(exc, NoDesignError) else 2
-    except BrokenPipeError:
-        return 0
+    except Exception as exc:  # anything else is our bug: one line, never exit 1
+        return _internal_error(exc)
+
+
+def _main(argv: list[str] | None) -> int:
+    parser = build_parser()
+    args = parser.parse_args(argv)
+    if args.command is None:
+        if not (sys.stdin.isatty() and sys.stdout.isatty()):
+            print(
+                "picker: the terminal UI needs a terminal (standard input and output "
+                "are not one here); for scripts use a command, see picker --help",
+                file=sys.stderr,
+            )
+            return 2
+        from picker.commands.ui_cmd import run as run_ui
+
+        return run_ui(args)
+    code = int(args.run(args) or 0)
+    sys.stdout.flush()  # a closed pipe shows here, inside the handlers above
+    return code
 
 
 if __name__ == "__main__":

@@ -57,14 +57,15 @@ def load_stock(arg: str | None):
     note on where it came from and every load warning printed to stderr."""
     import sys
 
+    from picker.report.owner import visible
     from stock.file import load
 
     path, note = resolve_stock_path(arg)
     if note:
-        print(f"picker: {note}", file=sys.stderr)
+        print(f"picker: {visible(note)}", file=sys.stderr)
     stock = load(path)
-    for w in stock.warnings:
-        print(f"picker: warning: {w}", file=sys.stderr)
+    for w in stock.warnings:  # they quote the file's own text: no raw control characters
+        print(f"picker: warning: {visible(w)}", file=sys.stderr)
     return stock
 
 

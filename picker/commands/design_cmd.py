@@ -28,13 +28,16 @@ def register(subparsers) -> None:
         help="corner frequency (band-pass: centre), e.g. 1k, 1kHz, 2.5 MHz",
     )
     p.add_argument("--gain", default="1", metavar="G", help="overall gain magnitude (default 1)")
+    p.add_argument("--order", default=None, metavar="N", help="filter order 1..8 (default 2)")
     p.add_argument(
-        "--order", type=int, default=None, metavar="N", help="filter order 1..8 (default 2)"
+        "--response",
+        default=None,
+        choices=("butterworth", "bessel", "chebyshev"),
+        help="shape of the passband (default butterworth)",
     )
     p.add_argument(
-        "--response", default="butterworth", choices=("butterworth", "bessel", "chebyshev")
+        "--ripple", default=None, metavar="DB", help="Chebyshev ripple in dB (default 1)"
     )
-    p.add_argument("--ripple", default="1", metavar="DB", help="Chebyshev ripple in dB")
     p.add_argument(
         "--q", default=None, metavar="Q", help="Q of one second-order stage (band-pass: required)"
     )
@@ -93,56 +96,47 @@ def register(subparsers) -> None:
     p.set_defaults(run=run)
 
 
-def _temp(text: str) -> tuple[float, float]:
-    from picker.errors import DesignError
-
-    lo, sep, hi = text.partition("..")
-    try:
-        span = (float(lo), float(hi))
-    except ValueError:
-        span = None
-    if not sep or span is None or span[0] > span[1]:
-        raise DesignError(f"--temp {text!r}: write LO..HI in degrees C, e.g. 0..70 or -20..85")
-    return span
-
-
-def _number(text: str, option: str) -> float:
-    from picker.errors import DesignError
-
-    try:
-        return float(text)
-    except ValueError:
-        raise DesignError(f"{option} {text!r}: not a number") from None
-
-
 def parse_request(args) -> dict:
-    """The targets and options as given, checked and in SI units."""
+    """The targets and options as given, checked and in SI units.
+
+    The rules are those of ``picker.targets``, shared with the terminal UI's form."""
     from picker.errors import DesignError
-    from stock.values import parse_frequency, parse_percent, parse_value, parse_voltage
+    from picker.targets import (
+        check_targets,
+        read_bound,
+        read_frequency,
+        read_gain,
+        read_order,
+        read_q,
+        read_ripple,
+        read_temp,
+        read_voltage,
+        read_window,
+    )
 
     req = {
         "type": args.type,
-        "response": args.response,
-        "order": args.order,
-        "fc_hz": parse_frequency(args.fc),
-        "gain": _number(args.gain, "--gain"),
-        "ripple_db": _number(args.ripple, "--ripple"),
-        "q": None if args.q is None else _number(args.q, "--q"),
+        "response": args.response or "butterworth",
+        "order": None if args.order is None else read_order(args.order),
+        "fc_hz": read_frequency(args.fc, "--fc"),
+        "gain": read_gain(args.gain, "--gain"),
+        "ripple_db": 1.0 if args.ripple is None else read_ripple(args.ripple),
+        "q": read_q(args.q),
         "topology": args.topology,
         "singles": args.singles,
         "allow_polarized": args.allow_polarized,
         "bounds": {
-            "r_min": parse_value(args.r_min, kind="resistor"),
-            "r_max": parse_value(args.r_max, kind="resistor"),
-            "c_min": parse_value(args.c_min, kind="capacitor"),
-            "c_max": parse_value(args.c_max, kind="capacitor"),
+            "r_min": read_bound(args.r_min, "resistor", "--r-min"),
+            "r_max": read_bound(args.r_max, "resistor", "--r-max"),
+            "c_min": read_bound(args.c_min, "capacitor", "--c-min"),
+            "c_max": read_bound(args.c_max, "capacitor", "--c-max"),
         },
         "pick": args.pick,
     }
     b = req["bounds"]
-    for kind, lo, hi in (("r", b["r_min"], b["r_max"]), ("c", b["c_min"], b["c_max"])):
-        if lo > hi:
-            raise DesignError(f"--{kind}-min {lo:g} is above --{kind}-max {hi:g}")
+    errors = check_targets(response_type=args.type, q=req["q"], **b)
+    if errors:
+        raise DesignError("; ".join(errors.values()))
     if args.top < 1:
         raise DesignError(f"--top {args.top}: give at least 1")
     if args.pick < 1 or args.pick > args.top:
@@ -152,13 +146,47 @@ def parse_request(args) -> dict:
     req["_budget"] = {
         "trials": args.trials,
         "distribution": args.distribution,
-        "window": parse_percent(args.window),
-        "temp": _temp(args.temp),
-        "supply": None if args.supply is None else parse_voltage(args.supply),
-        "vout_peak": None if args.vout_peak is None else parse_voltage(args.vout_peak),
+        "window": read_window(args.window),
+        "temp": read_temp(args.temp),
+        "supply": None if args.supply is None else read_voltage(args.supply, "--supply"),
+        "vout_peak": None
+        if args.vout_peak is None
+        else read_voltage(args.vout_peak, "--vout-peak"),
         "seed": args.seed,
     }
+    req["_notes"] = _ignored(args, req)
     return req
+
+
+def _ignored(args, req) -> list[str]:
+    """Warnings for options the asked filter has no use for (they change nothing)."""
+    out = []
+    one_stage = args.type == "bandpass" or req["q"] is not None
+    why = "a band-pass" if args.type == "bandpass" else "a stage with --q"
+    if args.response is not None and one_stage:
+        out.append(f"--response {args.response} is not used for {why} (its Q sets the shape)")
+    if args.ripple is not None and (one_stage or req["response"] != "chebyshev"):
+        has = why if one_stage else f"a {req['response']} response"
+        out.append(f"--ripple is not used: {has} has no passband ripple (chebyshev has)")
+    return out
+
+
+def title_of(request: dict, stages: int) -> str:
+    """One line saying what was asked: the report's title."""
+    from stock.values import format_si
+
+    fc = format_si(request["fc_hz"], "Hz")
+    n = f"{stages} stage{'s' if stages > 1 else ''}"
+    gain = f"gain {request['gain']:g}"
+    if request["type"] == "bandpass":
+        return f"band-pass, centre {fc}, Q {request['q']:g}, {gain}, {n}"
+    kind = {"lowpass": "low-pass", "highpass": "high-pass"}[request["type"]]
+    if request["q"] is not None:
+        return f"{kind}, f0 {fc}, Q {request['q']:g}, {gain}, {n}"
+    shape = request["response"]
+    if shape == "chebyshev":
+        shape += f" {request['ripple_db']:g} dB ripple"
+    return f"{kind} {shape}, fc {fc}, {gain}, {n}"
 
 
 def _budget_module():
@@ -177,6 +205,8 @@ def run(args) -> int:
     from picker.search import Bounds, search
 
     request = parse_request(args)
+    for w in request.pop("_notes"):
+        print(f"picker: warning: {w}", file=sys.stderr)
     stock = load_stock(getattr(args, "stock", None))
     if args.save:
         # refuse a bad save target before a search that may take a while
@@ -241,7 +271,6 @@ def _print_report(result, budget, request, stages) -> None:
     from rich.console import Console
 
     from picker.report.design import DesignReport
-    from stock.values import format_si
 
     panel = None
     warnings: list[str] = []
@@ -249,10 +278,6 @@ def _print_report(result, budget, request, stages) -> None:
         from picker.report.budget_panel import BudgetPanel
 
         panel = BudgetPanel(budget)
-    n = len(stages)
-    title = (
-        f"{request['type']} {request['response']}, fc {format_si(request['fc_hz'], 'Hz')}"
-        f", gain {request['gain']:g}, {n} stage{'s' if n > 1 else ''}"
-    )
+    title = title_of(request, len(stages))
     console = Console(width=min(Console().width, 100))
     console.print(DesignReport(result, title=title, budget_panel=panel, warnings=warnings))

@@ -1,0 +1,206 @@
+"""One set of rules for the targets of a design, for every shell (CLI and terminal UI).
+
+Each ``read_*`` function takes the text a person typed and the label to quote it by
+(``--fc`` on the command line, ``fc`` in the form) and returns the value in SI units,
+or raises :class:`stock.errors.ValueParseError` quoting the text and saying what is
+accepted. :func:`check_targets` holds the rules that join two fields. The command line
+(``picker.commands.design_cmd``) and the targets form (``picker.ui.targets_form``) both
+call these, so a value is accepted in one exactly when it is in the other.
+
+Value syntax (docs/cli.md): a plain number, SI prefix or RKM code (``1k``, ``1.5k``,
+``1k5``), with the unit where one fits (``1kHz``, ``12V``). Imports nothing heavy.
+"""
+
+from __future__ import annotations
+
+import math
+
+from stock.errors import ValueParseError
+
+ORDERS = (1, 8)
+RIPPLE_MAX_DB = 10.0
+WINDOW_MAX = 1.0  # a yield window of +/-100 % of the target is the widest that means anything
+TEMP_FLOOR_C = -273.15
+
+
+def _finite_positive(x: float, label: str, text: str, unit: str = "") -> float:
+    if not math.isfinite(x):
+        raise ValueParseError(f"{label} '{text}': not a finite number")
+    if x <= 0:
+        raise ValueParseError(f"{label} '{text}': must be above 0{unit}")
+    return x
+
+
+def read_number(text: str, label: str) -> float:
+    """A number above 0: plain, SI prefix or RKM (``2``, ``0.707``, ``1k``, ``1k5``)."""
+    from stock.values import parse_number
+
+    text = str(text).strip()
+    if not text:
+        raise ValueParseError(f"{label} is empty: write a number, e.g. 2 or 1k5")
+    try:
+        x = parse_number(text)
+    except ValueParseError:
+        raise ValueParseError(
+            f"{label} '{text}': not a number; write e.g. 2, 0.707, 1k or 1k5"
+        ) from None
+    return _finite_positive(x, label, text)
+
+
+def read_frequency(text: str, label: str = "--fc") -> float:
+    """A frequency above 0 Hz: ``1k``, ``1k5``, ``2.5 MHz``, ``1e3``."""
+    from stock.values import parse_frequency
+
+    text = str(text).strip()
+    if not text:
+        raise ValueParseError(f"{label} is empty: write a frequency, e.g. 1k or 2.5 kHz")
+    try:
+        f = parse_frequency(text)
+    except ValueParseError:
+        raise ValueParseError(
+            f"{label} '{text}': not a frequency; write e.g. 1k, 1k5, 2.5kHz or 1e3"
+        ) from None
+    return _finite_positive(f, label, text, " Hz")
+
+
+def read_gain(text: str, label: str = "--gain") -> float:
+    """The gain magnitude, above 0 (``2``, ``10``, ``1k``)."""
+    return read_number(text, label)
+
+
+def read_q(text: str | None, label: str = "--q") -> float | None:
+    """Q of one second-order stage above 0; blank or None: from the response."""
+    if text is None or not str(text).strip():
+        return None
+    return read_number(text, label)
+
+
+def read_order(text, label: str = "--order") -> int:
+    """A whole number from 1 to 8."""
+    s = str(text).strip()
+    lo, hi = ORDERS
+    if not (s.isascii() and s.isdigit()) or not lo <= int(s) <= hi:
+        raise ValueParseError(f"{label} '{s}': write a whole number from {lo} to {hi}")
+    return int(s)
+
+
+def read_ripple(text: str, label: str = "--ripple") -> float:
+    """Chebyshev passband ripple in dB: above 0, at most 10."""
+    s = str(text).strip()
+    try:
+        r = float(s.removesuffix("dB").removesuffix("db").strip())
+    except ValueError:
+        raise ValueParseError(f"{label} '{s}': write the ripple in dB, e.g. 0.5 or 1") from None
+    if not (math.isfinite(r) and 0 < r <= RIPPLE_MAX_DB):
+        raise ValueParseError(
+            f"{label} '{s}' dB: write a number above 0, at most {RIPPLE_MAX_DB:g}"
+        )
+    return r
+
+
+def read_bound(text: str, kind: str, label: str) -> float:
+    """A bound on a position's combined value: resistance or capacitance above 0."""
+    from stock.values import parse_value
+
+    s = str(text).strip()
+    if not s:
+        raise ValueParseError(f"{label} is empty: write a value, e.g. 1k or 100p")
+    try:
+        v = parse_value(s, kind=kind)
+    except ValueParseError as exc:
+        raise ValueParseError(f"{label}: {exc}") from None
+    return _finite_positive(v, label, s, " ohm" if kind == "resistor" else " F")
+
+
+def read_window(text: str, label: str = "--window") -> float:
+    """The yield window as a fraction: ``5%`` -> 0.05; above 0, at most 100 %."""
+    from stock.values import parse_percent
+
+    s = str(text).strip()
+    try:
+        w = parse_percent(s)
+    except ValueParseError:
+        raise ValueParseError(f"{label} '{s}': write a percentage, e.g. 5% or 0.5%") from None
+    if not (math.isfinite(w) and 0 < w <= WINDOW_MAX):
+        raise ValueParseError(f"{label} '{s}': must be above 0 % and at most 100 %")
+    return w
+
+
+def read_temp(text: str, label: str = "--temp") -> tuple[float, float]:
+    """A temperature span ``LO..HI`` in degrees C, LO <= HI, neither below absolute zero."""
+    s = str(text).strip()
+    lo, sep, hi = s.partition("..")
+    try:
+        span = (float(lo), float(hi))
+    except ValueError:
+        span = None
+    if not sep or span is None:
+        raise ValueParseError(f"{label} '{s}': write LO..HI in degrees C, e.g. 0..70 or -20..85")
+    if not all(math.isfinite(t) for t in span) or span[0] > span[1]:
+        raise ValueParseError(f"{label} '{s}': LO must be at most HI, both finite")
+    if span[0] < TEMP_FLOOR_C:
+        raise ValueParseError(f"{label} '{s}': below absolute zero ({TEMP_FLOOR_C:g} C)")
+    return span
+
+
+def read_voltage(text: str, label: str) -> float:
+    """A voltage above 0 V (``12``, ``12V``, ``6V3``)."""
+    from stock.values import parse_voltage
+
+    s = str(text).strip()
+    try:
+        v = parse_voltage(s)
+    except ValueParseError:
+        raise ValueParseError(f"{label} '{s}': not a voltage; write e.g. 12, 12V or 6V3") from None
+    return _finite_positive(v, label, s, " V")
+
+
+def check_targets(
+    *,
+    response_type: str,
+    q: float | None,
+    r_min: float,
+    r_max: float,
+    c_min: float,
+    c_max: float,
+    labels: dict[str, str] | None = None,
+) -> dict[str, str]:
+    """The rules that join fields; returns ``{field: message}``, empty when all hold.
+
+    Fields: ``q``, ``r_max``, ``c_max``. ``labels`` maps a field to the name a shell
+    shows (default: the command-line option).
+    """
+    name = {"r_min": "--r-min", "r_max": "--r-max", "c_min": "--c-min", "c_max": "--c-max"}
+    name.update({"q": "--q"})
+    name.update(labels or {})
+    from stock.values import format_rkm
+
+    errors = {}
+    if r_min > r_max:
+        errors["r_max"] = (
+            f"{name['r_max']} {format_rkm(r_max, 'resistor')} is below "
+            f"{name['r_min']} {format_rkm(r_min, 'resistor')}"
+        )
+    if c_min > c_max:
+        errors["c_max"] = (
+            f"{name['c_max']} {format_rkm(c_max, 'capacitor')} is below "
+            f"{name['c_min']} {format_rkm(c_min, 'capacitor')}"
+        )
+    if response_type == "bandpass" and q is None:
+        errors["q"] = f"a band-pass needs {name['q']} (centre / bandwidth), e.g. 5"
+    return errors
+
+
+__all__ = [
+    "check_targets",
+    "read_bound",
+    "read_frequency",
+    "read_gain",
+    "read_number",
+    "read_order",
+    "read_q",
+    "read_ripple",
+    "read_temp",
+    "read_voltage",
+    "read_window",
+]
