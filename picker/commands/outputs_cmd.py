@@ -96,11 +96,23 @@ def register(subparsers) -> None:
 def _console(file=None):
     from rich.console import Console
 
-    return Console(file=file or sys.stdout, highlight=False, soft_wrap=False)
+    # markup and emoji codes off: these lines quote paths, names and drawers as written
+    return Console(
+        file=file or sys.stdout, highlight=False, soft_wrap=False, markup=False, emoji=False
+    )
+
+
+def _say(console, text: str) -> None:
+    """Print a line that may quote owner text: as written, control characters escaped."""
+    from picker.report.owner import owner_text
+
+    console.print(owner_text(text))
 
 
 def _err(text: str) -> None:
-    print(f"picker: {text}", file=sys.stderr)
+    from picker.report.owner import visible
+
+    print(f"picker: {visible(text)}", file=sys.stderr)
 
 
 def _interactive() -> bool:
@@ -109,15 +121,19 @@ def _interactive() -> bool:
 
 def _ask(question: str) -> bool:
     try:
-        answer = input(f"{question} [y/N] ")
+        from picker.report.owner import visible
+
+        answer = input(f"{visible(question)} [y/N] ")
     except EOFError:
         return False
     return answer.strip().lower() in ("y", "yes")
 
 
 def pick_table(groups):
-    """A rich table of the pick list: one block per drawer."""
+    """A rich table of the pick list: one block per drawer (owner text shown as written)."""
     from rich.table import Table
+
+    from picker.report.owner import owner_text
 
     table = Table(title="Pick list by drawer", title_justify="left", expand=False)
     table.add_column("drawer")
@@ -130,9 +146,9 @@ def pick_table(groups):
             if r.measured:
                 what += f" (measured {', '.join(r.measured)})"
             table.add_row(
-                g.label if i == 0 else "",
+                owner_text(g.label) if i == 0 else "",
                 str(r.count),
-                what,
+                owner_text(what),
                 r.positions,
                 end_section=i == len(g.rows) - 1,
             )
@@ -141,6 +157,8 @@ def pick_table(groups):
 
 def bom_table(rows):
     from rich.table import Table
+
+    from picker.report.owner import owner_text
 
     table = Table(title="Bill of materials", title_justify="left", expand=False)
     for name, justify in (
@@ -154,7 +172,14 @@ def bom_table(rows):
         table.add_column(name, justify=justify)
     for r in rows:
         value = r.value + (f" (measured {', '.join(r.measured)})" if r.measured else "")
-        table.add_row(r.kind, value, r.tolerance, r.location or "-", str(r.count), r.positions)
+        table.add_row(
+            r.kind,
+            owner_text(value),
+            r.tolerance,
+            owner_text(r.location or "-"),
+            str(r.count),
+            r.positions,
+        )
     return table
 
 
@@ -184,10 +209,15 @@ def run_bom(args) -> int:
 
     design = load_design(args.design)
     if args.csv:
-        sys.stdout.write(bom_csv(design))
+        text = bom_csv(design)
+        if sys.stdout.isatty():  # on a screen, not into a file: no raw control characters
+            from picker.report.owner import visible
+
+            text = "".join(visible(line) + "\r\n" for line in text.split("\r\n")[:-1])
+        sys.stdout.write(text)
         return 0
     console = _console()
-    console.print(design_heading(design))
+    _say(console, design_heading(design))
     console.print(bom_table(bom_rows(design)))
     console.print(pick_table(pick_list(design)))
     return 0
@@ -233,9 +263,9 @@ def run_build(args) -> int:
     console = _console()
     console.print(pick_table(plan.picks))
     for w in plan.warnings:
-        console.print(f"warning: {w}")
+        _say(console, f"warning: {w}")
     for c in plan.cautions:
-        console.print(f"caution: {c}")
+        _say(console, f"caution: {c}")
     if not args.yes:
         if not _interactive():
             _err("not a terminal: pass --yes to take the parts without asking")
@@ -249,10 +279,10 @@ def run_build(args) -> int:
         for line in str(exc).splitlines():
             _err(line)
         return exc.exit_code
-    console.print(f"Took {plan.count} parts; {result.path} updated.")
+    _say(console, f"Took {plan.count} parts; {result.path} updated.")
     for line in plan.summary:
-        console.print(f"  {line}")
-    console.print(f"Undo with: picker undo --stock {stock_path}")
+        _say(console, f"  {line}")
+    _say(console, f"Undo with: picker undo --stock {stock_path}")
     return 0
 
 
@@ -288,18 +318,20 @@ def run_undo(args) -> int:
             for line in str(exc).splitlines():
                 _err(line)
             return exc.exit_code
-        console.print(
+        _say(
+            console,
             f"Build {record.number} ({record.time}) was undone already: {stock_path} is as it "
             "was before it (an undo had been stopped before it could record that). "
-            "Recorded it as undone; nothing else changed."
+            "Recorded it as undone; nothing else changed.",
         )
         return 0
-    console.print(
+    _say(
+        console,
         f"Last build on {stock_path}: number {record.number}, {record.time}"
-        + (f", design {record.design}" if record.design else "")
+        + (f", design {record.design}" if record.design else ""),
     )
     for line in record.summary:
-        console.print(f"  {line}")
+        _say(console, f"  {line}")
     if not args.yes:
         if not _interactive():
             _err("not a terminal: pass --yes to undo without asking")
@@ -313,5 +345,5 @@ def run_undo(args) -> int:
         for line in str(exc).splitlines():
             _err(line)
         return exc.exit_code
-    console.print(f"Restored {stock_path} as it was before build {record.number}.")
+    _say(console, f"Restored {stock_path} as it was before build {record.number}.")
     return 0

@@ -128,10 +128,16 @@ def register(subparsers) -> None:
 
 
 def _stock_path(args, *, positional: bool = True):
-    from picker.commands.common import resolve_stock_path
+    from pathlib import Path
 
-    arg = (getattr(args, "file", None) if positional else None) or getattr(args, "stock", None)
-    return resolve_stock_path(arg)
+    from picker.commands.common import resolve_stock_path
+    from stock.errors import StockError
+
+    file = getattr(args, "file", None) if positional else None
+    option = getattr(args, "stock", None)
+    if file and option and Path(file) != Path(option):
+        raise StockError(f"two stock files given, {file} and --stock {option}: name one")
+    return resolve_stock_path(file or option)
 
 
 def run_check(args) -> int:
@@ -141,14 +147,16 @@ def run_check(args) -> int:
     if note:
         print(f"picker: {note}", file=sys.stderr)
     stock = load(path)
+    from picker.report.owner import visible
+
     for w in stock.warnings:
-        print(f"warning: {w}")
+        print(f"warning: {visible(w)}")
     counts = (
         f"{len(stock.resistors)} resistor, {len(stock.capacitors)} capacitor and "
         f"{len(stock.opamps)} op amp lines"
     )
     print(
-        f"{path}: ok, {counts}, {len(stock.warnings)} warning"
+        f"{visible(path)}: ok, {counts}, {len(stock.warnings)} warning"
         f"{'' if len(stock.warnings) == 1 else 's'}"
     )
     return 0
@@ -161,8 +169,10 @@ def run_list(args) -> int:
     if note:
         print(f"picker: {note}", file=sys.stderr)
     stock = load(path)
+    from picker.report.owner import visible
+
     for w in stock.warnings:
-        print(f"picker: warning: {w}", file=sys.stderr)
+        print(f"picker: warning: {visible(w)}", file=sys.stderr)
     kinds = [args.kind] if args.kind else ["resistor", "capacitor", "opamp"]
     if args.json:
         import json
@@ -172,7 +182,7 @@ def run_list(args) -> int:
         return 0
     from rich.console import Console
 
-    console = Console(highlight=False)
+    console = Console(highlight=False, markup=False, emoji=False)
     for renderable in stock_tables(stock, kinds):
         console.print(renderable)
     return 0
@@ -234,6 +244,7 @@ def _detail(item) -> str:
 
 def run_adjust(args) -> int:
     from picker.commands.common import is_bundled_sample
+    from picker.report.owner import visible
     from stock.errors import PartlyDoneError, StockEditError
     from stock.file import QtyChange, StockChangedError, apply_changes, load
 
@@ -250,7 +261,7 @@ def run_adjust(args) -> int:
         stock = load(path)
         item, new_qty = _pick_line(path, stock, args)
         if args.by == 0:
-            print(f"{_describe(item)}: qty {item.qty} (unchanged)")
+            print(visible(f"{_describe(item)}: qty {item.qty} (unchanged)"))
             return 0
         try:
             apply_changes(
@@ -261,10 +272,10 @@ def run_adjust(args) -> int:
                 raise
             continue
         except PartlyDoneError as exc:  # written, but the folder could not be synced
-            print(f"picker: {exc}", file=sys.stderr)
-            print(f"{_describe(item)}: qty {item.qty} -> {new_qty}")
+            print(f"picker: {visible(str(exc))}", file=sys.stderr)
+            print(visible(f"{_describe(item)}: qty {item.qty} -> {new_qty}"))
             return exc.exit_code
-        print(f"{_describe(item)}: qty {item.qty} -> {new_qty}")
+        print(visible(f"{_describe(item)}: qty {item.qty} -> {new_qty}"))
         return 0
     return 2  # not reached
 
@@ -355,16 +366,20 @@ def _measured(item) -> str:
 
 
 def stock_tables(stock, kinds) -> list:
-    """One rich table per kind, sorted by value; qty 0 lines dimmed as used up."""
+    """One rich table per kind, sorted by value; qty 0 lines dimmed as used up.
+
+    Names, drawers, notes and the stock's name are owner text: each cell is a ``Text``
+    (``picker.report.owner``), shown exactly as written."""
     from rich.table import Table
     from rich.text import Text
 
+    from picker.report.owner import owner_text
     from stock.values import format_rkm, format_si
 
     out: list[RenderableType] = []
     assumed = False
     title = f"{stock.name}  ({stock.path})" if stock.name else str(stock.path)
-    out.append(Text(title, style="bold"))
+    out.append(owner_text(title, style="bold"))
     for kind in kinds:
         lines = sorted(
             stock.lines(kind),
@@ -426,7 +441,7 @@ def stock_tables(stock, kinds) -> list:
                 ]
             if kind != "opamp" and x.tolerance_assumed:
                 assumed = True
-            table.add_row(*row, style="dim" if x.qty == 0 else None)
+            table.add_row(*(owner_text(c) for c in row), style="dim" if x.qty == 0 else None)
         out.append(table)
     if assumed:
         out.append(

@@ -70,16 +70,19 @@ def opamp_subcircuit(gbw_hz: float | None) -> list[str]:
 def spice_netlist(design: SavedDesign) -> str:
     """SPICE text of ``design`` that ``ngspice -b`` runs as is (see the module docstring)."""
     from picker.filters import get_topology
+    from picker.report.owner import visible
     from stock.values import format_rkm, format_si
 
     def hz(value: float) -> str:
         return format_si(value, "Hz", digits=6, ascii_micro=True)
 
     req = design.request
-    words = " ".join(str(req[k]) for k in ("type", "response") if k in req)
+    # text from the design file stays inside its comment line: a newline in a drawer name
+    # must not start a SPICE line of its own (picker.report.owner)
+    words = " ".join(visible(req[k]) for k in ("type", "response") if k in req)
     title = f"picker filter: {words}" if words else "picker filter"
     if "order" in req:
-        title += f", order {req['order']}"
+        title += f", order {visible(req['order'])}"
     lines = [
         title,
         "* written by picker; run with: ngspice -b <this file>",
@@ -139,7 +142,7 @@ def spice_netlist(design: SavedDesign) -> str:
             for k, part in enumerate(pos.parts):
                 suffix = "" if pos.arrangement == "single" else "ab"[k]
                 name = _spice_name(e.kind, pos.name, s, suffix)
-                where = f"drawer {part.location}" if part.location else "no location"
+                where = f"drawer {visible(part.location)}" if part.location else "no location"
                 reading = f" (measured piece {part.measured})" if part.measured is not None else ""
                 lines.append(
                     f"* {name} = stage {s} {designator(pos.name, pos.arrangement, k)}: "
@@ -152,8 +155,8 @@ def spice_netlist(design: SavedDesign) -> str:
     if design.opamp is not None:
         lines.insert(
             4,
-            f"* op amp: {design.opamp.name}, GBW {hz(design.opamp.gbw_hz)}"
-            + (f", drawer {design.opamp.location}" if design.opamp.location else ""),
+            f"* op amp: {visible(design.opamp.name)}, GBW {hz(design.opamp.gbw_hz)}"
+            + (f", drawer {visible(design.opamp.location)}" if design.opamp.location else ""),
         )
     f_lo, f_hi = sweep_range(design)
     lines += [

@@ -15,6 +15,7 @@ from rich.panel import Panel
 from rich.table import Table
 from rich.text import Text
 
+from picker.report.owner import owner_text, visible
 from stock.values import format_si
 
 BARS = " ▁▂▃▄▅▆▇█"
@@ -161,7 +162,7 @@ class BudgetPanel:
         table.add_column(width=1, no_wrap=True)
         table.add_column(ratio=1)
         for w in self.budget.warnings:
-            table.add_row("!", w)
+            table.add_row("!", owner_text(w))  # warnings quote op amp names and drawers
         return table
 
     # rich protocol -----------------------------------------------------------------
@@ -176,7 +177,7 @@ class BudgetPanel:
                 parts += [Text(""), hist]
         if self.budget.warnings:
             parts += [Text(""), Text("Warnings", style="bold"), self._warnings()]
-        title = "Error budget" + (
-            f" (op amp: {self.budget.opamp_name})" if self.budget.opamp_name else " (ideal op amp)"
-        )
+        name = self.budget.opamp_name
+        which = f" (op amp: {visible(name)})" if name else " (ideal op amp)"
+        title = Text("Error budget" + which)
         yield Panel(Group(*parts), title=title, title_align="left", width=width, box=box.ROUNDED)

@@ -10,6 +10,7 @@ from rich.console import Console, ConsoleOptions, Group, RenderableType, RenderR
 from rich.table import Table
 from rich.text import Text
 
+from picker.report.owner import owner_text
 from picker.report.schematic import arrangement_text, schematic
 from stock.values import format_si
 
@@ -65,7 +66,8 @@ class DesignReport:
                     items.append(f"{name} {value} @{drawer}")
                 prefix = f"{s + 1}: " if len(cand.stages) > 1 else ""
                 parts.append(prefix + ", ".join(items))
-            table.add_row(str(rank), pct(cand.score), str(cand.pieces), "\n".join(parts))
+            # a drawer is owner text: a Text cell is never read as markup
+            table.add_row(str(rank), pct(cand.score), str(cand.pieces), Text("\n".join(parts)))
         return table
 
     def _tradeoff(self) -> Table | None:
@@ -127,7 +129,7 @@ class DesignReport:
             if w not in warnings:
                 warnings.append(w)
         for w in warnings:
-            parts.append(Text(f"warning: {w}"))
+            parts.append(owner_text(f"warning: {w}"))
         yield Group(*parts)
 
 

@@ -8,9 +8,13 @@ so it reads the same over SSH, in tmux and in a log; values are RKM-style (IEC 6
 
 from __future__ import annotations
 
-from rich.text import Text
+from typing import TYPE_CHECKING
 
+from picker.report.owner import visible
 from stock.values import format_rkm, format_si
+
+if TYPE_CHECKING:
+    from rich.text import Text
 
 NODE = {"0": "gnd"}
 JOIN = {"series": " + ", "parallel": " || "}
@@ -21,7 +25,10 @@ def _node(name: str) -> str:
 
 
 def arrangement_text(arr) -> tuple[str, str]:
-    """(value text, drawer text) of one position: ``4k7`` / ``4k7 + 470R`` and ``A3``."""
+    """(value text, drawer text) of one position: ``4k7`` / ``4k7 + 470R`` and ``A3``.
+
+    The drawer text is owner text with its control characters escaped
+    (``picker.report.owner``); put it in a ``Text``, never in markup."""
     kind = arr.kind
     if arr.arrangement == "single":
         p = arr.parts[0]
@@ -34,7 +41,7 @@ def arrangement_text(arr) -> tuple[str, str]:
         )
     drawers = []
     for p in arr.parts:
-        loc = p.location or "?"
+        loc = visible(p.location) if p.location else "?"
         if loc not in drawers:
             drawers.append(loc)
     return value, ", ".join(drawers)
@@ -67,6 +74,8 @@ def stage_lines(choice, index: int) -> list[str]:
 
 def schematic(candidate) -> Text:
     """The text schematic of every stage of ``candidate`` (a rich Text, no markup)."""
+    from rich.text import Text
+
     lines = []
     for i, choice in enumerate(candidate.stages):
         if i:
@@ -74,8 +83,8 @@ def schematic(candidate) -> Text:
         lines += stage_lines(choice, i)
     if candidate.opamp is not None:
         o = candidate.opamp
-        where = f" ({o.location})" if o.location else ""
+        where = f" ({visible(o.location)})" if o.location else ""
         lines.append(
-            f"op amp: {o.name}, {format_si(o.gbw, 'Hz')} GBW{where}; one channel per stage"
+            f"op amp: {visible(o.name)}, {format_si(o.gbw, 'Hz')} GBW{where}; one channel per stage"
         )
     return Text("\n".join(lines))
