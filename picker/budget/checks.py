@@ -3,7 +3,9 @@
 Thresholds, all common practice:
 
 * resistors below 1 kohm load the op amp output (and the source); above 1 Mohm they add
-  thermal noise and turn the op amp's input bias current into an offset of about ib x R;
+  thermal noise and turn the op amp's input bias current into an offset of about ib x R.
+  Both are judged on a position's combined value (a 100 ohm piece in series with 47 k is
+  a 47.1 k position; two 1k5 in parallel are a 750 ohm one), which is what the circuit sees;
 * class-2 ceramics (X7R, X5R, Y5V) drift with temperature and lose capacitance under DC
   bias: C0G/NP0 or film belong in filter positions;
 * a capacitor's voltage rating should be at least ``VOLTAGE_MARGIN`` = 1.5 x the supply
@@ -37,17 +39,29 @@ def _pieces(stage_pieces):
             yield i, label, piece
 
 
+def _resistor_positions(stage_pieces):
+    """(stage number, position label, combined value, arrangement) of every resistor position."""
+    for i, sp in enumerate(stage_pieces, start=1):
+        values = sp.positions(sp.nominal)
+        for slot in sp.slots:
+            if slot.kind == "resistor":
+                yield i, slot.name, float(values[slot.name]), slot.arrangement
+
+
 def part_checks(stage_pieces, *, opamp=None, supply=None) -> list[str]:
     """Warnings about the parts themselves (resistor range, dielectrics, ratings, polarity)."""
     low, high, class2, polar, no_rating, under = [], [], [], [], [], []
+    for i, label, value, arrangement in _resistor_positions(stage_pieces):
+        where = _where(i, label)
+        pair = "" if arrangement == "single" else f" ({arrangement} pair)"
+        if value < LOW_R:
+            low.append(f"{where} {format_si(value, 'ohm')}{pair}")
+        elif value > HIGH_R:
+            high.append((f"{where}{pair}", value))
     for i, label, p in _pieces(stage_pieces):
         where = _where(i, label)
         line = p.line
         if line.kind == "resistor":
-            if p.value < LOW_R:
-                low.append(f"{where} {format_si(p.value, 'ohm')}")
-            elif p.value > HIGH_R:
-                high.append((where, p.value))
             continue
         if line.dielectric in CLASS_2:
             class2.append(f"{where} ({line.dielectric})")

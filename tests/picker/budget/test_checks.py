@@ -132,3 +132,33 @@ def test_bad_options_raise_design_error_quoting_the_input(kw, text):
     with pytest.raises(DesignError) as err:
         budget(candidate(rc()), **kw)
     assert text in str(err.value)
+
+
+@pytest.mark.parametrize(
+    "pair, low",
+    [
+        # hand calculation: series adds, 100 + 47k = 47.1 kohm, well above 1 kohm
+        (("series", (100.0, 47e3)), False),
+        # hand calculation: parallel, 1k5 || 1k5 = 750 ohm, below 1 kohm though each is not
+        (("parallel", (1.5e3, 1.5e3)), True),
+        # hand calculation: 470 + 470 = 940 ohm, still below 1 kohm
+        (("series", (470.0, 470.0)), True),
+    ],
+)
+def test_resistor_range_is_judged_on_the_position(pair, low):
+    """The 1 kohm and 1 Mohm limits (common practice) apply to what the circuit sees: the
+    combined value of a position, not one piece of a pair."""
+    choice = stage("non-inverting-lowpass", {"C1": 1e-6}, pairs={"R1": pair})
+    ws = warnings_of(choice)
+    assert has(ws, "Below 1 kohm") is low
+    if low:
+        w = next(w for w in ws if "Below 1 kohm" in w)
+        assert "stage 1 R1" in w and f"({pair[0]} pair)" in w
+
+
+def test_high_resistor_judged_on_the_position():
+    # hand calculation: 2M2 || 2M2 = 1.1 Mohm is above 1 Mohm; 2M2 || 1M = 687.5 kohm is not
+    above = stage("non-inverting-lowpass", {"C1": 1e-9}, pairs={"R1": ("parallel", (2.2e6, 2.2e6))})
+    below = stage("non-inverting-lowpass", {"C1": 1e-9}, pairs={"R1": ("parallel", (2.2e6, 1e6))})
+    assert has(warnings_of(above), "Above 1 Mohm")
+    assert not has(warnings_of(below), "Above 1 Mohm")
