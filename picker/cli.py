@@ -18,6 +18,7 @@ import importlib
 import os
 import re
 import sys
+import warnings
 
 from stock.errors import PickerError
 
@@ -197,8 +198,12 @@ def _shown(line: str) -> str:
     return visible(line)
 
 
+def _debug() -> bool:
+    return os.environ.get(DEBUG_VAR, "").strip() not in ("", "0")
+
+
 def _internal_error(exc: BaseException) -> int:
-    if os.environ.get(DEBUG_VAR, "").strip() not in ("", "0"):
+    if _debug():
         import traceback
 
         traceback.print_exception(exc, file=sys.stderr)
@@ -214,7 +219,11 @@ def _internal_error(exc: BaseException) -> int:
 def main(argv: list[str] | None = None) -> int:
     plain_text_streams()
     try:
-        return _main(argv)
+        with warnings.catch_warnings():
+            if not _debug():
+                # numpy's notes on an overflow inside a far-off corner say nothing to a user
+                warnings.simplefilter("ignore", RuntimeWarning)
+            return _main(argv)
     except SystemExit as exc:
         if _rich_broken_pipe(exc):
             return EX_PIPE
@@ -237,6 +246,12 @@ def main(argv: list[str] | None = None) -> int:
 
 def _main(argv: list[str] | None) -> int:
     parser = build_parser()
+    for text in sys.argv[1:] if argv is None else argv:
+        if "\x00" in str(text):  # no shell can pass one; a path with one cannot be opened
+            print(
+                f"picker: argument {_shown(str(text))!r} contains a NUL character", file=sys.stderr
+            )
+            return 2
     args = parser.parse_args(argv)
     if args.command is None:
         if not (sys.stdin.isatty() and sys.stdout.isatty()):

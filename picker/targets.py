@@ -18,6 +18,14 @@ import math
 from stock.errors import ValueParseError
 
 ORDERS = (1, 8)
+# beyond these a request is no filter one can build from drawers of parts (a gain of a
+# million is 120 dB in one filter; a Q of 1000 rings for a thousand cycles); past them
+# the search would only grind through a space that cannot answer
+GAIN_RANGE = (1e-6, 1e6)
+Q_RANGE = (0.01, 1000.0)
+TEMP_CEILING_C = 1000.0
+TOP_MAX = 100
+TRIALS_MAX = 1_000_000
 RIPPLE_MAX_DB = 10.0
 WINDOW_MAX = 1.0  # a yield window of +/-100 % of the target is the widest that means anything
 TEMP_FLOOR_C = -273.15
@@ -63,16 +71,33 @@ def read_frequency(text: str, label: str = "--fc") -> float:
     return _finite_positive(f, label, text, " Hz")
 
 
+def _within(x: float, span: tuple[float, float], label: str, text: str) -> float:
+    lo, hi = span
+    if not lo <= x <= hi:
+        raise ValueParseError(f"{label} '{text}': must be from {lo:g} to {hi:g}")
+    return x
+
+
 def read_gain(text: str, label: str = "--gain") -> float:
-    """The gain magnitude, above 0 (``2``, ``10``, ``1k``)."""
-    return read_number(text, label)
+    """The gain magnitude, above 0 (``2``, ``10``, ``1k``), within ``GAIN_RANGE``."""
+    return _within(read_number(text, label), GAIN_RANGE, label, str(text).strip())
 
 
 def read_q(text: str | None, label: str = "--q") -> float | None:
-    """Q of one second-order stage above 0; blank or None: from the response."""
+    """Q of one second-order stage within ``Q_RANGE``; blank or None: from the response."""
     if text is None or not str(text).strip():
         return None
-    return read_number(text, label)
+    return _within(read_number(text, label), Q_RANGE, label, str(text).strip())
+
+
+def read_count(value: int, label: str, lo: int, hi: int | None = None) -> int:
+    """A whole number from ``lo`` to ``hi`` (--top, --trials, --pick, --seed)."""
+    if isinstance(value, bool) or not isinstance(value, int):
+        raise ValueParseError(f"{label} {value!r}: write a whole number")
+    if value < lo or (hi is not None and value > hi):
+        span = f"from {lo:,} to {hi:,}" if hi is not None else f"of at least {lo:,}"
+        raise ValueParseError(f"{label} {value}: give a whole number {span}")
+    return value
 
 
 def read_order(text, label: str = "--order") -> int:
@@ -140,6 +165,8 @@ def read_temp(text: str, label: str = "--temp") -> tuple[float, float]:
         raise ValueParseError(f"{label} '{s}': LO must be at most HI, both finite")
     if span[0] < TEMP_FLOOR_C:
         raise ValueParseError(f"{label} '{s}': below absolute zero ({TEMP_FLOOR_C:g} C)")
+    if span[1] > TEMP_CEILING_C:
+        raise ValueParseError(f"{label} '{s}': above {TEMP_CEILING_C:g} C")
     return span
 
 
@@ -194,6 +221,7 @@ def check_targets(
 __all__ = [
     "check_targets",
     "read_bound",
+    "read_count",
     "read_frequency",
     "read_gain",
     "read_number",

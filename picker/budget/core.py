@@ -39,9 +39,11 @@ def _window(window) -> dict[str, float]:
     return {k: float(v) for k, v in out.items()}
 
 
-def _check_args(trials, distribution, temp, supply, vout_peak):
+def _check_args(trials, distribution, temp, supply, vout_peak, seed=0):
     if isinstance(trials, bool) or not isinstance(trials, int) or trials < 1:
         raise DesignError(f"trials {trials!r}: must be a whole number of at least 1")
+    if isinstance(seed, bool) or not isinstance(seed, int) or seed < 0:
+        raise DesignError(f"seed {seed!r}: must be a whole number of at least 0")
     if distribution not in DISTRIBUTIONS:
         raise DesignError(f"distribution {distribution!r}: use uniform or normal")
     try:
@@ -94,7 +96,7 @@ def budget(
         Seed of ``numpy.random.default_rng``.
     """
     win = _window(window)
-    span = _check_args(trials, distribution, temp, supply, vout_peak)
+    span = _check_args(trials, distribution, temp, supply, vout_peak, seed)
     if not candidate.stages:
         raise DesignError("candidate has no stages")
     opamp = candidate.opamp

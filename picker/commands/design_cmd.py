@@ -102,8 +102,11 @@ def parse_request(args) -> dict:
     The rules are those of ``picker.targets``, shared with the terminal UI's form."""
     from picker.errors import DesignError
     from picker.targets import (
+        TOP_MAX,
+        TRIALS_MAX,
         check_targets,
         read_bound,
+        read_count,
         read_frequency,
         read_gain,
         read_order,
@@ -137,12 +140,11 @@ def parse_request(args) -> dict:
     errors = check_targets(response_type=args.type, q=req["q"], **b)
     if errors:
         raise DesignError("; ".join(errors.values()))
-    if args.top < 1:
-        raise DesignError(f"--top {args.top}: give at least 1")
+    read_count(args.top, "--top", 1, TOP_MAX)
     if args.pick < 1 or args.pick > args.top:
         raise DesignError(f"--pick {args.pick}: choose 1..{args.top} (the --top candidates)")
-    if args.trials < 1:
-        raise DesignError(f"--trials {args.trials}: give at least 1")
+    read_count(args.trials, "--trials", 1, TRIALS_MAX)
+    read_count(args.seed, "--seed", 0)
     req["_budget"] = {
         "trials": args.trials,
         "distribution": args.distribution,
