@@ -66,6 +66,16 @@ VALUE_HELP = (
 )
 
 
+def printable(text: str) -> str:
+    """``text`` with every character that is not printable (C0 and C1 controls such as ESC,
+    DEL, bidi overrides, line separators) shown as a Python escape: ``\\x1b``, ``\\u202e``."""
+    if text.isprintable():
+        return text
+    return "".join(
+        c if c.isprintable() else c.encode("unicode_escape").decode("ascii") for c in text
+    )
+
+
 def shown(text, limit: int = 80) -> str:
     """``text`` in single quotes for a message, as the owner wrote it.
 
@@ -73,7 +83,7 @@ def shown(text, limit: int = 80) -> str:
     raw; past ``limit`` characters the text is cut and its length said.
     """
     s = text if isinstance(text, str) else toml_text(text)
-    out = "".join(c if c.isprintable() else c.encode("unicode_escape").decode("ascii") for c in s)
+    out = printable(s)
     if len(out) <= limit:
         return f"'{out}'"
     return f"'{out[: limit - 1]}…' ({len(s):,} characters)"
@@ -502,5 +512,6 @@ __all__ = [
     "parse_ppm",
     "parse_slew",
     "parse_value",
+    "printable",
     "parse_voltage",
 ]
