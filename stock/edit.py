@@ -1,4 +1,4 @@
-"""Safe in-place edits of the owner's stock file (DESIGN.md section 3, "Editing").
+"""Safe in-place edits of the owner's stock file (docs/stock-file.md, "Editing").
 
 Every write:
 
@@ -9,13 +9,13 @@ Every write:
    the new file. No lock file is left in the owner's folder.
 2. reads the bytes through the locked descriptor and refuses (``StockEditError``, file
    untouched) if their sha256 is not the one the caller read (``expect_sha256``);
-3. changes only what it must: a qty change rewrites just its digits (checked by
-   loading the result); other edits go through tomlkit, a round-trip TOML editor that
-   keeps comments, order, spacing and quoting byte for byte; the result must load
-   without errors;
-4. writes a temporary file in the same folder, copies the mode (and owner where
-   allowed), fsyncs it, renames it over the original and fsyncs the folder, so a
-   crash leaves the old file or the new one, never a partial file.
+3. changes only what it must and keeps every other byte (``stock.splice``): a qty
+   change rewrites just its digits, measured readings are removed within their own
+   entry, a line appended goes at the end; the result must load to the stock planned;
+4. writes a temporary file in the same folder with the mode, owner (where allowed) and
+   extended attributes of the original, fsyncs it, renames it over the original and
+   fsyncs the folder (``stock.durable``), so a crash leaves the old file or the new
+   one, never a partial file.
 
 A symbolic link is followed: the file it points to is replaced, the link stays. A
 writer killed mid-write can leave its temporary file (``.<name>.XXXXXXXX.tmp``) beside
@@ -31,7 +31,7 @@ import re
 import stat
 from collections.abc import Callable
 from contextlib import contextmanager, suppress
-from dataclasses import dataclass, replace
+from dataclasses import dataclass
 from pathlib import Path
 
 from stock.durable import (
@@ -44,7 +44,8 @@ from stock.durable import (
 )
 from stock.errors import PartlyDoneError, StockEditError, StockFileError
 from stock.fields import MAX_COUNT
-from stock.load import KINDS, LineMap, loads
+from stock.load import KINDS, loads
+from stock.splice import splice
 from stock.values import format_rkm
 
 _BOM = "\ufeff"
@@ -249,10 +250,10 @@ def apply_changes(
 ) -> EditResult:
     """Apply every ``QtyChange`` or none of them.
 
-    A change of qty alone rewrites just the digits on the entry's ``qty = N`` line
-    (found by the loader's line scan), then checks that the file loads to exactly the
-    stock expected; anything else (measured pieces removed, unusual layouts) goes
-    through a tomlkit round trip. Either way the result must load without errors.
+    Every byte outside the changed entries stays as it was (``stock.splice``): a qty is
+    rewritten in its own digits and base, measured readings are removed by a round trip
+    of the entry's own lines; the result must load to exactly the stock planned, else
+    the edit is refused.
 
     Raises
     ------
@@ -267,11 +268,7 @@ def apply_changes(
         bom, text = _text_of(before, path)
         stock = _check_loads(text, path, "the stock file has problems")
         plan = _plan(stock, changes, path)
-        after_text = _splice_qty(text, stock, plan, str(path))
-        if after_text is None:
-            after_text = _round_trip(text, plan)
-            _check_loads(after_text, path, "the edit would leave the file unreadable")
-        return (bom + after_text).encode("utf-8")
+        return (bom + splice(text, stock, plan, str(path))).encode("utf-8")
 
     return _edit(path, transform, expect_sha256, before_replace)
 
@@ -326,59 +323,6 @@ def _plan(stock, changes, path) -> dict:
             )
         plan[(kind, index)] = (new_qty, tuple(sorted(removed)))
     return plan
-
-
-_QTY_LINE = re.compile(
-    r"^(?P<pre>[ \t]*qty[ \t]*=[ \t]*)(?P<num>\+?[0-9_]+)"
-    r"(?P<post>[ \t]*(?:#.*)?\r?)$"
-)
-
-
-def _splice_qty(text: str, stock, plan, source: str) -> str | None:
-    """Rewrite only the qty digits; None when that is not certain to be right."""
-    if any(removed for _, removed in plan.values()):
-        return None
-    rows = text.split("\n")
-    lmap = LineMap(text)
-    for (kind, index), (new_qty, _) in plan.items():
-        item = stock.lines(kind)[index]
-        header, keys = lmap.entry(kind, index, len(stock.lines(kind)))
-        n = keys.get("qty")
-        if not n or header != item.line:
-            return None
-        m = _QTY_LINE.match(rows[n - 1])
-        if not m or int(m["num"].replace("_", "")) != item.qty:
-            return None
-        rows[n - 1] = f"{m['pre']}{new_qty}{m['post']}"
-    after = "\n".join(rows)
-    # the result must read back as exactly the stock planned, nothing else different
-    try:
-        new = loads(after, source=source)
-    except StockFileError:
-        return None
-    for kind in KINDS:
-        want = [
-            replace(x, qty=plan[(kind, i)][0]) if (kind, i) in plan else x
-            for i, x in enumerate(stock.lines(kind))
-        ]
-        if list(new.lines(kind)) != want:
-            return None
-    return after
-
-
-def _round_trip(text: str, plan) -> str:
-    import tomlkit
-
-    doc = tomlkit.parse(text)
-    for (kind, index), (new_qty, removed) in plan.items():
-        table = doc[kind][index]
-        if table["qty"] != new_qty:
-            table["qty"] = new_qty
-        if removed:
-            arr = table["measured"]
-            for i in reversed(removed):
-                del arr[i]
-    return tomlkit.dumps(doc)
 
 
 def _toml_line(path, key, value) -> str:

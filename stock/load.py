@@ -10,6 +10,7 @@ All errors are collected, then raised together in one ``StockFileError``; warnin
 
 from __future__ import annotations
 
+import bisect
 import hashlib
 import re
 from collections import OrderedDict
@@ -111,6 +112,12 @@ class LineMap:
             if self._multi:
                 in_multi = tomlread.opens_multiline(raw)
         return keys
+
+    def next_header(self, line: int) -> int:
+        """The line of the first table header after ``line``, or one past the last line."""
+        heads = sorted(self._next.values())
+        i = bisect.bisect_right(heads, line)
+        return heads[i] if i < len(heads) else len(self.rows) + 1
 
     def written(self, line: int) -> str | None:
         """The value's text as written on ``key = value`` line ``line`` (1-based), or None."""

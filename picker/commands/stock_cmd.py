@@ -114,8 +114,9 @@ def register(subparsers) -> None:
         "--line",
         type=int,
         metavar="N",
-        help="file line of the entry's [[...]] header, when value and drawer "
-        "are not enough (picker lists the lines that match)",
+        help="a file line of the entry (its [[...]] header or any of its keys, "
+        "e.g. the qty line), when value and drawer are not enough (picker lists "
+        "the lines that match)",
     )
     a.add_argument(
         "--by",
@@ -226,8 +227,17 @@ def _matches(stock, kind: str, value_text: str, location: str | None, line: int 
         loc = location.strip().lower()
         found = [x for x in found if (x.location or "").strip().lower() == loc]
     if line is not None:
-        found = [x for x in found if x.line == line]
+        owner = entry_at_line(stock, line)
+        found = [x for x in found if x is owner]
     return found
+
+
+def entry_at_line(stock, line: int):
+    """The stock line whose entry holds file line ``line``: its ``[[...]]`` header or any
+    line after it up to the next entry's header; None before the first entry."""
+    entries = [x for k in ("resistor", "capacitor", "opamp") for x in stock.lines(k)]
+    before = [x for x in entries if x.line <= line]
+    return max(before, key=lambda x: x.line) if before else None
 
 
 def _detail(item) -> str:

@@ -219,6 +219,25 @@ def test_adjust_same_value_and_drawer_picked_by_line(inv, capsys):
     assert sum(after.values()) == sum(c.qty for c in load(SAMPLE).capacitors) - 1
 
 
+def test_adjust_line_of_the_qty_as_well_as_of_the_header(inv, capsys):
+    argv = ["stock", "adjust", "--stock", str(inv), "--kind", "capacitor", "--value", "10n"]
+    argv += ["--location", "film box", "--by", "-1"]
+    polyester = next(
+        c for c in load(inv).capacitors if c.value == 1e-8 and c.dielectric == "polyester"
+    )
+    rows = inv.read_text(encoding="utf-8").split("\n")
+    qty_line = next(
+        n for n in range(polyester.line + 1, len(rows) + 1) if rows[n - 1].startswith("qty")
+    )
+    assert qty_line > polyester.line
+    assert main(argv + ["--line", str(qty_line)]) == 0
+    assert {c.line: c.qty for c in load(inv).capacitors}[polyester.line] == polyester.qty - 1
+    # a line of another entry picks that entry, which is not this value: refused
+    first = load(inv).resistors[0]
+    assert main(argv + ["--line", str(first.line + 1)]) == 2
+    assert f"at line {first.line + 1}" in capsys.readouterr().err
+
+
 def test_adjust_refuses_bundled_sample(monkeypatch, tmp_path, capsys):
     monkeypatch.delenv("PICKER_STOCK", raising=False)
     monkeypatch.chdir(tmp_path)

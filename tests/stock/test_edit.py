@@ -184,13 +184,13 @@ def test_replace_bytes_undo(stockfile):
 @pytest.mark.parametrize(
     "text, old, new",
     [
-        # layouts the digit rewrite does not touch go through the tomlkit round trip
+        # other layouts: an inline array, a hex count (its base kept), a quoted key
         (
             'resistor = [{value = "1k", qty = 3}, {value = "2k2", qty = 7}]  # inline\n',
             "qty = 3}",
             "qty = 2}",
         ),
-        ('[[resistor]]\nvalue = "1k"\nqty = 0x03\n', "qty = 0x03", "qty = 2"),
+        ('[[resistor]]\nvalue = "1k"\nqty = 0x03\n', "qty = 0x03", "qty = 0x02"),
         ('[[resistor]]\nvalue = "1k"\n"qty" = 3\n', '"qty" = 3', '"qty" = 2'),
         (
             '[[resistor]]\nvalue = "1k"\nnote = """\nqty = 3\n"""\nqty = 3\n',
