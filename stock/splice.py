@@ -67,8 +67,8 @@ def splice(text: str, stock, plan: dict, source: str) -> str:
             continue
         n = keys.get("qty")
         m = _QTY_LINE.match(rows[n - 1]) if n else None
-        spliced = bool(m) and _read_int(m["num"]) == item.qty
-        if spliced and new_qty != item.qty:
+        spliced = m is not None and _read_int(m["num"]) == item.qty
+        if m is not None and spliced and new_qty != item.qty:
             rows[n - 1] = f"{m['pre']}{same_base(m['num'], new_qty)}{m['post']}"
         if removed or not spliced:
             end = lmap.next_header(header)
