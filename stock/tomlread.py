@@ -101,10 +101,12 @@ def _long_number(text: str, exc: ValueError) -> TomlProblem:
     if not m:
         return TomlProblem(0, f"a value TOML cannot hold ({exc})")
     line = text.count("\n", 0, m.start()) + 1
+    key = _KEYLINE_RE.match(text.split("\n")[line - 1])
+    what = f"{'.'.join(split_key(key[1]))}: " if key else ""
     return TomlProblem(
         line,
-        f"a number of {len(m[0]):,} digits ({shown(m[0], 20)}); no value picker reads "
-        "needs more than a few",
+        f"{what}a number of {len(m[0]):,} digits ({shown(m[0][:12] + '…')}); no value "
+        "picker reads needs more than a few",
     )
 
 

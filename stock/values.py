@@ -141,7 +141,7 @@ def type_word(value) -> str:
     if isinstance(value, int):
         return "a whole number"
     if isinstance(value, float):
-        return "a number with a fraction or exponent (a float)"
+        return "a float"
     if isinstance(value, str):
         return "text"
     if isinstance(value, _dt.datetime):
