@@ -13,6 +13,8 @@ class NoDesignError(PickerError):
     The message says what is missing.
     """
 
+    exit_code = 1
+
 
 __all__ = [
     "DesignError",

@@ -186,12 +186,20 @@ def write_temp(
     return tmp
 
 
-def write_atomic(path: Path, data: bytes, *, mode: int | None = None, like: int | None = None):
+def write_atomic(
+    path: Path,
+    data: bytes,
+    *,
+    mode: int | None = None,
+    like: int | None = None,
+    sync: bool = True,
+) -> None:
     """Replace ``path`` by ``data`` whole: temporary file, fsync, rename, fsync of the folder.
 
     ``mode`` and ``like`` as for ``write_temp``; without ``mode`` an existing file's
     mode is kept. Raises OSError with the target unchanged if anything before the
-    rename fails; an error from the folder fsync comes after the rename.
+    rename fails; an error from the folder fsync comes after the rename (``sync=False``
+    leaves that fsync to the caller, who can then tell the two apart).
     """
     path = Path(path)
     folder = path.parent if str(path.parent) else Path(".")
@@ -205,7 +213,8 @@ def write_atomic(path: Path, data: bytes, *, mode: int | None = None, like: int 
         with suppress(OSError):
             os.unlink(tmp)
         raise
-    sync_folder(folder)
+    if sync:
+        sync_folder(folder)
 
 
 def remove_stale_temps(folder: Path, prefix: str | None = None) -> int:

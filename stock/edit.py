@@ -30,7 +30,7 @@ import os
 import re
 import stat
 from collections.abc import Callable
-from contextlib import contextmanager, suppress
+from contextlib import contextmanager
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -40,7 +40,7 @@ from stock.durable import (
     read_fd,
     remove_stale_temps,
     sync_folder,
-    write_temp,
+    write_atomic,
 )
 from stock.errors import PartlyDoneError, StockEditError, StockFileError
 from stock.fields import MAX_COUNT
@@ -129,13 +129,7 @@ def _write_atomic(real: Path, data: bytes, fd: int, st: os.stat_result) -> None:
     # a live writer writes its temporary file only while it holds the lock on the
     # current file, which we hold: any file of that naming is a killed writer's
     remove_stale_temps(real.parent, real.name)
-    tmp = write_temp(real.parent, real.name, data, mode=st.st_mode, like=fd)
-    try:
-        os.replace(tmp, real)
-    except BaseException:
-        with suppress(OSError):
-            os.unlink(tmp)
-        raise
+    write_atomic(real, data, mode=st.st_mode, like=fd, sync=False)
 
 
 BeforeReplace = Callable[[bytes, bytes], None]

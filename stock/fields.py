@@ -2,7 +2,7 @@
 
 Every problem becomes one message ``file:line: kind key: 'bad text' ...; what is
 accepted``, located at the key's own line when the line scan found it, else at the
-entry's header. Plausible ranges are those of DESIGN.md section 3.
+entry's header. Plausible ranges are those of docs/stock-file.md.
 """
 
 from __future__ import annotations

@@ -55,6 +55,7 @@ from stock.values import shown, type_word
 FORMAT = 1
 STATES = ("pending", "done", "undone")
 _NAME = re.compile(r"^build-(\d{4,})\.toml$")
+_BEFORE = re.compile(r"^build-(\d{4,})\.before$")
 _SHA = re.compile(r"^[0-9a-f]{64}$")
 
 
@@ -116,9 +117,23 @@ def locked(stock_path) -> Iterator[Path]:
     try:
         fcntl.flock(fd, fcntl.LOCK_EX)
         remove_stale_temps(folder)
+        _remove_orphan_copies(folder)
         yield folder
     finally:
         os.close(fd)  # also releases the lock
+
+
+def _remove_orphan_copies(folder: Path) -> None:
+    """A ``.before`` copy without its record is a build killed before its record was
+    written (the stock file was not touched then): remove it. Under ``locked``."""
+    try:
+        names = set(os.listdir(folder))
+    except OSError:
+        return
+    for name in names:
+        if _BEFORE.match(name) and name[: -len(".before")] + ".toml" not in names:
+            with suppress(OSError):
+                os.unlink(folder / name)
 
 
 def begin(

@@ -72,12 +72,7 @@ class LineMap:
         self._next: dict[int, int] = {}  # header line -> next header line
         stock_header = 0
         previous = 0
-        in_multi: str | None = None
-        for n, raw in enumerate(self.rows, start=1):
-            if in_multi:
-                if raw.count(in_multi) % 2 == 1:
-                    in_multi = None
-                continue
+        for n, raw in tomlread.code_rows(self.rows, multi=self._multi):
             if raw.lstrip()[:1] == "[":
                 m = _AOT_RE.match(raw) or _TABLE_RE.match(raw)
                 if m:
@@ -90,27 +85,17 @@ class LineMap:
                         stock_header = n
                     self._next[previous] = n
                     previous = n
-                    continue
-            if self._multi:
-                in_multi = tomlread.opens_multiline(raw)
         self._next[previous] = len(self.rows) + 1
         self.top_keys = _Keys(self, 0)
         self.stock_keys: _Keys | dict[str, int] = _Keys(self, stock_header) if stock_header else {}
 
     def _scan_keys(self, start: int) -> dict[str, int]:
         keys: dict[str, int] = {}
-        in_multi: str | None = None
-        for n in range(start + 1, self._next.get(start, start + 1)):
-            raw = self.rows[n - 1]
-            if in_multi:
-                if raw.count(in_multi) % 2 == 1:
-                    in_multi = None
-                continue
+        stop = self._next.get(start, start + 1)
+        for n, raw in tomlread.code_rows(self.rows, start + 1, stop, multi=self._multi):
             m = _KEYLINE_RE.match(raw)
             if m:
                 keys.setdefault(_unquote(m[1]), n)
-            if self._multi:
-                in_multi = tomlread.opens_multiline(raw)
         return keys
 
     def next_header(self, line: int) -> int:

@@ -182,6 +182,21 @@ def opens_multiline(raw: str) -> str | None:
     return None
 
 
+def code_rows(rows: list[str], start: int = 1, stop: int | None = None, *, multi: bool = True):
+    """``(line number, text)`` of the rows ``start`` .. ``stop - 1`` (1-based) that are
+    not inside a multi-line string; ``multi=False`` when the text has none (faster)."""
+    in_multi: str | None = None
+    for n in range(start, len(rows) + 1 if stop is None else stop):
+        raw = rows[n - 1]
+        if in_multi:
+            if raw.count(in_multi) % 2 == 1:
+                in_multi = None
+            continue
+        yield n, raw
+        if multi:
+            in_multi = opens_multiline(raw)
+
+
 def written_value(row: str) -> str | None:
     """The value's text on a ``key = value`` line as written, comment cut; None if unsure.
 
@@ -243,12 +258,7 @@ class KeyLines:
         self.lines: dict[tuple, int] = {}
         aot: dict[tuple, int] = {}
         current: tuple = ()
-        in_multi: str | None = None
-        for n, raw in enumerate(self.rows, start=1):
-            if in_multi:
-                if raw.count(in_multi) % 2 == 1:
-                    in_multi = None
-                continue
+        for n, raw in code_rows(self.rows):
             head = _AOT_RE.match(raw)
             found = head or _TABLE_RE.match(raw)
             if found:
@@ -265,7 +275,6 @@ class KeyLines:
             m = _KEYLINE_RE.match(raw)
             if m:
                 self.lines.setdefault(current + tuple(split_key(m[1])), n)
-            in_multi = opens_multiline(raw)
 
     @staticmethod
     def _resolve(parts, aot) -> tuple:
@@ -300,6 +309,7 @@ class KeyLines:
 __all__ = [
     "MAX_DEPTH",
     "KeyLines",
+    "code_rows",
     "TomlProblem",
     "excerpt",
     "opens_multiline",

@@ -1,6 +1,6 @@
 """Read and write component values: RKM code, SI prefixes, units, percent, ppm.
 
-Accepted value texts (DESIGN.md section 4):
+Accepted value texts (docs/stock-file.md):
 
 - RKM code as in IEC 60062 [1]_: the multiplier letter stands where the decimal point
   would be: ``4k7`` (4.7 k), ``R47`` (0.47), ``0R1`` (0.1), ``1M0`` (1 M), ``2n2``,

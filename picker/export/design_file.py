@@ -1,4 +1,4 @@
-"""Saved design: one TOML file written whole, read back and checked (DESIGN.md section 9).
+"""Saved design: one TOML file written whole, read back and checked (docs/outputs.md).
 
 Layout of the file, format 1 (keys with no value are left out: TOML has no null)::
 

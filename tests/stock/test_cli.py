@@ -1,4 +1,4 @@
-"""``picker stock check|list|adjust`` (DESIGN.md section 6): output, exit codes, no traceback,
+"""``picker stock check|list|adjust`` (docs/cli.md): output, exit codes, no traceback,
 and a light start (no numpy, scipy or textual for ``adjust``)."""
 
 import json
@@ -150,7 +150,7 @@ def test_adjust_top_level_stock_option(inv, capsys):
         (["--kind", "resistor", "--value", "4k8", "--by", "1"], "no resistor 4k8"),
         (["--kind", "capacitor", "--value", "4x", "--by", "1"], "--value: unknown unit 'x'"),
         (["--kind", "opamp", "--value", "octal", "--by", "1"], "the op amps in it: 'dual JFET"),
-        # DESIGN.md section 3: "10" for a capacitor is 10 F, implausible (0.1 pF .. 1 F)
+        # docs/stock-file.md: "10" for a capacitor is 10 F, implausible (0.1 pF .. 1 F)
         (["--kind", "capacitor", "--value", "10", "--by", "1"], "'10' is 10 F, not a plausible"),
         (
             ["--kind", "resistor", "--value", "4k7", "--location", "B1", "--by", "2000000"],

@@ -1,4 +1,4 @@
-"""Safe in-place edits (DESIGN.md section 3, "Editing"): only the number changes, locks hold
+"""Safe in-place edits (docs/stock-file.md, "Editing"): only the number changes, locks hold
 across processes, a killed writer leaves the old or the new file, never a broken one."""
 
 import difflib

@@ -86,10 +86,13 @@ def _in_child(action) -> int:
 
 
 def _temps(folder: Path) -> list[str]:
+    """Temporary files, and kept copies without their record, left in either folder."""
     found = [p.name for p in folder.iterdir() if p.name.endswith(".tmp")]
     led = ledger.ledger_dir(folder / "inventory.toml")
     if led.is_dir():
-        found += [p.name for p in led.iterdir() if p.name.endswith(".tmp")]
+        names = {p.name for p in led.iterdir()}
+        found += [n for n in names if n.endswith(".tmp")]
+        found += [n for n in names if n.endswith(".before") and n[:-7] + ".toml" not in names]
     return found
 
 

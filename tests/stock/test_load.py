@@ -1,4 +1,4 @@
-"""Loading format 1 (DESIGN.md section 3): every error and warning names file, line and key."""
+"""Loading format 1 (docs/stock-file.md): every error and warning names file, line and key."""
 
 import hashlib
 import os
@@ -58,7 +58,7 @@ def test_good_file():
     s = loads(GOOD, source="good.toml")
     assert s.name == "test bench" and s.warnings == ()
     (r,) = s.resistors
-    # values per DESIGN.md section 3/4: 4k7 = 4700 ohm, 1% = 0.01, 100 ppm = 1e-4 per K
+    # values per docs/stock-file.md: 4k7 = 4700 ohm, 1% = 0.01, 100 ppm = 1e-4 per K
     assert (r.value, r.qty, r.tolerance, r.tolerance_assumed) == (4700.0, 20, 0.01, False)
     assert r.tempco == pytest.approx(1e-4) and r.power == 0.25 and r.location == "A3"
     assert r.measured == (4693.0,) and r.meter == 0.01 and r.nominal_qty == 19
@@ -66,7 +66,7 @@ def test_good_file():
     c0, c1 = s.capacitors
     assert c0.dielectric == "C0G" and c0.polarized is False and c0.voltage == 50.0
     assert c0.line == 15 and c1.index == 1
-    # DESIGN.md section 3: electrolytic is polarized by default, tolerance default 10% assumed
+    # docs/stock-file.md: electrolytic is polarized by default, tolerance default 10% assumed
     assert c1.dielectric == "electrolytic" and c1.polarized is True
     assert c1.tolerance == 0.10 and c1.tolerance_assumed is True
     (o,) = s.opamps
@@ -252,7 +252,7 @@ def test_empty_stock_warns(text):
 
 
 def test_dielectric_spellings():
-    # canonical spellings of DESIGN.md section 3; NPO/COG with the letter O are common slips
+    # canonical spellings of docs/stock-file.md; NPO/COG with the letter O are common slips
     for given_, canon in (
         ("np0", "NP0"),
         ("NPO", "NP0"),
