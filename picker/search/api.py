@@ -108,7 +108,14 @@ def search(
     space = build_space(stock, singles=singles, allow_polarized=allow_polarized, bounds=bounds)
     check_supply(space, stages, bounds)
     if for_people:
-        check_reach(space, stages)
+        wide = Bounds(r_min=0.0, r_max=math.inf, c_min=0.0, c_max=math.inf)
+        check_reach(
+            space,
+            stages,
+            wider=lambda: build_space(
+                stock, singles=singles, allow_polarized=allow_polarized, bounds=wide
+            ),
+        )
     spare = SPARE if for_people else 1
     classes = [
         StageClasses(topo, target, space, singles=singles, label=f"stage {i + 1}")
@@ -223,47 +230,101 @@ def check_supply(space: Space, stages, bounds: Bounds) -> None:
             )
 
 
-def check_reach(space: Space, stages) -> None:
-    """NoDesignError when a stage's f0 lies outside what the values on hand can reach.
+REACH_SLACK = 0.05  # a target this far (relative) past the reach is still searched
+
+
+def _reach(topo, space: Space) -> tuple[float, float]:
+    """(lowest, highest) f0 of ``topo`` over the corners of the box of values in ``space``."""
+    import itertools
+
+    import numpy as np
+
+    names = [p.name for p in topo.positions]
+    ends = []
+    for p in topo.positions:
+        v = space.values[p.kind].value
+        if not len(v):
+            return math.nan, math.nan
+        ends.append((float(v[0]), float(v[-1])))
+    corners = np.array(list(itertools.product(*ends)))
+    f0, _, _ = topo.characteristics({n: corners[:, i] for i, n in enumerate(names)})
+    f0 = np.asarray(f0, float)
+    return float(np.nanmin(f0)), float(np.nanmax(f0))
+
+
+def check_reach(space: Space, stages, *, wider=None) -> None:
+    """NoDesignError when a stage's f0 lies well outside what the values on hand can reach.
 
     Every topology's f0 falls as any of its R or C grows (f0 = 1/(2 pi sqrt(product)))
     or does not depend on it, so the reachable f0 range is spanned by the corners of
     the box [smallest, largest value on hand] per position; all corners are evaluated,
     so no monotonicity in a particular direction is assumed. Without this check a
     target far out of reach would send the search through its whole space.
+
+    A target up to ``REACH_SLACK`` past the reach is searched all the same (the best
+    candidate then shows its error): a stock of exactly 560k, 2k7 and 10n reaches
+    1/(2 pi 560k 10n) = 28.4205 Hz, and 28.42 Hz must not be refused. ``wider`` (a
+    callable giving the space without the value bounds) tells a reach set by the
+    bounds, which a wider --r-max or --c-max lifts, from one set by the stock itself.
     """
-    import itertools
-
-    import numpy as np
-
     from stock.values import format_rkm, format_si
 
     for s, (topo, target) in enumerate(stages, start=1):
-        names = [p.name for p in topo.positions]
-        ends = []
-        for p in topo.positions:
-            v = space.values[p.kind].value
-            ends.append((float(v[0]), float(v[-1])))
-        corners = np.array(list(itertools.product(*ends)))
-        f0, _, _ = topo.characteristics({n: corners[:, i] for i, n in enumerate(names)})
-        f0 = np.asarray(f0, float)
-        lo, hi = float(np.nanmin(f0)), float(np.nanmax(f0))
-        if lo <= target.f0_hz <= hi:
+        lo, hi = _reach(topo, space)
+        f = target.f0_hz
+        if lo * (1.0 - REACH_SLACK) <= f <= hi * (1.0 + REACH_SLACK):
             continue
-        kinds = {p.kind for p in topo.positions}
+        kinds = sorted({p.kind for p in topo.positions})
         have = "; ".join(
             f"{kind}s {format_rkm(float(space.values[kind].value[0]), kind)} .. "
             f"{format_rkm(float(space.values[kind].value[-1]), kind)}"
-            for kind in sorted(kinds)
+            for kind in kinds
         )
-        side = "lower" if target.f0_hz < lo else "higher"
+        low = f < lo
+        edge = lo if low else hi
+        head = (
+            f"stage {s} ({topo.key}) needs f0 {format_si(f, 'Hz', digits=5)}, "
+            f"{'lower' if low else 'higher'} than the parts on hand reach: "
+            f"{format_si(lo, 'Hz', digits=5)} .. {format_si(hi, 'Hz', digits=5)} "
+            f"with {have}"
+        )
+        if wider is not None:
+            wide = wider()
+            wlo, whi = _reach(topo, wide)
+            moved = [
+                k
+                for k in kinds
+                if len(wide.values[k].value)
+                and (
+                    float(wide.values[k].value[-1]) > float(space.values[k].value[-1])
+                    if low
+                    else float(wide.values[k].value[0]) < float(space.values[k].value[0])
+                )
+            ]
+            wedge = wlo if low else whi
+            covers = f >= wlo * (1.0 - REACH_SLACK) if low else f <= whi * (1.0 + REACH_SLACK)
+            if moved and covers:
+                opts = "/".join(f"--{k[0]}-{'max' if low else 'min'}" for k in moved)
+                raise NoDesignError(
+                    f"{head}; the stock has {'larger' if low else 'smaller'} parts outside "
+                    f"the value bounds (they reach {format_si(wedge, 'Hz', digits=5)}): "
+                    f"{'raise' if low else 'lower'} {opts}"
+                )
+            if moved and (wedge < edge if low else wedge > edge):
+                head += (
+                    f"; without the value bounds the stock reaches "
+                    f"{format_si(wedge, 'Hz', digits=5)}, still short"
+                )
+            raise NoDesignError(
+                f"{head}; that limit is the stock's own (its "
+                f"{'largest' if low else 'smallest'} parts, pairs included): it needs "
+                f"{'larger' if low else 'smaller'} "
+                + " or ".join(f"{k}s" for k in kinds)
+                + " than it has"
+            )
         hint = (
             "larger parts (raise --r-max/--c-max)"
-            if side == "lower"
+            if low
             else "smaller parts (lower --r-min/--c-min)"
         )
-        raise NoDesignError(
-            f"stage {s} ({topo.key}) needs f0 {format_si(target.f0_hz, 'Hz')}, {side} than "
-            f"the parts on hand reach ({format_si(lo, 'Hz')} .. {format_si(hi, 'Hz')} "
-            f"with {have}); it needs {hint}"
-        )
+        raise NoDesignError(f"{head}; it needs {hint}")
