@@ -6,7 +6,7 @@ import math
 
 from picker.budget import checks
 from picker.budget.montecarlo import monte_carlo
-from picker.budget.opamp import input_impedance, opamp_effects
+from picker.budget.opamp import SHIFT_LIMIT, input_impedance, opamp_effects, too_slow
 from picker.budget.pieces import evaluate, stage_pieces, topology_of
 from picker.budget.records import Budget, StageBudget
 from picker.budget.temperature import temperature
@@ -177,13 +177,19 @@ def budget(
 
 def _opamp_warnings(i, topo, oa, f0) -> list[str]:
     out = []
-    if oa.gbw_hz < oa.gbw_needed_hz:
+    if too_slow(oa):
+        moved = [f"f0 by {oa.shift[0]:+.1%}"]
+        if oa.shift[1] is not None:
+            moved.append(f"Q by {oa.shift[1]:+.1%}")
+        moved.append(f"gain by {oa.shift[2]:+.1%}")
+        worst = max(abs(x) for x in oa.shift if x is not None)
         out.append(
-            f"Stage {i + 1}: op amp too slow: GBW {format_si(oa.gbw_hz, 'Hz')} is below "
-            f"100 x noise gain x Q x f0 = {format_si(oa.gbw_needed_hz, 'Hz')} (common "
-            f"practice); it moves f0 by {oa.shift[0]:+.1%}"
-            + ("" if oa.shift[1] is None else f" and Q by {oa.shift[1]:+.1%}")
-            + "."
+            f"Stage {i + 1}: op amp too slow: its GBW {format_si(oa.gbw_hz, 'Hz')} moves "
+            + ", ".join(moved)
+            + f" (more than {SHIFT_LIMIT:.0%}; the stage's noise gain at f0 is "
+            f"{oa.noise_gain:.3g}, from the circuit); an op amp of about "
+            f"{format_si(oa.gbw_hz * worst / SHIFT_LIMIT, 'Hz')} GBW or more keeps it "
+            f"within {SHIFT_LIMIT:.0%} (the shift falls about as 1/GBW)."
         )
     fp = oa.full_power_hz
     if fp is not None:

@@ -17,9 +17,16 @@ References
        practice; from memory).
 .. [2] Full-power bandwidth f_p = SR / (2 pi V_peak): the highest frequency a sine of
        peak V_peak reaches without slew limiting (common practice; from memory).
-.. [3] Rule of thumb GBW >= 100 x noise gain x Q x f0 for a stage whose op amp should not
-       move f0 or Q noticeably (common practice, from memory; noise gain 1 + |G| for an
-       inverting stage, G for a non-inverting one, Q = 1 for a first-order stage).
+.. [3] Rule of thumb GBW >= 100 x noise gain x f0 for a stage whose op amp should not
+       move f0 or Q noticeably (common practice, from memory). The noise gain is taken
+       from the circuit, not from the signal gain: the gain from a source in series with
+       the op amp's + input to the output, with the stage's input grounded, at f0
+       (nodal analysis, ideal op amp). For an inverting amplifier that is 1 + |G|; for a
+       multiple-feedback stage it peaks near f0 and can be 80 or more where 1 + |G| is 2.
+
+The warning does not rest on the rule: the shift that the finite GBW gives (above) is
+computed, and a stage is flagged when it moves f0, Q or gain by more than
+``SHIFT_LIMIT`` (1 %, a fifth of the default 5 % yield window).
 """
 
 from __future__ import annotations
@@ -29,6 +36,7 @@ from dataclasses import dataclass, replace
 import numpy as np
 
 GBW_RULE_FACTOR = 100.0
+SHIFT_LIMIT = 0.01
 ZIN_SPAN = (0.01, 100.0)
 ZIN_POINTS = 61
 
@@ -40,10 +48,11 @@ class OpampResult:
     ideal: tuple[float, float | None, float]  # (f0_hz, q, gain), ideal op amp
     real: tuple[float, float | None, float]  # the same with the finite GBW
     shift: tuple[float, float | None, float]  # relative: real / ideal - 1
-    gbw_needed_hz: float  # rule [3]
+    gbw_needed_hz: float  # rule [3], with the circuit's noise gain at f0
     slew: float | None  # V/s
     vout_peak: float | None  # V
     full_power_hz: float | None  # rule [2], None without slew or vout_peak
+    noise_gain: float = 1.0  # |Vout / V+| at f0, the stage's input grounded (ideal op amp)
 
 
 def _section_shape(response_type: str, order: int, q: float | None) -> float:
@@ -84,16 +93,42 @@ def _response(elements, freqs, gbw_hz):
     return nodal_response(elements, freqs, gbw_hz=gbw_hz)
 
 
-def gbw_needed(topology, f0_hz: float, q: float | None, gain: float) -> float:
-    """Rule [3]: the gain-bandwidth below which the op amp is too slow for the stage."""
-    noise_gain = 1.0 + abs(gain) if topology.inverting else max(1.0, abs(gain))
-    return GBW_RULE_FACTOR * noise_gain * (1.0 if q is None else q) * f0_hz
+def noise_gain(topology, values: dict[str, float], f_hz: float) -> float:
+    """|Vout / Vn| at ``f_hz`` for a source Vn in series with the op amp's + input, the
+    stage's input grounded, ideal op amp (nodal analysis of the stage's own netlist)."""
+    from picker.analysis import nodal_response
+
+    moved = []
+    for e in topology.netlist(values):
+        nodes = tuple("0" if n == "in" else n for n in e.nodes)
+        if e.kind == "OA":  # the + input is driven by the test source (node "in")
+            nodes = ("in", *nodes[1:])
+        moved.append(replace(e, nodes=nodes))
+    return float(abs(nodal_response(moved, np.array([f_hz]), gbw_hz=None)[0]))
+
+
+def gbw_needed(topology, f0_hz: float, q: float | None, gain: float, *, values=None) -> float:
+    """Rule [3]: the gain-bandwidth below which the op amp is too slow for the stage.
+
+    With ``values`` the noise gain is the circuit's at f0 (:func:`noise_gain`); without
+    them (no parts chosen yet) the rough estimate 1 + |G| (inverting) or |G|,
+    times Q, is used."""
+    if values is not None:
+        return GBW_RULE_FACTOR * noise_gain(topology, values, f0_hz) * f0_hz
+    ng = 1.0 + abs(gain) if topology.inverting else max(1.0, abs(gain))
+    return GBW_RULE_FACTOR * ng * (1.0 if q is None else q) * f0_hz
+
+
+def too_slow(oa: OpampResult) -> bool:
+    """True when the finite GBW moves f0, Q or gain by more than ``SHIFT_LIMIT``."""
+    return any(x is not None and abs(x) > SHIFT_LIMIT for x in oa.shift)
 
 
 def opamp_effects(topology, values, nominal, opamp, *, vout_peak=None) -> OpampResult:
     """Shift of f0, Q and gain by the op amp's finite GBW, and its slew-rate limit."""
     f0, q, gain = nominal
     ideal = effective(topology, values, f0, None)
+    ng = noise_gain(topology, values, f0)
     real = effective(topology, values, f0, float(opamp.gbw))
     q_shift = None if ideal[1] is None or real[1] is None else real[1] / ideal[1] - 1.0
     shift = (real[0] / ideal[0] - 1.0, q_shift, real[2] / ideal[2] - 1.0)
@@ -106,7 +141,8 @@ def opamp_effects(topology, values, nominal, opamp, *, vout_peak=None) -> OpampR
         ideal=ideal,
         real=real,
         shift=shift,
-        gbw_needed_hz=gbw_needed(topology, f0, q, gain),
+        gbw_needed_hz=GBW_RULE_FACTOR * ng * f0,
+        noise_gain=ng,
         slew=opamp.slew,
         vout_peak=vout_peak,
         full_power_hz=fp,

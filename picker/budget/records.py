@@ -96,6 +96,7 @@ class Budget:
                 "with_gbw": dict(zip(("f0", "q", "gain"), map(_num, o.real), strict=False)),
                 "shift": dict(zip(("f0", "q", "gain"), map(_num, o.shift), strict=False)),
                 "gbw_needed_hz": _num(o.gbw_needed_hz),
+                "noise_gain": _num(o.noise_gain),
                 "slew_v_per_s": _num(o.slew),
                 "vout_peak": _num(o.vout_peak),
                 "full_power_hz": _num(o.full_power_hz),
