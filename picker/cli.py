@@ -5,7 +5,8 @@ Each subcommand lives in ``picker/commands/<name>.py`` with ``register(subparser
 rich and textual are imported inside ``run`` so that ``picker stock ...`` starts fast.
 
 Exit codes, output streams and value syntax: docs/cli.md. In short: 0 done; 1 no design
-is possible from this stock; 2 bad input; 70 internal error (one line, the traceback
+is possible from this stock; 2 bad input; 3 the stock file was written, then the command
+failed (docs/reliability.md); 70 internal error (one line, the traceback
 only with ``PICKER_DEBUG=1``); 141 output cut short by a closed pipe. No traceback
 reaches a user otherwise, and a crash never reads as "no design".
 """
@@ -49,6 +50,7 @@ examples:
 
 Each command has its own help: picker design --help, picker stock adjust --help.
 Exit codes: 0 done, 1 no design is possible from this stock, 2 bad input,
+3 parts taken but not recorded (the message says how to undo),
 70 internal error (PICKER_DEBUG=1 shows the details)."""
 
 
@@ -239,7 +241,9 @@ def main(argv: list[str] | None = None) -> int:
 
         for line in str(exc).splitlines() or [type(exc).__name__]:
             print(f"picker: {_shown(line)}", file=sys.stderr)
-        return 1 if isinstance(exc, NoDesignError) else 2
+        if isinstance(exc, NoDesignError):
+            return 1
+        return int(getattr(exc, "exit_code", 2))  # 3: parts taken, the record failed
     except Exception as exc:  # anything else is our bug: one line, never exit 1
         return _internal_error(exc)
 

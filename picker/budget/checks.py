@@ -1,4 +1,4 @@
-"""Practical checks on a candidate, as plain-language warnings (DESIGN.md sections 7, 10).
+"""Practical checks on a candidate, as plain-language warnings (docs/budget.md, docs/safety.md).
 
 Thresholds, all common practice:
 
@@ -137,7 +137,7 @@ def part_checks(stage_pieces, *, opamp=None, supply=None) -> list[str]:
 
 
 def caution(stage_pieces, *, supply=None) -> str | None:
-    """The safety caution of DESIGN.md 10, when high voltage or polarized parts are involved."""
+    """The safety caution of docs/safety.md, when high voltage or polarized parts are involved."""
     polar = any(
         p.line.kind == "capacitor"
         and (p.line.polarized or p.line.dielectric in ("electrolytic", "tantalum"))

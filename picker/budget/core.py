@@ -1,4 +1,4 @@
-"""``budget(candidate, ...)``: the whole error budget of one candidate (DESIGN.md 7)."""
+"""``budget(candidate, ...)``: the whole error budget of one candidate (docs/budget.md)."""
 
 from __future__ import annotations
 

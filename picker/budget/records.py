@@ -1,4 +1,4 @@
-"""Frozen records of an error budget, and their JSON form (DESIGN.md section 6)."""
+"""Frozen records of an error budget, and their JSON form (docs/cli.md, docs/search.md)."""
 
 from __future__ import annotations
 
@@ -51,7 +51,7 @@ class Budget:
 
     # JSON -----------------------------------------------------------------------
     def stage_json(self, i: int) -> dict:
-        """The per-stage ``budget`` object of DESIGN.md 6 (Hz for f0; plain numbers).
+        """The per-stage ``budget`` object of the design JSON (docs/search.md).
 
         Keys: ``tolerance`` (corner ranges, how found), ``temperature`` (ranges over the
         span, the figure used per piece), ``opamp`` (ideal vs finite GBW, slew), plus
@@ -123,7 +123,7 @@ class Budget:
         return out
 
     def candidate_json(self) -> dict:
-        """The candidate-level ``budget`` object of DESIGN.md 6."""
+        """The candidate-level ``budget`` object of the design JSON, docs/search.md."""
         return {"monte_carlo": self.monte_carlo.to_json()}
 
     def to_json(self) -> dict:

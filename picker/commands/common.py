@@ -31,7 +31,7 @@ def is_bundled_sample(path) -> bool:
 
 
 def resolve_stock_path(arg: str | None) -> tuple[Path, str | None]:
-    """Which stock file to use (DESIGN.md section 6).
+    """Which stock file to use (docs/cli.md).
 
     ``arg`` if given; else ``$PICKER_STOCK``; else ``./inventory.toml`` if it exists;
     else the bundled sample. The note is None for an explicit ``arg`` and otherwise

@@ -1,4 +1,4 @@
-"""``picker design TYPE [options]``: design a filter from the parts on hand (DESIGN.md 6).
+"""``picker design TYPE [options]``: design a filter from the parts on hand (docs/cli.md).
 
 Exit codes: 0 done; 1 no design is possible from this stock (NoDesignError, the
 message says what is missing); 2 bad input. Heavy modules load inside ``run``.

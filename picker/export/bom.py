@@ -1,4 +1,4 @@
-"""Bill of materials of a saved design: one row per stock line used (DESIGN.md section 9).
+"""Bill of materials of a saved design: one row per stock line used (docs/outputs.md).
 
 A row names the stock line (kind, nominal value in RKM code, tolerance, location), how
 many pieces to take from it, and where they go. Positions are reference designators;

@@ -1,4 +1,4 @@
-"""SPICE netlist of a saved design, runnable as is with ``ngspice -b`` (DESIGN.md section 9).
+"""SPICE netlist of a saved design, runnable as is with ``ngspice -b`` (docs/outputs.md).
 
 Conventions of the text written here:
 

@@ -1,4 +1,4 @@
-"""Pick list: the BOM grouped by drawer, so each drawer is opened once (DESIGN.md section 9)."""
+"""Pick list: the BOM grouped by drawer, so each drawer is opened once (docs/outputs.md)."""
 
 from __future__ import annotations
 

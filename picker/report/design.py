@@ -134,7 +134,7 @@ class DesignReport:
 
 
 def design_json(result, budgets=None) -> dict:
-    """The ``--json`` object of DESIGN.md 6 (``budgets``: one Budget or None per candidate)."""
+    """The ``--json`` object of docs/search.md (``budgets``: one Budget or None per candidate)."""
     budgets = list(budgets or [])
     budgets += [None] * (len(result.candidates) - len(budgets))
     out = []

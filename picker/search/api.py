@@ -1,6 +1,6 @@
 """``search``: ranked candidates and the parts/precision trade-off for a list of stages.
 
-Joint exactness (DESIGN.md 5). Let ``t_s`` be the best score of stage ``s`` alone (with
+Joint exactness (docs/search.md). Let ``t_s`` be the best score of stage ``s`` alone (with
 its own quantities) and ``t = max_s t_s``; no combination scores below ``t``. Every
 combination with joint score ``<= t`` is built from rows of the per-stage lists
 ``within(t)``, and :func:`picker.search.allocate.combine` searches those exhaustively

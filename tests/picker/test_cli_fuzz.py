@@ -301,4 +301,3 @@ def test_fuzz_other_commands(data, capsys, bench, monkeypatch):
 def test_fuzz_top_level(data, capsys, bench, monkeypatch):
     monkeypatch.chdir(bench)
     _run(list(data), capsys, bench)
-

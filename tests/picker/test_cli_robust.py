@@ -414,3 +414,14 @@ def test_response_with_a_bandpass_is_a_warning(capsys, small):
         str(small),
     )
     assert "warning: --response bessel is not used for a band-pass" in err
+
+
+def test_an_error_carries_its_own_exit_code(capsys, small, monkeypatch):
+    from stock.errors import PartlyDoneError
+
+    def partly(args):
+        raise PartlyDoneError("the parts were taken; the record could not be written")
+
+    monkeypatch.setattr("picker.commands.stock_cmd.run_check", partly)
+    code, _, err = run(capsys, "stock", "check", str(small))
+    assert code == 3 and "the parts were taken" in err  # docs/cli.md, docs/reliability.md

@@ -1,4 +1,4 @@
-"""The top-level command line (DESIGN.md section 6): help with examples, and the terminal
+"""The top-level command line (docs/cli.md): help with examples, and the terminal
 UI refused with exit 2 (bad input) instead of hanging when there is no terminal."""
 
 import subprocess
@@ -37,7 +37,7 @@ def test_help_names_every_command_and_gives_examples():
     for cmd in ("stock", "design", "bom", "netlist", "build", "undo"):
         assert f"\n    {cmd} " in text
     assert "examples:" in text and "picker design lowpass --fc 1k" in text
-    # the exit codes of DESIGN.md section 6
+    # the exit codes of docs/cli.md
     assert "0 done, 1 no design is possible from this stock, 2 bad input" in text
 
 

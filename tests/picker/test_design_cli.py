@@ -1,4 +1,4 @@
-"""``picker design``: JSON shape (DESIGN.md 6), exit codes, the human report, saving."""
+"""``picker design``: JSON shape (docs/cli.md, docs/search.md), exit codes, the human report, saving."""
 
 from __future__ import annotations
 

@@ -1,4 +1,4 @@
-"""Practical warnings triggered by crafted candidates (DESIGN.md sections 7 and 10)."""
+"""Practical warnings triggered by crafted candidates (docs/budget.md, docs/safety.md)."""
 
 from __future__ import annotations
 
@@ -73,7 +73,7 @@ def test_polarized_parts_get_the_warning_and_the_safety_caution():
 
 
 def test_high_supply_gets_the_caution():
-    """Above about 50 V: discharge, isolation, rated parts (DESIGN.md 10)."""
+    """Above about 50 V: discharge, isolation, rated parts (docs/safety.md)."""
     ws = warnings_of(rc(c_line={"dielectric": "C0G", "voltage": 250.0}), supply=60.0)
     assert has(ws, "Caution: the 60 V supply is above 50 V")
     ws = warnings_of(rc(c_line={"dielectric": "C0G", "voltage": 250.0}), supply=24.0)
