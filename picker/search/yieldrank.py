@@ -1,0 +1,418 @@
+"""``rank="yield"``: the candidate with the highest Monte Carlo yield (docs/yield.md).
+
+Steps, and what each one proves:
+
+1. The ``pieces`` and ``error`` rankings' rank 1 (``picker.search.api.search``; proven
+   exactly as those modes prove theirs).
+2. A pool per stage, from searches of that stage alone: its ``POOL_KEEP`` best by worst
+   error, with pairs and with single pieces only, and its ``POOL_KEEP`` best under the
+   ``pieces`` ranking with the goal at a tenth of the widest window (every row of those
+   exact lists); and its ``POOL_KEEP`` best by worst error from only the
+   pieces of the tighter tolerances on hand (the ``TIGHT_LEVELS`` tightest per kind).
+3. Each pool row's yield is estimated (:mod:`picker.search.yieldest`: first order,
+   normal, vectorised); a combination's estimate is the product over its stages (the
+   true yield is such a product: stages share no piece).
+4. The combinations with the best estimates, quantities shared, come from a depth-first
+   branch and bound (:func:`best_joint`) at a few prices per piece, so that combinations
+   with fewer pieces and nearly the same yield are among them.
+5. The best few, and both rank 1s of step 1, go through the real Monte Carlo of the
+   error budget (:func:`picker.budget.montecarlo.monte_carlo`: the same trials, window,
+   spread and seed, so the yield is the one the budget shows).
+6. The confirmed set is ranked by :func:`order_confirmed`: highest yield; yields equal
+   within the standard error of their difference go to fewer pieces. A candidate goes
+   ahead of a higher one only if it is within that error of it and of both rank 1s of
+   step 1, so rank 1's yield is never below theirs by more than the sampling error.
+
+Not proven: that no candidate outside the pool, or not confirmed, has a higher yield.
+Only the public search is used, so this module follows the search as it changes.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import inspect
+import math
+import time
+from collections import Counter
+from dataclasses import dataclass
+
+import numpy as np
+
+from picker.parts import Candidate
+from picker.search.api import SearchResult
+from picker.search.space import Bounds
+
+POOL_KEEP = 60  # rows per stage from each pool search
+TIGHT_LEVELS = 2  # tightest tolerances per kind the pool also searches on their own
+JOINT_TOP = 6  # combinations kept per price
+CONFIRM = 4  # of each price's list, confirmed by Monte Carlo (besides the shown ones)
+STEPS = 200_000  # rows the joint search may try
+PRICES = (0.0, 1.0, 4.0)  # price per piece, in standard errors of the yield
+
+
+@dataclass(frozen=True)
+class YieldInfo:
+    """The yield of one candidate and how it was found."""
+
+    value: float
+    method: str  # "monte carlo" | "estimate"
+    std_error: float | None = None
+    trials: int | None = None
+
+    def to_json(self) -> dict:
+        return {
+            "value": self.value,
+            "method": self.method,
+            "std_error": self.std_error,
+            "trials": self.trials,
+        }
+
+
+@dataclass(frozen=True)
+class YieldResult(SearchResult):
+    """A SearchResult ranked by yield: ``yields[i]`` belongs to ``candidates[i]``;
+    ``references``: ``(("pieces", YieldInfo), ("error", YieldInfo))``, the Monte Carlo
+    yields of those modes' rank 1."""
+
+    yields: tuple[YieldInfo, ...] = ()
+    references: tuple[tuple[str, YieldInfo], ...] = ()
+
+
+def reference(stock, stages, rank: str, **kw) -> SearchResult:
+    """``search`` in mode ``rank``, passing only the options it knows."""
+    from picker.search.api import search as plain
+
+    params = inspect.signature(plain).parameters
+    kw = {k: v for k, v in kw.items() if k in params}
+    if "rank" in params:
+        kw["rank"] = rank
+    return plain(stock, stages, **kw)
+
+
+def monte_carlo_yield(candidate, *, trials, distribution, window, seed) -> YieldInfo:
+    """The error budget's Monte Carlo yield of ``candidate`` (same call, same seed)."""
+    from picker.budget.montecarlo import monte_carlo
+    from picker.budget.pieces import stage_pieces, topology_of
+
+    layout = [(topology_of(c.topology), stage_pieces(c), c) for c in candidate.stages]
+    mc = monte_carlo(layout, trials=trials, distribution=distribution, window=window, seed=seed)
+    return YieldInfo(mc.yield_, "monte carlo", mc.std_error, trials)
+
+
+def se_diff(a: YieldInfo, b: YieldInfo) -> float:
+    """Standard error of the difference of two independent Monte Carlo yields."""
+    return math.hypot(a.std_error or 0.0, b.std_error or 0.0)
+
+
+def order_confirmed(items, refs=()):
+    """Rank ``[(candidate, YieldInfo)]``: repeatedly, among those whose yield is within
+    the standard error of the best left and of every reference in ``refs``, the fewest
+    pieces (then the higher yield, then the smaller score)."""
+    left, out = list(items), []
+    while left:
+        top = max(left, key=lambda it: it[1].value)
+        ties = [
+            it
+            for it in left
+            if it[1].value >= top[1].value - se_diff(it[1], top[1])
+            and all(it[1].value >= r.value - se_diff(it[1], r) for r in refs)
+        ] or [top]
+        pick = min(ties, key=lambda it: (it[0].pieces, -it[1].value, it[0].score))
+        out.append(pick)
+        left.remove(pick)
+    return out
+
+
+def piece_key(piece) -> tuple:
+    """One supply unit: a line's nominal pieces, or one measured piece."""
+    return (piece.kind, piece.line.index, piece.measured)
+
+
+def capacity(piece) -> int:
+    return 1 if piece.measured is not None else int(piece.line.nominal_qty)
+
+
+def identity(candidate: Candidate) -> tuple:
+    """The exact pieces of a candidate, position by position."""
+    return tuple(
+        (name, arr.arrangement, tuple(piece_key(p) for p in arr.parts))
+        for stage in candidate.stages
+        for name, arr in stage.positions
+    )
+
+
+def levels(stock, kind: str) -> list[float]:
+    """Distinct tolerances of the pieces of ``kind`` on hand (lines and meter readings)."""
+    out = set()
+    for line in stock.lines(kind):
+        if line.qty <= 0:
+            continue
+        if line.nominal_qty > 0:
+            out.add(float(line.tolerance))
+        if line.measured:
+            out.add(float(line.meter))
+    return sorted(out)
+
+
+def tight_stock(stock, limits: dict):
+    """``stock`` with only the pieces whose tolerance is within ``limits[kind]``: a
+    looser line keeps its measured pieces (at the meter's accuracy) or goes. Kept lines
+    keep their index, so :func:`restore` maps pieces back."""
+    kept = {}
+    for kind in ("resistor", "capacitor"):
+        lines = []
+        for line in stock.lines(kind):
+            if line.tolerance <= limits[kind]:
+                lines.append(line)
+            elif line.measured and line.meter <= limits[kind]:
+                lines.append(dataclasses.replace(line, qty=len(line.measured)))
+        kept[kind] = tuple(lines)
+    return dataclasses.replace(stock, resistors=kept["resistor"], capacitors=kept["capacitor"])
+
+
+def restore(candidate: Candidate, stock) -> Candidate:
+    """``candidate`` with every piece's line taken from ``stock`` (by kind and index)."""
+    from picker.parts import Arrangement
+
+    stages = []
+    for stage in candidate.stages:
+        positions = tuple(
+            (
+                name,
+                Arrangement(
+                    arr.arrangement,
+                    tuple(
+                        dataclasses.replace(p, line=stock.lines(p.kind)[p.line.index])
+                        for p in arr.parts
+                    ),
+                ),
+            )
+            for name, arr in stage.positions
+        )
+        stages.append(dataclasses.replace(stage, positions=positions))
+    return dataclasses.replace(candidate, stages=tuple(stages))
+
+
+def stage_pool(stock, stage, *, goal: float, common: dict, clock) -> list[Candidate]:
+    """Distinct one-stage candidates of ``stage`` from the pool searches (step 2)."""
+    from picker.errors import NoDesignError
+
+    runs: list[tuple] = [(stock, "error", None, False), (stock, "error", None, True)]
+    if _has_rank():
+        runs.append((stock, "pieces", goal / 10.0, False))
+    r_levels, c_levels = levels(stock, "resistor"), levels(stock, "capacitor")
+    for r in r_levels[:TIGHT_LEVELS]:
+        for c in c_levels[:TIGHT_LEVELS]:
+            if r < r_levels[-1] or c < c_levels[-1]:
+                runs.append(
+                    (tight_stock(stock, {"resistor": r, "capacitor": c}), "error", None, False)
+                )
+    if common.get("singles"):
+        runs = [r for r in runs if r[3]]
+    pool: dict[tuple, Candidate] = {}
+    for part, rank, g, singles in runs:
+        kw = dict(common, top=POOL_KEEP, tradeoff=False, time_limit=clock(), singles=singles)
+        if g is not None:
+            kw["max_error"] = g
+        try:
+            found = reference(part, [stage], rank, **kw)
+        except NoDesignError:
+            continue
+        for cand in found.candidates:
+            cand = cand if part is stock else restore(cand, stock)
+            pool.setdefault(identity(cand), cand)
+    return list(pool.values())
+
+
+def _has_rank() -> bool:
+    from picker.search.api import search as plain
+
+    return "rank" in inspect.signature(plain).parameters
+
+
+def best_joint(stages, counts: dict, *, price: float, top: int, steps: int = STEPS):
+    """Best ``top`` combinations by ``sum(cost) + price * pieces`` (then pieces), no unit
+    used more often than ``counts`` allows.
+
+    ``stages``: per stage ``(cost array, pieces array, needs)``, ``needs[i]`` the
+    ``[(unit, pieces)]`` of row ``i``. Depth-first over the stages with rows in
+    increasing key; a branch ends when its key plus the smallest keys of the later
+    stages cannot beat the ``top``-th found. Returns ``([(key, pieces, rows)], complete)``.
+    """
+    n = len(stages)
+    keyed = []
+    for cost, pieces, needs in stages:
+        k = np.asarray(cost, float) + price * np.asarray(pieces, float)
+        order = np.lexsort((pieces, k))
+        keyed.append((k[order].tolist(), np.asarray(pieces)[order].tolist(), needs, order))
+    rest = [0.0] * (n + 1)
+    for s in range(n - 1, -1, -1):
+        rest[s] = rest[s + 1] + (keyed[s][0][0] if keyed[s][0] else math.inf)
+    found: list[tuple] = []
+    used: Counter = Counter()
+    chosen: list[int] = []
+    tried = [0]
+
+    def visit(s, key, pieces):
+        if s == n:
+            found.append((key, pieces, tuple(chosen)))
+            found.sort(key=lambda f: (f[0], f[1]))
+            del found[top:]
+            return
+        ks, ps, needs, order = keyed[s]
+        for i in range(len(ks)):
+            tried[0] += 1
+            if tried[0] > steps:
+                raise StopIteration
+            # ties end the branch too: rows come fewest pieces first within a key
+            if len(found) >= top and key + ks[i] + rest[s + 1] >= found[-1][0]:
+                break
+            need = needs[int(order[i])]
+            if any(used[u] + m > counts[u] for u, m in need):
+                continue
+            used.update(dict(need))
+            chosen.append(int(order[i]))
+            visit(s + 1, key + ks[i], pieces + ps[i])
+            chosen.pop()
+            used.subtract(dict(need))
+
+    complete = True
+    try:
+        visit(0, 0.0, 0)
+    except StopIteration:
+        complete = False
+    return found, complete
+
+
+def search(
+    stock,
+    stages,
+    *,
+    window=0.05,
+    trials: int = 10000,
+    distribution: str = "uniform",
+    seed: int = 0,
+    top: int = 5,
+    singles: bool = False,
+    allow_polarized: bool = False,
+    bounds: Bounds | None = None,
+    tradeoff: bool = True,
+    for_people: bool = False,
+    time_limit: float | None = None,
+    **search_kw,
+) -> YieldResult:
+    """Candidates ranked by Monte Carlo yield inside ``window`` (see the module text).
+
+    ``window``, ``trials``, ``distribution`` and ``seed`` are those of the error budget
+    (``picker.budget.budget``); the other options are ``search``'s, passed on to the
+    searches of steps 1 and 2 (``time_limit`` is shared out: each search gets what is
+    left of it)."""
+    from picker.budget.core import _window
+    from picker.search.opamp import choose_opamp
+    from picker.search.yieldest import estimate
+
+    win = _window(window)
+    bounds = Bounds() if bounds is None else bounds
+    start = time.monotonic()
+
+    def left() -> float | None:
+        return None if time_limit is None else max(0.5, time_limit - (time.monotonic() - start))
+
+    common = dict(singles=singles, allow_polarized=allow_polarized, bounds=bounds, **search_kw)
+    top = max(1, int(top))
+    by_pieces = reference(
+        stock, stages, "pieces", top=top, tradeoff=tradeoff, for_people=for_people,
+        time_limit=left(), **common,
+    )  # fmt: skip
+    by_error = reference(stock, stages, "error", top=1, tradeoff=False, time_limit=left(), **common)
+    mc = dict(trials=trials, distribution=distribution, window=win, seed=seed)
+    refs = {
+        "pieces": (by_pieces.candidates[0], monte_carlo_yield(by_pieces.candidates[0], **mc)),
+        "error": (by_error.candidates[0], monte_carlo_yield(by_error.candidates[0], **mc)),
+    }
+    pool_kw = {k: v for k, v in common.items() if k not in ("max_error",)}
+    pools, offered, counts = [], [], {}
+    for topo, target in stages:
+        rows = stage_pool(stock, (topo, target), goal=max(win.values()), common=pool_kw, clock=left)
+        choices = [c.stages[0] for c in rows]
+        est = estimate(topo, target, choices, window=win, distribution=distribution)
+        needs = []
+        for choice in choices:
+            use = Counter(piece_key(p) for _, arr in choice.positions for p in arr.parts)
+            for _, arr in choice.positions:
+                for p in arr.parts:
+                    counts[piece_key(p)] = capacity(p)
+            needs.append(list(use.items()))
+        pools.append((rows, est))
+        pieces = np.array([c.pieces for c in rows], dtype=np.int64)
+        offered.append((-np.log(np.maximum(est, 1e-300)), pieces, needs))
+
+    notes = list(by_pieces.notes)
+    y0 = max(refs["pieces"][1].value, refs["error"][1].value, 1e-9)
+    se = math.sqrt(max(y0 * (1.0 - y0), 1.0 / trials) / trials) / y0
+    opamp, warnings = choose_opamp(stock.opamps, stages)
+    built: dict[tuple, tuple] = {}
+    for price in PRICES:
+        found, complete = best_joint(offered, counts, price=price * se, top=JOINT_TOP)
+        if not complete:
+            notes.append(
+                "yield ranking: the joint search of the estimates stopped at its step "
+                "limit; the candidates confirmed are the best it found"
+            )
+        for rank, (_, _, rows) in enumerate(found):
+            parts = [pools[s][0][i] for s, i in enumerate(rows)]
+            cand = Candidate(
+                score=max(p.score for p in parts),
+                pieces=sum(p.pieces for p in parts),
+                stages=tuple(p.stages[0] for p in parts),
+                opamp=opamp,
+                warnings=tuple(warnings),
+            )
+            joint = math.prod(float(pools[s][1][i]) for s, i in enumerate(rows))
+            key = identity(cand)
+            if key not in built or rank < built[key][2]:
+                built[key] = (cand, YieldInfo(joint, "estimate"), rank)
+    by_estimate = sorted(built.values(), key=lambda b: (-b[1].value, b[0].pieces, b[0].score))
+    confirm = [b for b in by_estimate if b[2] < CONFIRM][: max(top, CONFIRM) + len(PRICES)]
+    items = [(c, monte_carlo_yield(c, **mc)) for c, _, _ in confirm]
+    for cand, info in refs.values():
+        if identity(cand) not in {identity(c) for c, _ in items}:
+            items.append((cand, info))
+    ranked = order_confirmed(items, [info for _, info in refs.values()])
+    shown = {identity(c) for c, _ in ranked}
+    ranked += [(c, info) for c, info, _ in by_estimate if identity(c) not in shown]
+    if for_people:
+        ranked = _alike(ranked, stages)
+    ranked = ranked[:top]
+    notes.append(
+        "yield ranking: rank 1 has the highest Monte Carlo yield of the candidates "
+        "confirmed (equal within the standard error: fewer pieces); it is not proven "
+        "the highest of the whole space"
+    )
+    fields = {f.name: getattr(by_pieces, f.name) for f in dataclasses.fields(by_pieces)}
+    fields.update(candidates=[c for c, _ in ranked], notes=tuple(notes))
+    if "rank" in fields:
+        fields.update(rank="yield", proven=False)
+    return YieldResult(
+        **fields,
+        yields=tuple(info for _, info in ranked),
+        references=tuple((k, info) for k, (_, info) in refs.items()),
+    )
+
+
+def _alike(ranked, stages):
+    """Look-alike candidates once (the search's own grouping), each keeping its yield."""
+    import importlib
+
+    try:
+        group = importlib.import_module("picker.search.alike").group
+        kept = group([c for c, _ in ranked], stages)
+    except ImportError:
+        from picker.search.api import distinct
+
+        kept = distinct([c for c, _ in ranked])
+    out = []
+    by_id = {identity(c): info for c, info in ranked}
+    for c in kept:
+        out.append((c, by_id[identity(c)]))
+    return out
