@@ -60,6 +60,12 @@ def register(subparsers) -> None:
             metavar="V",
             help=f"bound on each position's combined value (default {default})",
         )
+    p.add_argument(
+        "--rank",
+        choices=("pieces", "error", "yield"),
+        default="error",
+        help="what rank 1 is: yield = the highest Monte Carlo yield inside --window",
+    )
     p.add_argument("--top", type=int, default=5, metavar="N", help="candidates (default 5)")
     p.add_argument(
         "--window", default="5%", metavar="W", help="yield window around each target (default 5%%)"
@@ -204,7 +210,7 @@ def _budget_module():
 def run(args) -> int:
     from picker.commands.common import load_stock
     from picker.filters import plan_stages
-    from picker.search import Bounds, search
+    from picker.search import Bounds, SearchResult, search
 
     request = parse_request(args)
     for w in request.pop("_notes"):
@@ -227,16 +233,21 @@ def run(args) -> int:
         q=request["q"],
         family=request["topology"],
     )
-    result = search(
-        stock,
-        stages,
+    opts = request.pop("_budget")
+    kw = dict(
         singles=request["singles"],
         allow_polarized=request["allow_polarized"],
         bounds=Bounds(**request["bounds"]),
         top=args.top,
         for_people=True,
     )
-    opts = request.pop("_budget")
+    if getattr(args, "rank", None) == "yield":
+        from picker.search.yieldrank import search as by_yield
+
+        mc = {k: opts[k] for k in ("window", "trials", "distribution", "seed")}
+        result: SearchResult = by_yield(stock, stages, **mc, **kw)
+    else:
+        result = search(stock, stages, **kw)
     mod = _budget_module()
     budgets = (
         [mod.budget(c, **opts) if mod else None for c in result.candidates]
@@ -250,7 +261,11 @@ def run(args) -> int:
 
         from picker.report.design import design_json
 
-        print(json.dumps(design_json(result, budgets), indent=2))
+        out = design_json(result, budgets)
+        yields = getattr(result, "yields", ())
+        for cand, info in zip(out["candidates"], yields, strict=False):
+            cand["yield"] = info.to_json()
+        print(json.dumps(out, indent=2))
         return 0
     _print_report(result, budgets[0], request, stages)
     return 0
@@ -283,3 +298,7 @@ def _print_report(result, budget, request, stages) -> None:
     title = title_of(request, len(stages))
     console = Console(width=min(Console().width, 100))
     console.print(DesignReport(result, title=title, budget_panel=panel, warnings=warnings))
+    if getattr(result, "yields", ()):
+        from picker.report.yields import YieldTable
+
+        console.print(YieldTable(result))
