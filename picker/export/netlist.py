@@ -25,12 +25,13 @@ from __future__ import annotations
 
 import math
 
-from picker.analysis import A0_DEFAULT
 from picker.errors import DesignError
 from picker.export.bom import designator
 from picker.export.design_file import SavedDesign
 
-OPEN_LOOP_GAIN = A0_DEFAULT  # the same open-loop gain as picker.analysis (2e5, common practice)
+# the open-loop gain of picker.analysis.A0_DEFAULT (2e5, common practice), written out
+# here so that `picker netlist` does not import numpy; a test keeps the two equal
+OPEN_LOOP_GAIN = 2e5
 GM = 1e-3  # transconductance of the macro-model's input stage, siemens
 POINTS_PER_DECADE = 50
 

@@ -25,11 +25,35 @@ The planning conventions (fc, high-pass transform, stage order, where the gain g
 what it is referred to) are in :mod:`picker.filters.planning`.
 """
 
+from __future__ import annotations
+
+from typing import TYPE_CHECKING, Any
+
 from picker.errors import DesignError
 from picker.filters import topologies  # noqa: F401  (registers every topology)
 from picker.filters.base import REGISTRY, Element, PositionSpec, Topology, register
-from picker.filters.planning import minimum_order, plan_stages
-from picker.filters.prototypes import prototype_poles, sections
+
+if TYPE_CHECKING:
+    from picker.filters.planning import minimum_order, plan_stages
+    from picker.filters.prototypes import prototype_poles, sections
+
+# planning and prototypes need numpy; they load on first use, so that reading a
+# topology's netlist (``picker netlist``) starts without numpy
+_LAZY = {
+    "minimum_order": "picker.filters.planning",
+    "plan_stages": "picker.filters.planning",
+    "prototype_poles": "picker.filters.prototypes",
+    "sections": "picker.filters.prototypes",
+}
+
+
+def __getattr__(name: str) -> Any:
+    module = _LAZY.get(name)
+    if module is None:
+        raise AttributeError(f"module 'picker.filters' has no attribute {name!r}")
+    import importlib
+
+    return getattr(importlib.import_module(module), name)
 
 
 def get_topology(key: str) -> Topology:

@@ -8,11 +8,16 @@ from __future__ import annotations
 
 import math
 from collections.abc import Mapping
-
-import numpy as np
+from typing import TYPE_CHECKING
 
 from picker.errors import DesignError
 from picker.parts import StageTarget
+
+if TYPE_CHECKING:
+    import numpy as np
+
+# numpy is imported inside the functions that evaluate, so that reading a topology's
+# netlist (``picker netlist``) does not load it
 
 TWO_PI = 2.0 * math.pi
 
@@ -26,6 +31,8 @@ def value(values: Mapping[str, np.ndarray | float], name: str) -> np.ndarray:
             f"component value for position {name!r} is missing "
             f"(given: {', '.join(sorted(values)) or 'none'})"
         ) from None
+    import numpy as np
+
     return np.asarray(raw, dtype=float)
 
 
@@ -36,6 +43,8 @@ def unity_like(x):
 
 def second_order(b0, b1):
     """(f0_hz, q) of ``b0 s^2 + b1 s + 1``; q <= 0 or inf marks an unstable or lossless stage."""
+    import numpy as np
+
     with np.errstate(divide="ignore", invalid="ignore"):
         root = np.sqrt(b0)
         return 1.0 / (TWO_PI * root), root / b1
@@ -43,6 +52,8 @@ def second_order(b0, b1):
 
 def first_order_hz(tau):
     """Corner frequency in hertz of ``1 + s tau``."""
+    import numpy as np
+
     with np.errstate(divide="ignore"):
         return 1.0 / (TWO_PI * tau)
 

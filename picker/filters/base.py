@@ -14,11 +14,12 @@ from __future__ import annotations
 from abc import ABC, abstractmethod
 from collections.abc import Mapping
 from dataclasses import dataclass
-from typing import ClassVar
-
-import numpy as np
+from typing import TYPE_CHECKING, ClassVar
 
 from picker.parts import StageTarget
+
+if TYPE_CHECKING:  # numpy only in annotations: `picker netlist` starts without it
+    import numpy as np
 
 
 @dataclass(frozen=True)
