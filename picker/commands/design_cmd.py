@@ -9,6 +9,8 @@ from __future__ import annotations
 import argparse
 import sys
 
+from picker.commands import design_extras
+
 TYPES = ("lowpass", "highpass", "bandpass")
 
 
@@ -99,6 +101,7 @@ def register(subparsers) -> None:
         default=argparse.SUPPRESS,
         help="stock file (as the top-level --stock)",
     )
+    design_extras.register_options(p)  # --stopband, --attenuation, --show (docs/outputs.md)
     p.set_defaults(run=run)
 
 
@@ -215,6 +218,7 @@ def run(args) -> int:
     request = parse_request(args)
     for w in request.pop("_notes"):
         print(f"picker: warning: {w}", file=sys.stderr)
+    spec = design_extras.apply_spec(args, request)
     stock = load_stock(getattr(args, "stock", None))
     if args.save:
         # refuse a bad save target before a search that may take a while
@@ -265,9 +269,11 @@ def run(args) -> int:
         yields = getattr(result, "yields", ())
         for cand, info in zip(out["candidates"], yields, strict=False):
             cand["yield"] = info.to_json()
+        out = design_extras.add_json(out, spec, result, args)
         print(json.dumps(out, indent=2))
         return 0
     _print_report(result, budgets[0], request, stages)
+    design_extras.print_views(result, args)
     return 0
 
 
