@@ -149,9 +149,7 @@ def step_view(candidate, *, window_s: float | None = None, gbw: bool = True) -> 
         t = np.linspace(0.0, t_end, n)
         y = step_response(net, t, gbw_hz=gbw_hz)
         view = _step_metrics(kind, t, y, *_final_and_jump(nets, f_ref, kind))
-        if window_s is not None or (
-            view.settling_s is not None and view.settling_s < 0.8 * t_end
-        ):
+        if window_s is not None or (view.settling_s is not None and view.settling_s < 0.8 * t_end):
             return view
         t_end *= 2.0
     return view
