@@ -28,6 +28,7 @@ COMMAND_MODULES = (
     "picker.commands.stock_cmd",
     "picker.commands.design_cmd",
     "picker.commands.outputs_cmd",
+    "picker.commands.plot_cmd",
     "picker.commands.repair_cmd",
 )
 
@@ -92,6 +93,30 @@ def _add_stock_everywhere(parser: argparse.ArgumentParser) -> None:
             )
 
 
+def version() -> str:
+    """The installed package's version (its metadata), else the source tree's."""
+    from importlib.metadata import PackageNotFoundError
+    from importlib.metadata import version as installed
+
+    try:
+        return installed("picker")
+    except PackageNotFoundError:
+        import picker
+
+        return str(getattr(picker, "__version__", "unknown"))
+
+
+class _VersionAction(argparse.Action):
+    """``--version``: the version is looked up only when asked (no cost at start-up)."""
+
+    def __init__(self, option_strings, dest=argparse.SUPPRESS, **kwargs) -> None:
+        super().__init__(option_strings, dest, nargs=0, default=argparse.SUPPRESS, **kwargs)
+
+    def __call__(self, parser, namespace, values, option_string=None) -> None:
+        print(f"picker {version()}")
+        parser.exit(0)
+
+
 def build_parser() -> argparse.ArgumentParser:
     parser = Parser(
         prog="picker",
@@ -108,6 +133,7 @@ def build_parser() -> argparse.ArgumentParser:
     parser.add_argument(
         "--mouse", action="store_true", help="let the terminal UI take the mouse (off by default)"
     )
+    parser.add_argument("--version", action=_VersionAction, help="print picker's version and exit")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND")
     for name in COMMAND_MODULES:
         try:

@@ -1,14 +1,17 @@
 """Subcommands on a saved design: ``bom``, ``netlist``, ``build``; and ``undo`` of a build.
 
-    picker bom DESIGN.toml [--csv]              parts list and pick list by drawer
+    picker bom DESIGN.toml [--csv [--per-reference]] [--json]
+                                                parts list and pick list by drawer
     picker netlist DESIGN.toml                  SPICE text for ngspice
-    picker build DESIGN.toml --stock FILE [--yes] [--again]
-    picker undo --stock FILE [--yes]
+    picker build DESIGN.toml --stock FILE [--yes] [--again] [--json]
+    picker undo --stock FILE [--yes] [--json]
 
 Exit 3 from build or undo: the stock file was changed but the command could not finish
 (docs/reliability.md); the message says what was done and how to undo it.
 
-Heavy imports (rich, the export package) happen inside ``run`` functions.
+Heavy imports (rich, the export package) happen inside ``run`` functions; ``bom --csv``
+and ``netlist`` import neither numpy nor rich. JSON shapes (``outputs_json``):
+docs/outputs.md.
 """
 
 from __future__ import annotations
@@ -23,11 +26,19 @@ def register(subparsers) -> None:
         "bom",
         help="bill of materials and pick list of a saved design",
         description="Bill of materials of a saved design, then the parts to take drawer by drawer.",
-        epilog="examples:\n  picker bom d.toml\n  picker bom d.toml --csv > parts.csv",
+        epilog="examples:\n  picker bom d.toml\n  picker bom d.toml --csv > parts.csv\n"
+        "  picker bom d.toml --csv --per-reference > board.csv\n  picker bom d.toml --json",
         formatter_class=argparse.RawDescriptionHelpFormatter,
     )
     p.add_argument("design", metavar="DESIGN.toml", help="a design saved with picker design --save")
     p.add_argument("--csv", action="store_true", help="print the BOM as CSV (RFC 4180)")
+    p.add_argument(
+        "--per-reference",
+        action="store_true",
+        help="with --csv: one row per reference designator (R1_S1, R2_S1a ...), "
+        "named as in the netlist, for board tools",
+    )
+    p.add_argument("--json", action="store_true", help="print one JSON object")
     p.set_defaults(run=run_bom)
 
     p = subparsers.add_parser(
@@ -69,6 +80,7 @@ def register(subparsers) -> None:
         help="build the same design a second time onto the stock as its last build left it "
         "(otherwise read as a retry and refused, so parts are never taken twice)",
     )
+    p.add_argument("--json", action="store_true", help="print one JSON object (needs --yes)")
     p.set_defaults(run=run_build)
 
     p = subparsers.add_parser(
@@ -87,6 +99,7 @@ def register(subparsers) -> None:
         help="stock file (default: $PICKER_STOCK, else ./inventory.toml)",
     )
     p.add_argument("--yes", action="store_true", help="do not ask for confirmation")
+    p.add_argument("--json", action="store_true", help="print one JSON object (needs --yes)")
     p.set_defaults(run=run_undo)
 
 
@@ -205,11 +218,25 @@ def design_heading(design) -> str:
 
 
 def run_bom(args) -> int:
+    from picker.errors import DesignError
     from picker.export import bom_csv, bom_rows, load_design, pick_list
 
+    if args.per_reference and not args.csv and not args.json:
+        raise DesignError(
+            "--per-reference goes with --csv (or --json): picker bom d.toml --csv --per-reference"
+        )
+    if args.csv and args.json:
+        raise DesignError("give --csv or --json, not both")
     design = load_design(args.design)
+    if args.json:
+        from picker.commands.outputs_json import bom_json, print_json
+
+        print_json(bom_json(design))
+        return 0
     if args.csv:
-        text = bom_csv(design)
+        from picker.export.bom import reference_csv
+
+        text = reference_csv(design) if args.per_reference else bom_csv(design)
         if sys.stdout.isatty():  # on a screen, not into a file: no raw control characters
             from picker.report.owner import visible
 
@@ -238,6 +265,9 @@ def run_build(args) -> int:
     from stock.file import load
 
     design = load_design(args.design)
+    from picker.commands.outputs_json import json_needs_yes
+
+    json_needs_yes(args, "build")
     stock_arg = getattr(args, "stock", None)
     if stock_arg is None:
         # the design file never chooses what gets written: name the file, and ask
@@ -260,6 +290,17 @@ def run_build(args) -> int:
         _err(f"note: {line}")
     stock = load(stock_path)
     plan = plan_build(design, stock)
+    if args.json:
+        from picker.commands.outputs_json import build_json, print_json
+
+        try:
+            result = do_build(stock_path, plan, again=again)
+        except PartlyDoneError as exc:
+            for line in str(exc).splitlines():
+                _err(line)
+            return exc.exit_code
+        print_json(build_json(stock_path, plan, result))
+        return 0
     console = _console()
     console.print(pick_table(plan.picks))
     for w in plan.warnings:
@@ -300,8 +341,10 @@ def _refuse_sample(stock_path) -> None:
 def run_undo(args) -> int:
     from picker.building import undo_last, undo_preview
     from picker.commands.common import resolve_stock_path
+    from picker.commands.outputs_json import json_needs_yes
     from stock.errors import PartlyDoneError
 
+    json_needs_yes(args, "undo")
     stock_path, note = resolve_stock_path(getattr(args, "stock", None))
     _refuse_sample(stock_path)
     if note:
@@ -310,6 +353,17 @@ def run_undo(args) -> int:
     for line in preview.notes:
         _err(f"note: {line}")
     record = preview.record
+    if args.json:
+        from picker.commands.outputs_json import print_json, undo_json
+
+        try:
+            undo_last(stock_path)
+        except PartlyDoneError as exc:
+            for line in str(exc).splitlines():
+                _err(line)
+            return exc.exit_code
+        print_json(undo_json(stock_path, record, already_undone=preview.already_undone))
+        return 0
     console = _console()
     if preview.already_undone:
         try:

@@ -64,6 +64,11 @@ def register(subparsers) -> None:
         help="stock file (default: --stock, "
         "$PICKER_STOCK, ./inventory.toml, else the bundled sample)",
     )
+    c.add_argument(
+        "--json",
+        action="store_true",
+        help="print one JSON object: ok, counts, warnings or errors (exit codes as without)",
+    )
     c.set_defaults(run=run_check)
 
     ls = sub.add_parser(
@@ -147,6 +152,8 @@ def run_check(args) -> int:
     path, note = _stock_path(args)
     if note:
         print(f"picker: {note}", file=sys.stderr)
+    if getattr(args, "json", False):
+        return _check_json(path)
     stock = load(path)
     from picker.report.owner import visible
 
@@ -161,6 +168,37 @@ def run_check(args) -> int:
         f"{'' if len(stock.warnings) == 1 else 's'}"
     )
     return 0
+
+
+def _check_json(path) -> int:
+    """``stock check --json``: one object on stdout, errors included; exit 0 or 2."""
+    import json
+
+    from stock.errors import PickerError
+    from stock.file import load
+
+    out: dict = {"path": str(path)}
+    try:
+        stock = load(path)
+    except PickerError as exc:
+        out.update(ok=False, errors=str(exc).splitlines() or [type(exc).__name__])
+        code = 2
+    else:
+        out.update(
+            ok=True,
+            sha256=stock.sha256,
+            lines={
+                "resistor": len(stock.resistors),
+                "capacitor": len(stock.capacitors),
+                "opamp": len(stock.opamps),
+            },
+            warnings=list(stock.warnings),
+            errors=[],
+        )
+        code = 0
+    json.dump(out, sys.stdout, indent=2, ensure_ascii=False)
+    print()
+    return code
 
 
 def run_list(args) -> int:

@@ -40,6 +40,14 @@ def designator(position_name: str, arrangement: str, k: int) -> str:
     return position_name if arrangement == "single" else position_name + "ab"[k]
 
 
+def reference_name(kind: str, name: str, stage: int, suffix: str = "") -> str:
+    """The netlist's and the per-reference BOM's name of a piece: ``R1_S2``; pair pieces
+    ``R1_S2a``/``R1_S2b``. ``kind`` is the element letter ("R", "C", "U"); a position
+    whose name does not start with it gets it in front."""
+    base = name if name[:1].upper() == kind else kind + name
+    return f"{base}_S{stage}{suffix}"
+
+
 def opamp_packages(design: SavedDesign) -> int:
     """Op-amp packages the design needs: one channel per stage."""
     if design.opamp is None:
@@ -131,6 +139,122 @@ def bom_csv(design: SavedDesign) -> str:
                 r.count,
                 r.positions,
                 " ".join(r.measured),
+            )
+        )
+    return out.getvalue()
+
+
+# --------------------------------------------------------------------------- per reference
+
+CSV_PER_REFERENCE_HEADER = (
+    "reference",
+    "kind",
+    "value",
+    "tolerance",
+    "location",
+    "stage",
+    "position",
+    "measured",
+    "note",
+)
+
+
+@dataclass(frozen=True)
+class ReferenceRow:
+    """One physical piece (or op-amp channel, or kept part) under its netlist name."""
+
+    reference: str  # "R1_S1", "R2_S1a", "U1_S2"
+    kind: str  # "resistor" | "capacitor" | "opamp"
+    value: str  # RKM code of the nominal value; the op amp's name
+    tolerance: str  # "1%"; empty for op amps and kept parts of unknown tolerance
+    location: str | None
+    stage: int
+    position: str  # the topology's designator: "R1"
+    measured: str = ""  # the reading, RKM code, of a measured piece
+    note: str = ""
+
+
+def reference_rows(design: SavedDesign) -> list[ReferenceRow]:
+    """One row per reference designator, in the order of the stages and their positions.
+
+    Pair pieces are ``R1_S1a`` and ``R1_S1b`` as the netlist names them; a position kept
+    from the board (a repair) has one row, noted, and takes nothing from the stock; each
+    stage's op-amp channel is ``U1_S<stage>`` (the netlist's ``XU1_S<stage>`` without
+    SPICE's subcircuit prefix), with the package and channel it sits on.
+    """
+    from stock.values import format_rkm
+
+    rows: list[ReferenceRow] = []
+    for s, stage in enumerate(design.stages, start=1):
+        for pos in stage.positions:
+            letter = "R" if pos.kind == "resistor" else "C"
+            if not pos.parts:
+                tol = pos.kept_tolerance
+                rows.append(
+                    ReferenceRow(
+                        reference=reference_name(letter, pos.name, s),
+                        kind=pos.kind,
+                        value=format_rkm(pos.value, pos.kind),
+                        tolerance="" if tol is None else _format_tolerance(tol),
+                        location=None,
+                        stage=s,
+                        position=pos.name,
+                        note="kept: the part on the board stays",
+                    )
+                )
+                continue
+            for k, part in enumerate(pos.parts):
+                suffix = "" if pos.arrangement == "single" else "ab"[k]
+                rows.append(
+                    ReferenceRow(
+                        reference=reference_name(letter, pos.name, s, suffix),
+                        kind=part.kind,
+                        value=format_rkm(part.nominal, part.kind),
+                        tolerance=_format_tolerance(_line_tolerance(part)),
+                        location=part.location,
+                        stage=s,
+                        position=pos.name,
+                        measured="" if part.measured is None else format_rkm(part.value, part.kind),
+                        note="" if pos.arrangement == "single" else f"{pos.arrangement} pair",
+                    )
+                )
+    if design.opamp is not None:
+        oa = design.opamp
+        channels = max(1, oa.channels)
+        for s in range(1, len(design.stages) + 1):
+            package, channel = divmod(s - 1, channels)
+            rows.append(
+                ReferenceRow(
+                    reference=reference_name("U", "U1", s),
+                    kind="opamp",
+                    value=oa.name,
+                    tolerance="",
+                    location=oa.location,
+                    stage=s,
+                    position="U1",
+                    note=f"package {package + 1}, channel {channel + 1} of {channels}",
+                )
+            )
+    return rows
+
+
+def reference_csv(design: SavedDesign) -> str:
+    """The per-reference BOM as CSV (RFC 4180, CRLF, a header row)."""
+    out = io.StringIO()
+    writer = csv.writer(out, lineterminator="\r\n")
+    writer.writerow(CSV_PER_REFERENCE_HEADER)
+    for r in reference_rows(design):
+        writer.writerow(
+            (
+                r.reference,
+                r.kind,
+                r.value,
+                r.tolerance,
+                r.location or "",
+                r.stage,
+                r.position,
+                r.measured,
+                r.note,
             )
         )
     return out.getvalue()

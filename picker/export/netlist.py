@@ -26,7 +26,7 @@ from __future__ import annotations
 import math
 
 from picker.errors import DesignError
-from picker.export.bom import designator
+from picker.export.bom import designator, reference_name
 from picker.export.design_file import SavedDesign
 
 # the open-loop gain of picker.analysis.A0_DEFAULT (2e5, common practice), written out
@@ -126,7 +126,7 @@ def spice_netlist(design: SavedDesign) -> str:
             a, b = (node(x) for x in e.nodes)
             pos = positions.get(e.name)
             if pos is not None and not pos.parts:  # kept: the part in the circuit stays
-                name = _spice_name(e.kind, pos.name, s, "")
+                name = reference_name(e.kind, pos.name, s, "")
                 lines.append(
                     f"* {name} = stage {s} {pos.name}: "
                     f"{format_rkm(pos.value, pos.kind)}, stays in the circuit"
@@ -134,7 +134,7 @@ def spice_netlist(design: SavedDesign) -> str:
                 lines.append(f"{name} {a} {b} {_num(pos.value)}")
                 continue
             if pos is None:  # a fixed element of the topology
-                lines.append(f"{_spice_name(e.kind, e.name, s, '')} {a} {b} {_num(e.value)}")
+                lines.append(f"{reference_name(e.kind, e.name, s, '')} {a} {b} {_num(e.value)}")
                 continue
             ends = [(a, b)] * len(pos.parts)
             if pos.arrangement == "series":
@@ -142,7 +142,7 @@ def spice_netlist(design: SavedDesign) -> str:
                 ends = [(a, mid), (mid, b)]
             for k, part in enumerate(pos.parts):
                 suffix = "" if pos.arrangement == "single" else "ab"[k]
-                name = _spice_name(e.kind, pos.name, s, suffix)
+                name = reference_name(e.kind, pos.name, s, suffix)
                 where = f"drawer {visible(part.location)}" if part.location else "no location"
                 reading = f" (measured piece {part.measured})" if part.measured is not None else ""
                 lines.append(
@@ -174,11 +174,6 @@ def sweep_range(design: SavedDesign) -> tuple[float, float]:
     lo = 10.0 ** math.floor(math.log10(min(f0s) / 100.0))
     hi = 10.0 ** math.ceil(math.log10(max(f0s) * 100.0))
     return lo, hi
-
-
-def _spice_name(kind: str, name: str, stage: int, suffix: str) -> str:
-    base = name if name[:1].upper() == kind else kind + name
-    return f"{base}_S{stage}{suffix}"
 
 
 def _num(value: float) -> str:

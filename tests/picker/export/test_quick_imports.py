@@ -24,7 +24,7 @@ def test_netlist_gain_is_the_analysis_gain():
 
 @pytest.mark.parametrize(
     "argv",
-    [["bom", "--csv"], ["netlist"]],
+    [["bom", "--csv"], ["bom", "--csv", "--per-reference"], ["netlist"]],
     ids=" ".join,
 )
 def test_quick_exports_import_no_numpy(tmp_path, argv):
