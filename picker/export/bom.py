@@ -124,13 +124,20 @@ def _line_tolerance(part) -> float:
     return part.tolerance if part.line_tolerance is None else part.line_tolerance
 
 
-def bom_csv(design: SavedDesign) -> str:
-    """The BOM as CSV text (RFC 4180: quoted where needed, CRLF line ends, a header row)."""
+def csv_text(header, rows) -> str:
+    """CSV text as RFC 4180 writes it: a header row, quoted where needed, CRLF line ends."""
     out = io.StringIO()
     writer = csv.writer(out, lineterminator="\r\n")
-    writer.writerow(CSV_HEADER)
-    for r in bom_rows(design):
-        writer.writerow(
+    writer.writerow(header)
+    writer.writerows(rows)
+    return out.getvalue()
+
+
+def bom_csv(design: SavedDesign) -> str:
+    """The BOM as CSV text (RFC 4180: quoted where needed, CRLF line ends, a header row)."""
+    return csv_text(
+        CSV_HEADER,
+        (
             (
                 r.kind,
                 r.value,
@@ -140,8 +147,9 @@ def bom_csv(design: SavedDesign) -> str:
                 r.positions,
                 " ".join(r.measured),
             )
-        )
-    return out.getvalue()
+            for r in bom_rows(design)
+        ),
+    )
 
 
 # --------------------------------------------------------------------------- per reference
@@ -240,11 +248,9 @@ def reference_rows(design: SavedDesign) -> list[ReferenceRow]:
 
 def reference_csv(design: SavedDesign) -> str:
     """The per-reference BOM as CSV (RFC 4180, CRLF, a header row)."""
-    out = io.StringIO()
-    writer = csv.writer(out, lineterminator="\r\n")
-    writer.writerow(CSV_PER_REFERENCE_HEADER)
-    for r in reference_rows(design):
-        writer.writerow(
+    return csv_text(
+        CSV_PER_REFERENCE_HEADER,
+        (
             (
                 r.reference,
                 r.kind,
@@ -256,5 +262,6 @@ def reference_csv(design: SavedDesign) -> str:
                 r.measured,
                 r.note,
             )
-        )
-    return out.getvalue()
+            for r in reference_rows(design)
+        ),
+    )

@@ -90,9 +90,14 @@ def draw(data: ResponseData, *, title: str, step=None):
         line_m.set_gid(GIDS["magnitude"])
         (line_p,) = ax_p.plot(f, data.phase_deg, color="tab:blue", label="phase")
         line_p.set_gid(GIDS["phase"])
+        from matplotlib.ticker import FuncFormatter, NullFormatter
+
         for ax in (ax_m, ax_p):
             ax.set_xscale("log")
             ax.set_xlim(float(f[0]), float(f[-1]))
+            # plain "1 kHz" labels: easier to read than powers of ten, and no mathtext
+            ax.xaxis.set_major_formatter(FuncFormatter(lambda x, _pos: _hz(x)))
+            ax.xaxis.set_minor_formatter(NullFormatter())
             ax.grid(True, which="both", alpha=0.3)
             ax.set_xlabel("frequency (Hz)")
             if data.target_hz is not None:

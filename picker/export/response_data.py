@@ -17,8 +17,6 @@ Contracts: docs/outputs.md. numpy is needed here; only ``picker plot`` imports t
 
 from __future__ import annotations
 
-import csv
-import io
 import math
 from dataclasses import dataclass
 from types import SimpleNamespace
@@ -161,19 +159,10 @@ def response_data(design: SavedDesign, *, points: int = POINTS) -> ResponseData:
 
 def response_csv(data: ResponseData) -> str:
     """The curve as CSV (RFC 4180 line ends, a header row; numbers to 9 significant digits)."""
-    out = io.StringIO()
-    writer = csv.writer(out, lineterminator="\r\n")
-    writer.writerow(CSV_HEADER)
-    for row in zip(
-        data.f_hz,
-        data.magnitude_db,
-        data.phase_deg,
-        data.band_low_db,
-        data.band_high_db,
-        strict=True,
-    ):
-        writer.writerow([_num(x) for x in row])
-    return out.getvalue()
+    from picker.export.bom import csv_text
+
+    columns = (data.f_hz, data.magnitude_db, data.phase_deg, data.band_low_db, data.band_high_db)
+    return csv_text(CSV_HEADER, ([_num(x) for x in row] for row in zip(*columns, strict=True)))
 
 
 def _num(x: float) -> str:

@@ -23,17 +23,12 @@ from tests.picker.export.helpers import (
     REQUEST,
     lowpass_candidate,
     stock_records,
-    two_stage_candidate,
 )
 
 
 @pytest.fixture
-def two_stage(tmp_path):
-    stock = stock_records(path=tmp_path / "inventory.toml", sha="00" * 32)
-    cand = two_stage_candidate(stock)
-    path = tmp_path / "d.toml"
-    save_design(path, candidate=cand, request=REQUEST, stock=stock)
-    return load_design(path), cand
+def two_stage(saved_two_stage):
+    return saved_two_stage[:2]
 
 
 def test_counts_match_the_candidate_pieces(two_stage):

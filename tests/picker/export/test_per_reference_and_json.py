@@ -12,19 +12,15 @@ import re
 import pytest
 
 from picker.cli import main
-from picker.export import load_design, save_design, spice_netlist
+from picker.export import save_design, spice_netlist
 from picker.export.bom import CSV_PER_REFERENCE_HEADER, reference_csv, reference_rows
 from stock.file import load
-from tests.picker.export.helpers import REQUEST, stock_records, two_stage_candidate
+from tests.picker.export.helpers import REQUEST, two_stage_candidate
 
 
 @pytest.fixture
-def two_stage(tmp_path):
-    stock = stock_records(path=tmp_path / "inventory.toml", sha="00" * 32)
-    cand = two_stage_candidate(stock)
-    path = tmp_path / "d.toml"
-    save_design(path, candidate=cand, request=REQUEST, stock=stock)
-    return load_design(path), cand, path
+def two_stage(saved_two_stage):
+    return saved_two_stage
 
 
 def test_one_row_per_piece_of_the_candidate(two_stage):
