@@ -128,10 +128,10 @@ def draw(data: ResponseData, *, title: str, step=None):
         ax_p.set_ylabel("phase (degrees)")
         ax_m.patch.set_gid(GIDS["magnitude_axes"])
         ax_p.patch.set_gid(GIDS["phase_axes"])
-        info = {
-            "magnitude_xlim": tuple(float(x) for x in ax_m.get_xlim()),
-            "magnitude_ylim": tuple(float(x) for x in ax_m.get_ylim()),
-            "phase_ylim": tuple(float(x) for x in ax_p.get_ylim()),
+        info: dict[str, tuple[float, float]] = {
+            "magnitude_xlim": _lim(ax_m.get_xlim()),
+            "magnitude_ylim": _lim(ax_m.get_ylim()),
+            "phase_ylim": _lim(ax_p.get_ylim()),
         }
         if step is not None:
             ax_s = axes[2]
@@ -150,10 +150,14 @@ def draw(data: ResponseData, *, title: str, step=None):
                 words.append(f"settles to 1 % in {step.settling_s * 1e3:.3g} ms")
             head = "step response" + (": " + ", ".join(words) if words else "")
             ax_s.set_title(head, fontsize="medium")
-            info["step_xlim"] = tuple(float(x) / 1e3 for x in ax_s.get_xlim())
-            info["step_ylim"] = tuple(float(x) for x in ax_s.get_ylim())
+            info["step_xlim"] = _lim(ax_s.get_xlim(), scale=1e-3)
+            info["step_ylim"] = _lim(ax_s.get_ylim())
         fig.suptitle(title)
     return fig, PlotInfo(**info)
+
+
+def _lim(pair, *, scale: float = 1.0) -> tuple[float, float]:
+    return float(pair[0]) * scale, float(pair[1]) * scale
 
 
 def _zoom(ax, data: ResponseData) -> None:
