@@ -89,7 +89,7 @@ class StageChoice:
 
 @dataclass(frozen=True)
 class Candidate:
-    """A whole design: every stage filled, scored by the worst relative error (DESIGN.md 5)."""
+    """A whole design: every stage filled, scored by the worst relative error (docs/search.md)."""
 
     score: float
     pieces: int

@@ -1,4 +1,4 @@
-"""The functional core imports neither textual nor rich (DESIGN.md section 2)."""
+"""The functional core imports neither textual nor rich (docs/architecture.md)."""
 
 import ast
 from pathlib import Path

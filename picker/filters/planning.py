@@ -1,6 +1,6 @@
 """From a response, order, corner and gain to a list of stages (topology, target).
 
-Conventions (decided here; see also DESIGN.md section 6):
+Conventions (decided here; see also docs/cli.md):
 
 * ``fc_hz`` is the -3 dB frequency for Butterworth and Bessel (as scipy.signal's
   ``bessel(norm="mag")``) and the edge of the ripple band for Chebyshev type I.

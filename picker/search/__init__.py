@@ -1,4 +1,4 @@
-"""Exact stock-constrained search (DESIGN.md 5).
+"""Exact stock-constrained search (docs/search.md).
 
     from picker.search import search, Bounds, SearchResult
 

@@ -1,4 +1,4 @@
-"""Joint allocation across stages with quantities shared (DESIGN.md 5).
+"""Joint allocation across stages with quantities shared (docs/search.md).
 
 Each stage offers its assignments in *classes* by piece count ``j`` (one class per
 total of pieces in the stage, see :mod:`picker.search.tradeoff`); a class is described

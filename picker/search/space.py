@@ -1,4 +1,4 @@
-"""The search space: supply units and realizable values per kind (DESIGN.md section 5).
+"""The search space: supply units and realizable values per kind (docs/search.md).
 
 A *unit* is a group of interchangeable physical pieces: the nominal pieces of one stock
 line (``count = nominal_qty``, value = the nominal value, tolerance = the line's) or one
@@ -27,7 +27,7 @@ ARRANGEMENT_NAMES: tuple[ArrangementKind, ...] = ("single", "series", "parallel"
 
 @dataclass(frozen=True)
 class Bounds:
-    """Allowed combined value of every position, per kind (ohm, farad); DESIGN.md 5 defaults."""
+    """Allowed combined value of every position, per kind (ohm, farad) (defaults: docs/search.md)."""
 
     r_min: float = 1e3
     r_max: float = 1e6

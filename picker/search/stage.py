@@ -60,7 +60,7 @@ class StageRows:
 
 
 def scores(topology, target, values: dict, only=("f0", "q", "gain")) -> np.ndarray:
-    """Worst relative error over the targets in ``only`` (DESIGN.md 5); nan -> inf."""
+    """Worst relative error over the targets in ``only`` (docs/search.md); nan -> inf."""
     f0, q, gain = topology.characteristics(values)
     errs = []
     with np.errstate(divide="ignore", invalid="ignore"):

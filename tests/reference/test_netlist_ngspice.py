@@ -240,7 +240,7 @@ def _shape_spread(f, mag, h_ref):
 def test_cascade_shape_matches_scipy(tmp_path, kind, response, order, family, make):
     """The exported cascade, solved by ngspice, has the shape scipy.signal gives for the
     same prototype (fc = -3 dB for Butterworth and Bessel norm="mag", ripple edge for
-    Chebyshev, DESIGN.md section 6): |H_spice / H_scipy| constant within 1 %."""
+    Chebyshev, docs/cli.md): |H_spice / H_scipy| constant within 1 %."""
     from scipy.signal import freqs
 
     from picker.filters import plan_stages

@@ -1,4 +1,4 @@
-"""Build a saved design out of a real stock file, then undo it (DESIGN.md sections 3, 9)."""
+"""Build a saved design out of a real stock file, then undo it (docs/stock-file.md, docs/outputs.md)."""
 
 from __future__ import annotations
 

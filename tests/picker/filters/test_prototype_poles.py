@@ -86,7 +86,7 @@ def test_sections_handbook_values(response, order, rp, expected):
 @pytest.mark.parametrize("response", ["butterworth", "bessel"])
 @pytest.mark.parametrize("order", range(1, 9))
 def test_prototype_is_3db_down_at_one(response, order):
-    # definition of fc for these responses (DESIGN.md section 6)
+    # definition of fc for these responses (docs/cli.md)
     mag = prototypes.normalised_magnitude(response, order, [1e-6, 1.0])
     assert mag[0] == pytest.approx(1.0, rel=1e-9)
     assert 20 * np.log10(mag[1]) == pytest.approx(-10 * np.log10(2), abs=1e-6)

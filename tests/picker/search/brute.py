@@ -3,7 +3,7 @@
 Every position takes every single piece and every pair (series, parallel) straight from
 the stock lines; ``itertools.product`` enumerates every assignment of every stage;
 quantities are counted per supply unit (a line's nominal pieces, each measured piece);
-the score is the worst relative error (DESIGN.md 5) from ``Topology.characteristics``.
+the score is the worst relative error (docs/search.md) from ``Topology.characteristics``.
 """
 
 from __future__ import annotations
