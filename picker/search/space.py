@@ -27,7 +27,7 @@ ARRANGEMENT_NAMES: tuple[ArrangementKind, ...] = ("single", "series", "parallel"
 
 @dataclass(frozen=True)
 class Bounds:
-    """Allowed combined value of every position, per kind (ohm, farad) (defaults: docs/search.md)."""
+    """Allowed combined value of each position, per kind (ohm, farad); see docs/search.md."""
 
     r_min: float = 1e3
     r_max: float = 1e6
