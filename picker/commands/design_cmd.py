@@ -9,7 +9,7 @@ from __future__ import annotations
 import argparse
 import sys
 
-from picker.commands import design_extras
+from picker.commands import design_buy, design_extras
 
 TYPES = ("lowpass", "highpass", "bandpass")
 
@@ -102,6 +102,7 @@ def register(subparsers) -> None:
         help="stock file (as the top-level --stock)",
     )
     design_extras.register_options(p)  # --stopband, --attenuation, --show (docs/outputs.md)
+    design_buy.register_options(p)  # --suggest, --buy-series, --buy-tolerance (docs/buying.md)
     p.set_defaults(run=run)
 
 
@@ -212,10 +213,12 @@ def _budget_module():
 
 def run(args) -> int:
     from picker.commands.common import load_stock
+    from picker.errors import NoDesignError
     from picker.filters import plan_stages
     from picker.search import Bounds, SearchResult, search
 
     request = parse_request(args)
+    buy = design_buy.read_options(args)
     for w in request.pop("_notes"):
         print(f"picker: warning: {w}", file=sys.stderr)
     spec = design_extras.apply_spec(args, request)
@@ -251,7 +254,13 @@ def run(args) -> int:
         mc = {k: opts[k] for k in ("window", "trials", "distribution", "seed")}
         result: SearchResult = by_yield(stock, stages, **mc, **kw)
     else:
-        result = search(stock, stages, **kw)
+        try:
+            result = search(stock, stages, **kw)
+        except NoDesignError:
+            if buy:  # no design: say what to buy, then exit 1 as without --suggest
+                design_buy.no_design(buy, args, stock, stages, kw)
+            raise
+    bought = buy and design_buy.run(buy, args, stock, stages, kw, result.candidates[0])
     mod = _budget_module()
     budgets = (
         [mod.budget(c, **opts) if mod else None for c in result.candidates]
@@ -270,10 +279,14 @@ def run(args) -> int:
         for cand, info in zip(out["candidates"], yields, strict=False):
             cand["yield"] = info.to_json()
         out = design_extras.add_json(out, spec, result, args)
+        if bought:
+            out = design_buy.add_json(out, bought)
         print(json.dumps(out, indent=2))
         return 0
     _print_report(result, budgets[0], request, stages)
     design_extras.print_views(result, args)
+    if bought:
+        design_buy.print_section(bought)
     return 0
 
 
