@@ -27,6 +27,7 @@ offered twice the positions of its kind, so that limit never binds (a rank 1 tha
 
 from __future__ import annotations
 
+import contextlib
 import dataclasses
 import math
 import time
@@ -155,7 +156,7 @@ def suggest(
     if rank not in RANKS:
         raise ValueError(f"rank {rank!r}: purchases are ranked under {' or '.join(RANKS)}")
     start = time.monotonic()
-    opts = dict(singles=singles, allow_polarized=allow_polarized, bounds=bounds)
+    opts: dict = dict(singles=singles, allow_polarized=allow_polarized, bounds=bounds)
     trial = Trial(stock, stages, rank, max_error, opts, trial_time_limit)
     if before is None:
         try:
@@ -169,19 +170,23 @@ def suggest(
     for topo, _ in stages:
         for p in topo.positions:
             need[p.kind] += 1
-    space0 = build_space(stock, **opts)
+    space0 = build_space(stock, singles=singles, allow_polarized=allow_polarized, bounds=bounds)
     sources = trial.sources(cand0)
-    spots = near_values(stages, sources, bounds, mantissas(series))
-    if scope == "all":
-        for kind, count in need.items():
-            for v in series_in(mantissas(series), *bounds.of(kind)) if count else ():
-                spots.setdefault((kind, v), [])
+    spots = near_values(stages, sources, bounds, mantissas(series), space0)
+    if scope == "all":  # every preferred value within the bounds, and only those
+        every = [
+            (kind, v)
+            for kind, count in need.items()
+            if count
+            for v in series_in(mantissas(series), *bounds.of(kind))
+        ]
+        spots = {kv: spots.get(kv, []) for kv in every}
     tol = {"resistor": tolerance_r, "capacitor": tolerance_c}
 
     def guess(kind_value) -> tuple:
         per_stage = [
-            (src, estimate(stages, src, name, kind_value[1], space0, bounds))
-            for src, name in spots[kind_value]
+            (src, estimate(stages, src, name, at, n, space0, bounds))
+            for src, name, at, n in spots[kind_value]
         ]
         keys = [rank_key(rank, max_error, *joint(cand0, src, est)) for src, est in per_stage]
         return min(keys, default=(math.inf,))
@@ -265,10 +270,8 @@ class Trial:
         out = []
         for s, (topo, target) in enumerate(self.stages):
             choices = [] if cand0 is None else [cand0.stages[s]]
-            try:
+            with contextlib.suppress(NoDesignError):
                 choices.append(self.rank1(self.stock, [(topo, target)], singles=True).stages[0])
-            except NoDesignError:
-                pass
             for choice in choices:
                 values = {name: arr.value for name, arr in choice.positions}
                 pieces = {name: len(arr.parts) for name, arr in choice.positions}
@@ -303,7 +306,7 @@ class Trial:
     def run(self, purchases, key0, left) -> tuple[list, bool]:
         """Every purchase that improves on ``key0``, in the order tried, and whether
         all were tried before the time ran out."""
-        found = []
+        found: list[tuple] = []
         for ps in purchases:
             if left is not None and left() <= 0:
                 return found, False

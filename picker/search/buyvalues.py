@@ -92,31 +92,62 @@ def synthesized(stage: int, topo, target) -> list[Source]:
     return [Source(stage, {n: float(v) for n, v in values.items()}, dict.fromkeys(values, 1))]
 
 
-def near_values(stages, sources: list[Source], bounds, mantissas) -> dict:
-    """``{(kind, value): [(source, position)]}``: the purchases worth trying and where
-    each may go (see the module text)."""
+PARTNERS = 2  # stock values on each side of an ideal value that a purchase may pair with
+
+
+def near_values(stages, sources: list[Source], bounds, mantissas, space) -> dict:
+    """``{(kind, value): [(source, position, combined value there, pieces there)]}``:
+    the purchases worth trying and where each may go (see the module text)."""
     out: dict[tuple[str, float], list] = {}
     for src in sources:
         topo, target = stages[src.stage]
         for p in topo.positions:
             lo, hi = bounds.of(p.kind)
-            near = [src.values[p.name], ideal_value(topo, target, src.values, p.name, lo, hi)]
-            for x in near:
+            ideal = ideal_value(topo, target, src.values, p.name, lo, hi)
+            for x, wanted in ((src.values[p.name], None), (ideal, ideal)):
                 if x is None or not (x > 0 and math.isfinite(x)):
                     continue
-                for v in bracket(x, mantissas):
-                    if lo * (1 - 1e-9) <= v <= hi * (1 + 1e-9):
+                forms = [(x, None)]
+                if wanted is not None:
+                    forms += partner_forms(p.kind, x, space)
+                for need, partner in forms:
+                    for v in bracket(need, mantissas):
+                        if not lo * (1 - 1e-9) <= v <= hi * (1 + 1e-9) and partner is None:
+                            continue
+                        at = v if partner is None else partner(v)
+                        spot = (src, p.name, at, 1 if partner is None else 2)
                         spots = out.setdefault((p.kind, v), [])
-                        if (src, p.name) not in spots:
-                            spots.append((src, p.name))
+                        if spot not in spots:
+                            spots.append(spot)
     return out
 
 
-def estimate(stages, src: Source, name: str, value: float, space, bounds):
-    """(score, pieces) of the stage of ``src`` with ``value`` bought for ``name``."""
+def partner_forms(kind: str, x: float, space) -> list:
+    """``[(value to buy, combined(v))]``: a bought value that, in series or parallel
+    with one of the ``PARTNERS`` single values on hand nearest below (resistors: series,
+    capacitors: parallel) or above ``x``, makes ``x``."""
+    singles = np.unique(space.values[kind].value[space.values[kind].pieces == 1])
+    i = int(np.searchsorted(singles, x))
+    out = []
+    for w in singles[max(0, i - PARTNERS) : i]:
+        w = float(w)
+        need = x - w  # the adding arrangement (resistors in series, capacitors in parallel)
+        if need > 0:
+            out.append((need, lambda v, w=w: v + w))
+    for w in singles[i : i + PARTNERS]:
+        w = float(w)
+        if w > x:
+            need = 1.0 / (1.0 / x - 1.0 / w)  # the other arrangement
+            out.append((need, lambda v, w=w: v * w / (v + w)))
+    return out
+
+
+def estimate(stages, src: Source, name: str, value: float, n: int, space, bounds):
+    """(score, pieces) of the stage of ``src`` with ``name`` made ``value`` of ``n``
+    pieces, one of them bought."""
     topo, target = stages[src.stage]
     vals = dict(src.values, **{name: value})
-    pieces = dict(src.pieces, **{name: 1})
+    pieces = dict(src.pieces, **{name: n})
     best = (float(scores(topo, target, vals)), sum(pieces.values()))
     for p in topo.positions:
         if p.name == name:
