@@ -16,6 +16,8 @@ Anywhere
   1 2 3 4     go to a pane: drawers, targets, matches, chosen
   ?           this help            (1-4 and ? outside text fields)
   tab         next field or table; shift+tab goes back
+  m           repair mode: a stage as built, substitutes for a part
+  v           step and delay views of the chosen candidate (pane 4)
 
 1 drawers: the stock file
   /           find: words or a value (4.7k finds the 4k7 line);

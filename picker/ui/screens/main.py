@@ -75,8 +75,10 @@ class MainScreen(TypingAware, Screen):
         Binding("3", "pane('matches')", "matches", show=False),
         Binding("4", "pane('chosen')", "chosen", show=False),
         Binding("question_mark", "app.help", "help", key_display="?"),
+        Binding("m", "repair", "repair"),  # picker/ui/screens/repair.py
+        Binding("v", "views", "views"),  # picker/ui/screens/views.py
     ]
-    LETTER_ACTIONS = frozenset({"pane", "app.help"})
+    LETTER_ACTIONS = frozenset({"pane", "app.help", "repair", "views"})
 
     def __init__(self, stock_path: Path | None, note: str | None = None) -> None:
         super().__init__()
@@ -154,6 +156,16 @@ class MainScreen(TypingAware, Screen):
         focusable = [w for w in pane.query(first or "*") if w.focusable]
         (focusable[0] if focusable else pane).focus()
         self.refresh_bindings()
+
+    def action_repair(self) -> None:
+        from picker.ui.screens.repair import open_repair
+
+        open_repair(self)
+
+    def action_views(self) -> None:
+        from picker.ui.screens.views import open_views
+
+        open_views(self)
 
     def action_next_pane(self) -> None:
         ids = [p for p, _ in PANES]
