@@ -17,7 +17,6 @@ Anywhere
   ?           this help            (1-4 and ? outside text fields)
   tab         next field or table; shift+tab goes back
   m           repair mode: a stage as built, substitutes for a part
-  v           step and delay views of the chosen candidate (pane 4)
 
 1 drawers: the stock file
   /           find: words or a value (4.7k finds the 4k7 line);
@@ -34,6 +33,7 @@ Anywhere
 
 3 matches     up/down, then enter: look closer (opens pane 4)
 4 chosen      b: build it (asks first); u: undo the last build
+              v: its step response and group delay
 Dialogs       y yes, n no; a form: ctrl+g cancels (escape too)
 
 Every write to the stock file is locked and atomic, and refused

@@ -75,8 +75,8 @@ class MainScreen(TypingAware, Screen):
         Binding("3", "pane('matches')", "matches", show=False),
         Binding("4", "pane('chosen')", "chosen", show=False),
         Binding("question_mark", "app.help", "help", key_display="?"),
-        Binding("m", "repair", "repair"),  # picker/ui/screens/repair.py
-        Binding("v", "views", "views"),  # picker/ui/screens/views.py
+        Binding("m", "repair", "repair", show=False),  # in the help: the footer is full
+        Binding("v", "views", "views"),  # shown on pane 4 only (check_action)
     ]
     LETTER_ACTIONS = frozenset({"pane", "app.help", "repair", "views"})
 
@@ -156,6 +156,11 @@ class MainScreen(TypingAware, Screen):
         focusable = [w for w in pane.query(first or "*") if w.focusable]
         (focusable[0] if focusable else pane).focus()
         self.refresh_bindings()
+
+    def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
+        if action == "views" and self.current != "chosen":
+            return False  # the views of the chosen candidate: v on pane 4
+        return super().check_action(action, parameters)
 
     def action_repair(self) -> None:
         from picker.ui.screens.repair import open_repair

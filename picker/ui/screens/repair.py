@@ -76,18 +76,18 @@ class RepairScreen(TypingAware, Screen):
     def compose(self) -> ComposeResult:
         name = self.stock_path.name if self.stock_path else "no stock file"
         yield Static(
-            f"repair: a stage as built, and parts from the stock for a failed one   {name}",
+            f"repair: a stage as built, stock parts for a failed one   {name}",
             id="r-title",
             markup=False,
         )
         with VerticalScroll(id="r-body"):
             yield RepairForm(id="r-form")
-            yield Static("", id="r-analysis", markup=False)
-            yield ResponsePlot(id="r-plot")
             yield Static("", id="r-sub-status", markup=False)
             table: DataTable = DataTable(id="r-options", cursor_type="row", zebra_stripes=False)
             table.add_columns(*COLUMNS)
             yield table
+            yield Static("", id="r-analysis", markup=False)
+            yield ResponsePlot(id="r-plot")
             yield Static(cautions_text(), id="r-cautions", markup=False)
         yield Static("", id="r-status", markup=False)
         yield Footer()
@@ -245,6 +245,7 @@ class RepairScreen(TypingAware, Screen):
             f"f0 {backend.format_si(t.f0_hz, 'Hz')}{q}, gain {t.gain:.4g}"
             "   (b or enter: build one)"
         )
+        table.scroll_visible(animate=False)
 
     # building ----------------------------------------------------------------------
     @on(DataTable.RowSelected, "#r-options")

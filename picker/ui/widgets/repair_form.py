@@ -22,7 +22,7 @@ from stock.errors import PickerError
 
 DEFAULT_TOPOLOGY = "sallen-key-lowpass"
 GBW_HINT = "optional: the op amp's, e.g. 1MHz"
-FREE_HINT = "optional: others that may change too, e.g. C2"
+FREE_HINT = "optional: others free to change, e.g. C2"
 
 
 @dataclass(frozen=True)
@@ -60,6 +60,7 @@ class RepairForm(Vertical):
         super().__init__(**kwargs)
         self.topology = DEFAULT_TOPOLOGY
         self.names: list[str] = []
+        self.hints: dict[str, str] = {}
         self._swapping = False
 
     def compose(self) -> ComposeResult:
@@ -83,7 +84,7 @@ class RepairForm(Vertical):
             yield Input("", id="r-gbw", compact=True)
             yield Static(GBW_HINT, id="r-gbw-msg", classes="field-message", markup=False)
         with Horizontal(classes="field-row"):
-            yield Label("failed part", classes="field-label")
+            yield Label("failed", classes="field-label")
             yield Select(
                 self._failed_options(),
                 prompt="none: analyse only",
@@ -112,14 +113,16 @@ class RepairForm(Vertical):
     def _rows(self, key: str) -> list[Horizontal]:
         rows = []
         self.names = []
+        self.hints = {}
         for name, kind, role in jobs.positions(key):
             self.names.append(name)
+            self.hints[name] = value_hint(kind, role)
             rows.append(
                 Horizontal(
                     Label(name, classes="field-label"),
                     Input("", id=f"r-pos-{name}", compact=True),
                     Static(
-                        value_hint(kind, role),
+                        self.hints[name],
                         id=f"r-msg-{name}",
                         classes="field-message",
                         markup=False,
@@ -176,7 +179,7 @@ class RepairForm(Vertical):
                 parts.append(jobs.read_part(self.topology, name, text))
             except PickerError as exc:
                 errors.append(str(exc))
-                put(message, say("error", str(exc)) if text.strip() else str(exc))
+                put(message, say("error", str(exc)) if text.strip() else self.hints[name])
             except Exception as exc:  # a parser of the core missing or broken
                 errors.append(f"{name}: cannot check: {exc}")
                 put(message, say("error", f"{name}: cannot check: {exc}"))
