@@ -28,6 +28,7 @@ import bisect
 import numpy as np
 
 STEPS = 300_000  # rows the depth-first search may try before it stops (see combine)
+CHECK_EVERY = 512  # rows between two looks at the clock
 
 
 class Incomplete(Exception):
@@ -43,6 +44,7 @@ def combine(
     steps: int | None = STEPS,
     memo: bool = True,
     look_ahead: bool = True,
+    clock=None,
 ):
     """Best ``top`` combinations.
 
@@ -54,6 +56,9 @@ def combine(
     incomplete (then not proven optimal; the caller says so). ``memo``: skip suffixes
     proven fruitless before (see the memo below); ``look_ahead``: the forward check
     (see :func:`later_stages_can_fill` below); exact with or without either.
+    ``clock``: a :class:`picker.search.progress.Clock`, checked every ``CHECK_EVERY``
+    rows; when it runs out the search returns what it has, marked incomplete (the
+    caller tells this from the step limit by ``clock.stopped``).
     """
     n = len(stages)
     loaded: dict[tuple[int, int], object] = {}
@@ -238,6 +243,8 @@ def combine(
                 tried[0] += 1
                 if steps is not None and tried[0] > steps:
                     raise Incomplete
+                if clock is not None and not tried[0] % CHECK_EVERY:
+                    clock.check()
                 bound = found[-1][0] if len(found) >= top else None
                 lb = max(score, sc[i], rest_score[s + 1])
                 if bound is not None:
@@ -248,7 +255,7 @@ def combine(
                         p + rest_min[s + 1],
                         max(tmax, tm[i], rest_tm),
                         tsum + ts[i] + rest_ts,
-                    ) > bound[:4]:
+                    ) >= bound[:4]:
                         continue
                 need = needs(s, j, i)
                 if any(used.get(u, 0) + m > counts[u] for u, m in need):
@@ -264,9 +271,11 @@ def combine(
                     used[u] -= m
                     avail[u] += m
 
+    from picker.search.progress import Stopped
+
     complete = True
     try:
         visit(0, 0.0, 0, 0.0, 0.0)
-    except Incomplete:
+    except (Incomplete, Stopped):
         complete = False
     return [(key[:4], rows) for key, rows in found], loaded, complete

@@ -9,18 +9,22 @@ combinations exist within ``t``, ``t`` is raised (x4, then to infinity, where th
 are the whole space) and the search repeated. The first ``t`` that yields ``top``
 combinations gives the exact ``top`` of the whole space, since any better combination
 would score ``<= t`` and so be among those searched.
+
+The ``pieces`` ranking (the default: fewest pieces within a precision goal), the time
+limit and the proved lower bound are in :mod:`picker.search.ranking`.
 """
 
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 from picker.errors import NoDesignError
 from picker.parts import Candidate, StageChoice, StageTarget
-from picker.search.allocate import combine
 from picker.search.opamp import choose_opamp
 from picker.search.plans import WIDE
+from picker.search.progress import Clock
+from picker.search.ranking import DEFAULT_MAX_ERROR, RANKS, ranked
 from picker.search.space import Bounds, Space, build_space
 from picker.search.stage import StageProblem
 from picker.search.tradeoff import StageClasses
@@ -28,11 +32,24 @@ from picker.search.tradeoff import StageClasses
 
 @dataclass(frozen=True)
 class SearchResult:
-    """Candidates best first; trade-off as (total pieces, best score); notes for people."""
+    """Candidates best first; trade-off as (total pieces, best score); notes for people.
+
+    ``rank``, ``max_error``: the ranking used and its precision goal (a fraction).
+    ``proven``: rank 1 is proven the best of the whole space under that ranking.
+    ``bound``: when not proven, a proved lower bound of rank 1's key, of the kind
+    ``bound_of`` names: "pieces", the fewest pieces a candidate within the goal can
+    have; "error", the worst error no candidate goes below; None when proven.
+    ``goal_met``: rank 1 is within ``max_error`` (``error`` ranking: always True)."""
 
     candidates: list[Candidate]
     tradeoff: list[tuple[int, float]] = field(default_factory=list)
     notes: tuple[str, ...] = ()
+    rank: str = "pieces"
+    max_error: float = DEFAULT_MAX_ERROR
+    proven: bool = True
+    bound: float | None = None
+    goal_met: bool = True
+    bound_of: str | None = None
 
 
 SPARE = 3  # combinations asked for per candidate shown, so that look-alikes can go
@@ -78,6 +95,11 @@ def search(
     top: int = 5,
     tradeoff: bool = True,
     for_people: bool = False,
+    rank: str = "pieces",
+    max_error: float = DEFAULT_MAX_ERROR,
+    time_limit: float | None = None,
+    progress=None,
+    should_stop=None,
 ) -> SearchResult:
     """Best ``top`` candidates from ``stock`` for ``stages`` (from ``plan_stages``).
 
@@ -94,6 +116,16 @@ def search(
         of the parts, a stage whose f0 lies outside what the values on hand can reach
         (rather than searching the whole space for a far-off best), and show each
         look-alike candidate once (see :func:`distinct`). Rank 1 is the same either way.
+    rank : "pieces" (fewest pieces within ``max_error``, then smaller worst error, then
+        tighter tolerance) or "error" (smallest worst error, then fewer pieces, then
+        tighter tolerance); see :mod:`picker.search.ranking`. The yield ranking is
+        :func:`picker.search.yieldrank.search`.
+    max_error : the precision goal of "pieces", a fraction (0.005 = 0.5 %)
+    time_limit : seconds (None: no limit); past it the best found so far is returned
+        with ``proven`` False and ``bound`` (the trade-off gets what is left of the
+        limit, at least a quarter of it)
+    progress : called with :class:`picker.search.progress.Progress` records
+    should_stop : called often; once it returns true the search stops as at the limit
 
     Raises
     ------
@@ -102,8 +134,13 @@ def search(
     """
     from picker.search.tradeoff import tradeoff as trade
 
+    if rank not in RANKS:
+        raise ValueError(f"rank {rank!r}: choose {' or '.join(RANKS)} (yield: yieldrank)")
+    if not (math.isfinite(max_error) and max_error >= 0.0):
+        raise ValueError(f"max_error {max_error!r}: a fraction, 0 or above")
     if not stages:
         raise NoDesignError("no stages to design")
+    clock = Clock(time_limit, progress=progress, should_stop=should_stop)
     top = max(1, int(top))
     space = build_space(stock, singles=singles, allow_polarized=allow_polarized, bounds=bounds)
     check_supply(space, stages, bounds)
@@ -121,61 +158,74 @@ def search(
         StageClasses(topo, target, space, singles=singles, label=f"stage {i + 1}")
         for i, (topo, target) in enumerate(stages)
     ]
+    opamp, warnings = choose_opamp(stock.opamps, stages)
     notes: list[str] = []
-    if len(stages) == 1:
+    proven, bound, goal_met, bound_of = True, None, True, None
+    if len(stages) == 1 and rank == "error":
         topo, target = stages[0]
         problem = StageProblem(
             topo, target, space, {p.name: space.values[p.kind] for p in topo.positions}
         )
         rows, _ = problem.best(top * spare)
-        found = [((float(rows.score[i]),), ((None, i),)) for i in range(len(rows))]
         loaded = {(0, None): rows}
+        candidates = [
+            build_candidate(stages, loaded, space, ((None, i),), (float(rows.score[i]),), opamp, ())
+            for i in range(len(rows))
+        ]
     else:
-        found, loaded, note = best_combinations(classes, space, top=top * spare)
-        if note:
-            notes.append(note)
-    if not found:
+        out = ranked(
+            classes,
+            space.counts,
+            rank=rank,
+            max_error=max_error,
+            top=top * spare,
+            clock=clock,
+            build=lambda key, rows, loaded: build_candidate(
+                stages, loaded, space, rows, key, opamp, ()
+            ),
+        )
+        candidates, notes = out.candidates, list(out.notes)
+        proven, bound, goal_met, bound_of = out.proven, out.bound, out.goal_met, out.bound_of
+    if not candidates:
         raise NoDesignError(
             "no combination of the parts on hand fills every position of "
             "every stage with the quantities in stock"
         )
-    opamp, warnings = choose_opamp(stock.opamps, stages)
-    candidates = [
-        build_candidate(stages, loaded, space, rows, key, opamp, warnings + notes)
-        for key, rows in found
-    ]
+    shown = tuple(warnings) + tuple(n for n in notes if "not proven" in n)
+    candidates = [replace(c, warnings=shown) for c in candidates]
     candidates = (distinct(candidates) if for_people else candidates)[:top]
-    curve = []
+    curve: list[tuple[int, float]] = []
     if tradeoff:
-        curve, skipped = trade(classes, space.counts)
-        if skipped:
+        limit = None if time_limit is None else max(clock.remaining(), 0.25 * time_limit)
+        tclock = Clock(limit, progress=progress, should_stop=should_stop)
+        tclock.stage, tclock.phase = 0, "trade-off"
+        curve, skipped = trade(classes, space.counts, tclock)
+        if tclock.stopped:
+            notes.append(
+                f"trade-off: stopped at the time limit; {len(curve)} piece counts shown"
+                + (f", {len(skipped)} not reached" if skipped else "")
+            )
+        elif skipped:
             notes.append(
                 "trade-off: piece counts "
                 + ", ".join(map(str, skipped))
                 + " left out (the joint allocation hit its step limit there)"
             )
-    return SearchResult(candidates, curve, tuple(notes))
-
-
-def best_combinations(classes, space: Space, *, top: int):
-    """(``top`` joint combinations, the loaded class lists they index, note or None).
-
-    Exact unless the allocation stopped at its step limit (then the note says so)."""
-    t = max(min(c.best().values(), default=math.inf) for c in classes)
-    while True:
-        found, loaded, complete = combine([c.classes(t) for c in classes], space.counts, top=top)
-        if not complete and found:
-            return (
-                found,
-                loaded,
-                (
-                    "the stages compete for scarce pieces and the joint allocation stopped at "
-                    "its step limit: these are the best combinations found, not proven optimal"
-                ),
-            )
-        if len(found) >= top or math.isinf(t):
-            return found, loaded, None
-        t = grow(t)
+        first = candidates[0]
+        if proven and first.pieces not in {k for k, _ in curve}:
+            # rank 1 is the exact best of its piece count (docs/search.md)
+            curve = sorted(curve + [(first.pieces, first.score)])
+    return SearchResult(
+        candidates,
+        curve,
+        tuple(notes),
+        rank=rank,
+        max_error=float(max_error),
+        proven=proven,
+        bound=bound,
+        goal_met=goal_met,
+        bound_of=bound_of,
+    )
 
 
 def build_candidate(stages, loaded, space, rows, key, opamp, warnings) -> Candidate:

@@ -32,6 +32,7 @@ class StageClasses:
 
     def __init__(self, topo, target, space, *, singles: bool = False, label: str = "stage"):
         self.topology, self.target = topo, target
+        self.clock = None  # a picker.search.progress.Clock, checked between patterns
         self.by_j: dict[int, list[tuple[StageProblem, dict]]] = {}
         for pat in patterns(len(topo.positions), singles):
             arrays, back = {}, {}
@@ -47,17 +48,20 @@ class StageClasses:
     def best(self) -> dict[int, float]:
         """``{j: best score with exactly j pieces}`` over the reachable classes."""
         if self._best is None:
-            self._best = {}
+            best: dict[int, float] = {}
             for j, problems in self.by_j.items():
                 b = math.inf
                 # densest patterns (most pairs on the resistor side) first: their best
                 # caps the search of the others in the class
                 for problem, _ in sorted(problems, key=lambda pb: -_density(pb[0])):
+                    if self.clock is not None:
+                        self.clock.check()
                     rows, _ = problem.best(1, cap=b)
                     if len(rows):
                         b = min(b, float(rows.score[0]))
                 if math.isfinite(b):
-                    self._best[j] = b
+                    best[j] = b
+            self._best = best  # only once complete: a stopped call leaves no partial answer
         return self._best
 
     def classes(self, t: float, *, keep: int | None = None, tails: dict | None = None):
@@ -120,9 +124,21 @@ def merge(parts: list[StageRows]) -> StageRows:
     return merged.take(order)
 
 
-def tradeoff(classes: list[StageClasses], counts):
+def tradeoff(classes: list[StageClasses], counts, clock=None):
     """([(total pieces, best score)] for every reachable piece count, fewest pieces first,
-    [piece counts left out because the joint allocation hit its step limit])."""
+    [piece counts left out because the joint allocation hit its step limit]).
+
+    ``clock``: when it runs out, the curve found so far (every point on it exact) and
+    the piece counts not reached are returned; ``clock.stopped`` tells the caller."""
+    from picker.search.progress import Stopped
+
+    try:
+        return _tradeoff(classes, counts, clock)
+    except Stopped:
+        return [], []
+
+
+def _tradeoff(classes: list[StageClasses], counts, clock):
     from picker.search.api import grow
 
     best = [c.best() for c in classes]
@@ -139,8 +155,12 @@ def tradeoff(classes: list[StageClasses], counts):
                 if v < nxt.get(k + j, math.inf):
                     nxt[k + j] = v
         lb = nxt
-    curve, skipped = [], []
+    curve: list[tuple[int, float]] = []
+    skipped: list[int] = []
     for k in sorted(lb):
+        if clock is not None and clock.stopped:
+            skipped.append(k)
+            continue
         t, keep = lb[k], TRUNCATE
         while True:
             tails: dict = {}
@@ -151,7 +171,13 @@ def tradeoff(classes: list[StageClasses], counts):
             # no suffix memo here: with the total fixed it costs more than it saves
             # (measured: 8th order on the sample, 20 s without, 86 s with)
             found, loaded, complete = combine(
-                stage_classes, counts, top=1, pieces_total=k, memo=False, look_ahead=LOOK_AHEAD
+                stage_classes,
+                counts,
+                top=1,
+                pieces_total=k,
+                memo=False,
+                look_ahead=LOOK_AHEAD,
+                clock=clock,
             )
             if not complete:
                 skipped.append(k)

@@ -71,22 +71,43 @@ def stocks(r=(3, 6), c=(3, 6), qty_max=3):
     )
 
 
-def check_against_brute(stock, stages, *, top=3, singles=False, allow_polarized=False):
+def brute_order(bs, bp, bt, bts, rank="error", max_error=0.005):
+    """Indices of the brute-force assignments in rank order (docs/search.md): ``error``
+    by (score, pieces, worst tolerance, tolerance sum); ``pieces`` those within
+    ``max_error`` first by (pieces, score, ...), then the others as ``error``."""
+    by_error = np.lexsort((bts, bt, bp, bs))
+    if rank == "error":
+        return by_error
+    within = np.flatnonzero(bs <= max_error)
+    first = within[np.lexsort((bts[within], bt[within], bs[within], bp[within]))]
+    return np.concatenate([first, by_error[bs[by_error] > max_error]])
+
+
+def check_against_brute(
+    stock, stages, *, top=3, singles=False, allow_polarized=False, rank="error", max_error=0.005
+):
     """Rank order, trade-off and every candidate's parts against plain enumeration."""
     bs, bp, bt, bts = brute(stock, stages, BOUNDS, singles=singles, allow_polarized=allow_polarized)
+    kw = dict(
+        singles=singles, allow_polarized=allow_polarized, top=top, rank=rank, max_error=max_error
+    )
     if bs.size == 0:
         try:
-            search(stock, stages, singles=singles, allow_polarized=allow_polarized, top=top)
+            search(stock, stages, **kw)
         except NoDesignError:
             return None
         raise AssertionError("search found a design where exhaustive search found none")
-    result = search(stock, stages, singles=singles, allow_polarized=allow_polarized, top=top)
-    order = np.lexsort((bts, bt, bp, bs))
-    want = bs[order][:top]
+    result = search(stock, stages, **kw)
+    assert result.proven and result.bound is None
+    order = brute_order(bs, bp, bt, bts, rank, max_error)[:top]
     got = np.array([c.score for c in result.candidates])
-    assert got.size == want.size
-    np.testing.assert_allclose(got, want, rtol=1e-9, atol=1e-15)
-    assert result.candidates[0].pieces == bp[bs == got[0]].min()
+    assert got.size == order.size
+    np.testing.assert_allclose(got, bs[order], rtol=1e-9, atol=1e-15)
+    if rank == "pieces":  # pieces lead the key: the whole sequence is determined
+        assert [c.pieces for c in result.candidates] == bp[order].tolist()
+    if rank == "error" or not result.goal_met:
+        assert result.candidates[0].pieces == bp[bs == got[0]].min()
+    assert result.goal_met == (rank == "error" or bool(bs.min() <= max_error))
     curve = brute_tradeoff(bs, bp)
     assert [k for k, _ in result.tradeoff] == [k for k, _ in curve]
     np.testing.assert_allclose(

@@ -1,0 +1,296 @@
+"""The two exact rankings, ``pieces`` and ``error``, over the stage classes (docs/search.md).
+
+Keys, smaller first; a candidate's tolerance keys are its worst tolerance and the sum
+of its pieces' tolerances:
+
+- ``error``: ``(worst error, pieces, worst tolerance, tolerance sum)``.
+- ``pieces`` with the goal ``P``: a candidate within the goal (worst error ``<= P``)
+  has ``(0, pieces, worst error, worst tolerance, tolerance sum)``, any other
+  ``(1, worst error, pieces, ...)``: every candidate within the goal comes first,
+  fewest pieces first; if none is within it, the order is that of ``error``.
+
+Why ``pieces`` is exact. The joint score is the max over the stages, so a candidate
+within ``P`` uses in every stage a row scoring ``<= P``, hence a class ``j`` of that
+stage with best score ``b_s(j) <= P`` (``b_s`` exact, :mod:`picker.search.tradeoff`).
+The totals ``k = j_1 + ... + j_n`` of such classes are taken in increasing order; for
+each, :func:`exact_at` finds the best combinations with exactly ``k`` pieces among the
+rows ``<= P`` (quantities shared, :func:`picker.search.allocate.combine`, exhaustive
+up to its bound). A class may first be cut to its best rows; the answer is accepted
+only when every row left out scores above the worst combination kept (or nothing was
+cut), otherwise more rows are loaded. The first ``k`` with a combination gives rank 1;
+all smaller totals were searched completely and hold none within ``P``. Later ranks
+come from the next totals, then (if fewer than asked are within the goal) from the
+``error`` ranking's list, those above ``P``.
+
+Why ``error`` is exact: see :mod:`picker.search.api` (the threshold loop).
+
+Time limit. The clock (:class:`picker.search.progress.Clock`) is checked between
+patterns and every few hundred rows of the joint allocation. When it runs out, the
+best found so far is returned with ``proven`` False and ``bound``, a proved lower bound
+of rank 1's key: for ``error``, the worst error no candidate goes below (the largest
+best score of a stage alone, or a threshold searched completely without a find); for
+``pieces``, the fewest pieces a candidate within the goal can have (every smaller
+total searched completely, or each stage's fewest pieces within the goal). When the
+limit passes before any candidate is found, the ``error`` search goes on without it
+until it has one (a shell always gets a candidate to show, or a clear "no design").
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+from picker.search.allocate import combine
+from picker.search.progress import Clock, Stopped
+from picker.search.tradeoff import LOOK_AHEAD, TRUNCATE
+
+RANKS = ("pieces", "error")
+DEFAULT_MAX_ERROR = 0.005  # the precision goal of ``pieces``: 0.5 %
+
+
+def tolerances(candidate) -> tuple[float, float]:
+    """(worst tolerance, sum of tolerances) over every piece of ``candidate``."""
+    tols = [p.tolerance for st in candidate.stages for _, arr in st.positions for p in arr.parts]
+    return (max(tols, default=0.0), float(sum(tols)))
+
+
+def rank_key(rank: str, max_error: float, candidate) -> tuple:
+    """The sort key of ``candidate`` under ``rank`` (smaller is better; see the module)."""
+    tmax, tsum = tolerances(candidate)
+    score, pieces = candidate.score, candidate.pieces
+    if rank == "pieces" and score <= max_error:
+        return (0, pieces, score, tmax, tsum)
+    return (1, score, pieces, tmax, tsum)
+
+
+@dataclass
+class Ranked:
+    """What a ranking found: candidates in any order until :meth:`finish` sorts them."""
+
+    candidates: list = field(default_factory=list)
+    proven: bool = False  # rank 1 is proven the best of the whole space
+    bound: float | None = None
+    bound_of: str | None = None  # "pieces" or "error": what ``bound`` bounds
+    goal_met: bool = True
+    step_limited: bool = False
+    ties_unsure: bool = False  # rank 1 proven but for the tolerance tie-break
+    notes: list[str] = field(default_factory=list)
+
+    def add(self, got, clock: Clock | None, key) -> None:
+        seen = {c.stages for c in self.candidates}
+        self.candidates += [c for c in got if c.stages not in seen]
+        if clock is not None and self.candidates:
+            best = min(self.candidates, key=key)
+            clock.found(best.score, best.pieces)
+
+
+def ranked(classes, counts, *, rank: str, max_error: float, top: int, clock: Clock, build):
+    """The ``top`` best candidates under ``rank`` (a :class:`Ranked`, sorted, cut to top).
+
+    ``classes``: one :class:`picker.search.tradeoff.StageClasses` per stage;
+    ``build(key, rows, loaded)`` makes the Candidate of one combination."""
+    out = Ranked()
+    for c in classes:
+        c.clock = clock
+    stopped = False
+    try:
+        if rank == "pieces":
+            _pieces(classes, counts, top, max_error, clock, build, out)
+        else:
+            _error(classes, counts, top, clock, build, out)
+    except Stopped:
+        stopped = True
+    if stopped and not out.candidates:
+        rescue = Clock(None, progress=clock.progress)
+        for c in classes:
+            c.clock = None
+        sub = Ranked()
+        _error(classes, counts, 1, rescue, build, sub)
+        out.candidates = sub.candidates
+        if rank == "error" and sub.proven:
+            out.proven = True
+        out.notes.append(
+            "the time limit passed before a first candidate was found; the search went "
+            f"on until it had one ({rescue.elapsed():.1f} s more)"
+        )
+    key = lambda c: rank_key(rank, max_error, c)  # noqa: E731
+    out.candidates = sorted(out.candidates, key=key)[:top]
+    if out.candidates and rank == "pieces":
+        out.goal_met = out.candidates[0].score <= max_error
+    if out.proven:
+        out.bound = out.bound_of = None
+    if stopped and out.candidates:
+        out.notes.append(_stop_note(rank, out, clock))
+    if out.step_limited and not out.proven:
+        out.notes.append(
+            "the stages compete for scarce pieces and the joint allocation stopped at "
+            "its step limit: these are the best combinations found, not proven optimal"
+        )
+    elif out.ties_unsure:
+        out.notes.append(
+            "rank 1's piece count and worst error are proven; among candidates equal in "
+            "both, the tighter tolerance is the best the joint allocation found within "
+            "its step limit"
+        )
+    elif out.step_limited and len(out.candidates) > 1:
+        out.notes.append(
+            "rank 1 is proven; the joint allocation stopped at its step limit after it, "
+            "so the later ranks are the best it found"
+        )
+    if out.candidates and rank == "pieces" and not out.goal_met:
+        best = out.candidates[0].score
+        out.notes.append(
+            f"no candidate reaches the precision goal of {max_error * 100:.3g} %: the "
+            f"smallest worst error is {best * 100:.3g} %, {(best - max_error) * 100:.3g} "
+            "points above the goal; ranked by worst error instead"
+        )
+    return out
+
+
+def _stop_note(rank: str, out: Ranked, clock: Clock) -> str:
+    head = f"stopped after {clock.elapsed():.1f} s"
+    if out.proven:
+        return f"{head}: rank 1 is proven; the later ranks are the best found"
+    if out.bound is None:
+        return f"{head}: rank 1 is the best found, not proven"
+    if out.bound_of == "pieces":
+        proof = f"no candidate within the goal uses fewer than {int(out.bound)} pieces"
+    else:
+        proof = f"no candidate has a worst error below {out.bound * 100:.3g} %"
+    return f"{head}: rank 1 is the best found, not proven; proved so far: {proof}"
+
+
+def _error(classes, counts, top, clock, build, out: Ranked) -> None:
+    """``error``: the threshold loop of :mod:`picker.search.api` with the clock."""
+    from picker.search.api import grow
+
+    t = 0.0
+    for s, c in enumerate(classes):
+        clock.at(s + 1, "stage values")
+        best = c.best()
+        if not best:
+            out.proven = True  # a stage has no assignment at all: no candidate
+            return
+        t = max(t, min(best.values()))
+        out.bound, out.bound_of = t, "error"
+    clock.at(0, "joint allocation")
+    key = lambda c: rank_key("error", 0.0, c)  # noqa: E731
+    while True:
+        found, loaded, complete = combine(
+            [c.classes(t) for c in classes], counts, top=top, clock=clock
+        )
+        out.add([build(k, rows, loaded) for k, rows in found], clock, key)
+        if clock.stopped:
+            raise Stopped
+        if not complete:
+            out.step_limited = True
+            return
+        if found:
+            out.proven = True
+        else:
+            out.bound = t if math.isfinite(t) else out.bound
+        if len(found) >= top or math.isinf(t):
+            if not found:
+                out.proven = True  # the whole space searched: no candidate
+            return
+        t = grow(t)
+
+
+def _pieces(classes, counts, top, goal, clock, build, out: Ranked) -> None:
+    """``pieces``: totals in increasing order (see the module text)."""
+    fewest = [len(c.topology.positions) for c in classes]  # a position takes >= 1 piece
+    out.bound, out.bound_of = float(sum(fewest)), "pieces"
+    within = []
+    for s, c in enumerate(classes):
+        clock.at(s + 1, "stage values")
+        best = c.best()
+        if not best:
+            out.proven = True
+            return
+        ok = {j: b for j, b in best.items() if b <= goal}
+        within.append(ok)
+        if ok:
+            fewest[s] = min(ok)
+            out.bound = float(sum(fewest))
+    if any(not ok for ok in within):
+        _error(classes, counts, top, clock, build, out)
+        return
+    lowest = {0: 0.0}  # total -> lower bound of its best score (max over the stages)
+    for ok in within:
+        nxt: dict[int, float] = {}
+        for k, v in lowest.items():
+            for j, b in ok.items():
+                nxt[k + j] = min(nxt.get(k + j, math.inf), max(v, b))
+        lowest = nxt
+    totals = set(lowest)
+    key = lambda c: rank_key("pieces", goal, c)  # noqa: E731
+    have = 0
+    unsure = False  # a smaller total was cut short by the step limit
+    order = sorted(totals)
+    for n, k in enumerate(order):
+        clock.at(0, f"joint allocation, {k} pieces")
+        if not have:  # rank 1 first: proving one is far cheaper than proving a list
+            got, complete = exact_at(classes, counts, k, goal, 1, clock, build)
+            out.add(got, clock, key)
+            if clock.stopped:
+                raise Stopped
+            if not complete and got and not unsure and got[0].score <= lowest[k]:
+                # its pieces and worst error meet their lower bounds: proven but for the
+                # tolerance tie-break, which the step limit cut short
+                out.proven = out.step_limited = out.ties_unsure = True
+            elif not complete:
+                out.step_limited = unsure = True
+            elif got and not unsure:
+                out.proven = True
+            if not got and not unsure and n + 1 < len(order):
+                out.bound = float(order[n + 1])  # every total up to k holds none within the goal
+            if not got:
+                continue
+        got, complete = exact_at(classes, counts, k, goal, top - have, clock, build)
+        out.add(got, clock, key)
+        if clock.stopped:
+            raise Stopped
+        if not complete:
+            out.step_limited = True
+        have = len(out.candidates)
+        if have >= top:
+            return
+    if not have:
+        out.bound = None
+        out.candidates = []
+        _error(classes, counts, top, clock, build, out)
+        return
+    fill = Ranked()
+    _error(classes, counts, top, clock, build, fill)
+    out.add([c for c in fill.candidates if c.score > goal], clock, key)
+
+
+def exact_at(classes, counts, k: int, t: float, top: int, clock, build):
+    """(the best ``top`` candidates with exactly ``k`` pieces scoring ``<= t``, complete).
+
+    Classes are first cut to their best ``TRUNCATE`` rows; the list is accepted when
+    nothing was cut, or when ``top`` were found and the worst of them scores below
+    every cut class's last row (a row left out scores at least that, so any
+    combination using one is worse); otherwise eight times as many rows are loaded."""
+    keep = TRUNCATE
+    while True:
+        tails: dict[int, dict] = {}
+        stage_classes = [
+            c.classes(t, keep=keep, tails=tails.setdefault(s, {})) for s, c in enumerate(classes)
+        ]
+        found, loaded, complete = combine(
+            stage_classes,
+            counts,
+            top=top,
+            pieces_total=k,
+            memo=False,
+            look_ahead=LOOK_AHEAD,
+            clock=clock,
+        )
+        got = [build(key, rows, loaded) for key, rows in found]
+        if not complete:
+            return got, False
+        cut = [tails[s][j] for (s, j) in loaded if j in tails[s]]
+        if not cut or (len(found) >= top and found[-1][0][0] < min(cut)):
+            return got, True
+        keep *= 8
