@@ -151,6 +151,38 @@ def read_window(text: str, label: str = "--window") -> float:
     return w
 
 
+def read_max_error(text, label: str = "--max-error") -> float:
+    """The precision goal of the ``pieces`` ranking as a fraction: ``0.5%`` or ``0.005``;
+    above 0, at most 100 %."""
+    from stock.values import parse_percent
+
+    s = str(text).strip()
+    try:
+        p = parse_percent(s) if s.endswith("%") else float(s)
+    except (ValueParseError, ValueError):
+        raise ValueParseError(
+            f"{label} '{s}': write a percentage (0.5%) or a fraction (0.005)"
+        ) from None
+    if not (math.isfinite(p) and 0 < p <= 1.0):
+        raise ValueParseError(f"{label} '{s}': must be above 0 % and at most 100 %")
+    return p
+
+
+TIME_LIMIT_MAX = 86_400.0  # a day: longer is no interactive search
+
+
+def read_time_limit(text, label: str = "--time-limit") -> float:
+    """Seconds a search may take before it returns the best found: above 0, at most a day."""
+    s = str(text).strip()
+    try:
+        t = float(s.removesuffix("s").strip())
+    except ValueError:
+        raise ValueParseError(f"{label} '{s}': write a number of seconds, e.g. 10") from None
+    if not (math.isfinite(t) and 0 < t <= TIME_LIMIT_MAX):
+        raise ValueParseError(f"{label} '{s}': must be above 0 s and at most {TIME_LIMIT_MAX:g} s")
+    return t
+
+
 def read_temp(text: str, label: str = "--temp") -> tuple[float, float]:
     """A temperature span ``LO..HI`` in degrees C, LO <= HI, neither below absolute zero."""
     s = str(text).strip()

@@ -65,8 +65,23 @@ def register(subparsers) -> None:
     p.add_argument(
         "--rank",
         choices=("pieces", "error", "yield"),
-        default="error",
-        help="what rank 1 is: yield = the highest Monte Carlo yield inside --window",
+        default="pieces",
+        help="what rank 1 is: pieces (default) = the fewest pieces within --max-error; "
+        "error = the smallest worst error; yield = the highest Monte Carlo yield inside "
+        "--window",
+    )
+    p.add_argument(
+        "--max-error",
+        default="0.5%",
+        metavar="P",
+        help="precision goal of --rank pieces: worst error allowed, 0.5%% or 0.005 (default 0.5%%)",
+    )
+    p.add_argument(
+        "--time-limit",
+        default="10",
+        metavar="S",
+        help="seconds the search may take; past them the best found so far is shown, "
+        "marked not proven (default 10)",
     )
     p.add_argument("--top", type=int, default=5, metavar="N", help="candidates (default 5)")
     p.add_argument(
@@ -119,10 +134,12 @@ def parse_request(args) -> dict:
         read_count,
         read_frequency,
         read_gain,
+        read_max_error,
         read_order,
         read_q,
         read_ripple,
         read_temp,
+        read_time_limit,
         read_voltage,
         read_window,
     )
@@ -145,6 +162,9 @@ def parse_request(args) -> dict:
             "c_max": read_bound(args.c_max, "capacitor", "--c-max"),
         },
         "pick": args.pick,
+        "rank": args.rank,
+        "max_error": read_max_error(args.max_error),
+        "time_limit_s": read_time_limit(args.time_limit),
     }
     b = req["bounds"]
     errors = check_targets(response_type=args.type, q=req["q"], **b)
@@ -201,16 +221,6 @@ def title_of(request: dict, stages: int) -> str:
     return f"{kind} {shape}, fc {fc}, {gain}, {n}"
 
 
-def _budget_module():
-    try:
-        import picker.budget as mod
-    except ModuleNotFoundError as exc:
-        if exc.name and exc.name.startswith("picker.budget"):
-            return None
-        raise
-    return mod if hasattr(mod, "budget") else None
-
-
 def run(args) -> int:
     from picker.commands.common import load_stock
     from picker.errors import NoDesignError
@@ -248,25 +258,24 @@ def run(args) -> int:
         top=args.top,
         for_people=True,
     )
-    if getattr(args, "rank", None) == "yield":
+    kw.update(max_error=request["max_error"], time_limit=request["time_limit_s"])
+    if request["rank"] == "yield":
         from picker.search.yieldrank import search as by_yield
 
         mc = {k: opts[k] for k in ("window", "trials", "distribution", "seed")}
         result: SearchResult = by_yield(stock, stages, **mc, **kw)
     else:
         try:
-            result = search(stock, stages, **kw)
+            result = search(stock, stages, rank=request["rank"], **kw)
         except NoDesignError:
             if buy:  # no design: say what to buy, then exit 1 as without --suggest
                 design_buy.no_design(buy, args, stock, stages, kw)
             raise
     bought = buy and design_buy.run(buy, args, stock, stages, kw, result.candidates[0])
-    mod = _budget_module()
-    budgets = (
-        [mod.budget(c, **opts) if mod else None for c in result.candidates]
-        if args.json
-        else [mod.budget(result.candidates[0], **opts) if mod else None]
-    )
+    from picker.budget import budget
+
+    shown = result.candidates if args.json else result.candidates[:1]
+    budgets = [budget(c, **opts) for c in shown]
     if args.save:
         _save(args, result, request, stock)
     if args.json:
@@ -292,11 +301,8 @@ def run(args) -> int:
 
 def _save(args, result, request, stock) -> None:
     from picker.errors import DesignError
+    from picker.export import save_design
 
-    try:
-        from picker.export import save_design
-    except ImportError:
-        raise DesignError("saving a design is not available yet in this build") from None
     if args.pick > len(result.candidates):
         raise DesignError(f"--pick {args.pick}: only {len(result.candidates)} candidates")
     save_design(args.save, candidate=result.candidates[args.pick - 1], request=request, stock=stock)

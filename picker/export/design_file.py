@@ -8,7 +8,7 @@ Layout of the file, format 1 (keys with no value are left out: TOML has no null)
     [request]                               # the targets and options as the caller gave them
     type = "lowpass"
     fc_hz = 1000.0
-    ...
+    ...                                     # also rank, max_error: how rank 1 was chosen
 
     [stock]                                 # the stock the parts were chosen from
     path = "/home/bench/inventory.toml"     # absolute

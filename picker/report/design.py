@@ -86,6 +86,8 @@ class DesignReport:
         table.add_column("pieces", justify="right")
         table.add_column("worst error", justify="right")
         table.add_column("(longer bar: less precise)", no_wrap=True)
+        table.add_column("", no_wrap=True)
+        first = self.result.candidates[0].pieces if self.result.candidates else None
         scores = [s for _, s in self.result.tradeoff if s > 0 and math.isfinite(s)]
         hi = math.log10(max(scores)) if scores else 0.0
         lo = math.log10(min(scores)) if scores else 0.0
@@ -94,7 +96,8 @@ class DesignReport:
                 n = 1 + round(29 * (math.log10(score) - lo) / (hi - lo))
             else:
                 n = 30
-            table.add_row(str(pieces), pct(score), "#" * n)
+            mark = "< rank 1" if pieces == first else ""
+            table.add_row(str(pieces), pct(score), "#" * n, mark)
         return table
 
     def __rich_console__(self, console: Console, options: ConsoleOptions) -> RenderResult:
@@ -106,6 +109,7 @@ class DesignReport:
             yield Group(*parts)
             return
         best = self.result.candidates[0]
+        parts.append(Text(ranking_line(self.result)))
         parts.append(self._candidates())
         trade = self._tradeoff()
         if trade is not None:
@@ -175,4 +179,40 @@ def design_json(result, budgets=None) -> dict:
                 "warnings": warnings,
             }
         )
-    return {"candidates": out, "tradeoff": [{"pieces": k, "score": s} for k, s in result.tradeoff]}
+    return {
+        "rank": getattr(result, "rank", "error"),
+        "max_error": getattr(result, "max_error", None),
+        "proven": getattr(result, "proven", True),
+        "bound": getattr(result, "bound", None),
+        "bound_of": getattr(result, "bound_of", None),
+        "goal_met": getattr(result, "goal_met", True),
+        "candidates": out,
+        "tradeoff": [{"pieces": k, "score": s} for k, s in result.tradeoff],
+    }
+
+
+def ranking_line(result) -> str:
+    """One line saying how rank 1 was chosen, the goal, and what is proven."""
+    rank = getattr(result, "rank", "error")
+    goal = float(getattr(result, "max_error", 0.0) or 0.0)
+    if rank == "pieces":
+        head = f"ranked by fewest pieces within {100 * goal:.4g} % worst error"
+        if result.candidates and not getattr(result, "goal_met", True):
+            miss = result.candidates[0].score - goal
+            head += f": goal missed by {pct(miss)}, ranked by worst error instead"
+        else:
+            head += ": goal met"
+    elif rank == "yield":
+        head = "ranked by Monte Carlo yield (estimated, then confirmed; not proven)"
+    else:
+        head = "ranked by smallest worst error"
+    if rank == "yield":
+        return head
+    if getattr(result, "proven", True):
+        return head + "; rank 1 proven"
+    bound, of = getattr(result, "bound", None), getattr(result, "bound_of", None)
+    if bound is None:
+        return head + "; rank 1 not proven"
+    if of == "pieces":
+        return head + f"; not proven: no candidate within the goal has fewer than {bound:g} pieces"
+    return head + f"; not proven: no candidate has a worst error below {pct(bound)}"

@@ -93,10 +93,22 @@ def test_json_has_the_documented_shape_and_consistent_numbers(capsys, stock_file
         "200",
         "--top",
         "3",
+        "--rank",
+        "error",
     )
     assert code == 0
     doc = json.loads(out)
-    assert set(doc) == {"candidates", "tradeoff"}
+    assert set(doc) == {
+        "candidates",
+        "tradeoff",
+        "rank",
+        "max_error",
+        "proven",
+        "bound",
+        "bound_of",
+        "goal_met",
+    }
+    assert doc["rank"] == "error" and doc["proven"] is True and doc["bound"] is None
     cands = doc["candidates"]
     assert 1 <= len(cands) <= 3
     scores = [c["score"] for c in cands]
