@@ -144,6 +144,11 @@ def add_json(out: dict, buy) -> dict:
     out["suggestions"] = [s.to_json() for s in buy.suggestions]
     out["suggestions_proven"] = buy.proven
     out["suggestions_notes"] = list(buy.notes)
+    out["suggestions_tried"] = {
+        "values": len(buy.tried),
+        "searches": buy.searched,
+        "ruled_out": buy.ruled_out,
+    }
     return out
 
 
@@ -181,6 +186,8 @@ def print_section(buy, *, file=None, width: int | None = None) -> None:
             Text(f"What to buy: no purchase of the {len(buy.tried)} values tried improves rank 1")
         )
     tried = f"{len(buy.tried)} values tried, {buy.searched} searches"
+    if buy.ruled_out:
+        tried += f", {buy.ruled_out} purchases ruled out by searches of single stages"
     console.print(Text(f"  ({tried})"))
     for note in buy.notes:
         console.print(Text(f"  note: {note}"))

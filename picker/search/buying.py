@@ -11,7 +11,7 @@ extra line (the user's file is never written). Steps:
    (:mod:`picker.search.buyvalues`); with no design at all, near the topology's own
    synthesis. ``scope="all"``: every preferred value within the bounds.
 3. Each value gets a quick estimate (:func:`picker.search.buyvalues.estimate`), which
-   only orders the trials.
+   orders the trials; under ``scope="near"`` only the ``NEAR_MAX`` best are tried.
 4. In that order, each purchase is searched for real (``search`` with the purchase
    added, ``top=1``); a purchase counts when rank 1 after is better under ``rank`` than
    rank 1 before and takes some of it. When every value was searched the ``n`` best
@@ -42,9 +42,11 @@ from picker.search.buyvalues import (
     synthesized,
 )
 from picker.search.space import Bounds, build_space
+from picker.search.yieldrank import _has_rank
 
 PAIR_POOL = 6  # single purchases (best bounds) whose pairs are tried when none reaches the goal
 RANKS = ("pieces", "error")
+NEAR_MAX = 24  # values tried under scope "near": the best by the estimate
 
 
 @dataclass(frozen=True)
@@ -96,6 +98,7 @@ class BuyResult:
     searched: int  # real searches run
     proven: bool  # the suggestions are the best of the values tried
     notes: tuple[str, ...] = ()
+    ruled_out: int = 0  # purchases that searches of single stages proved unable to help
 
 
 def with_purchases(stock, purchases) -> tuple:
@@ -192,16 +195,18 @@ def suggest(
         return min(keys, default=(math.inf,))
 
     order = sorted(spots, key=lambda kv: (guess(kv), kv))
+    if scope == "near":
+        order = order[:NEAR_MAX]
     left = None if time_limit is None else (lambda: time_limit - (time.monotonic() - start))
     purchases = [(Purchase(k, v, tol[k], 2 * need[k]),) for k, v in order]
-    found, complete = trial.run(purchases, key0, left)
+    found, complete = trial.run(purchases, key0, n, left, cand0)
     notes = []
     best = min([key0] + [f[0] for f in found])
     reached = best[0] == 0.0 if rank == "pieces" else best[0] <= max_error
     if not reached and len(order) > 1:
         pool = [p for (p,) in purchases[:PAIR_POOL]]
         pairs = [(a, b) for i, a in enumerate(pool) for b in pool[i + 1 :]]
-        more, done = trial.run(pairs, key0, left)
+        more, done = trial.run(pairs, key0, n, left, cand0)
         complete = complete and done
         found += more
         notes.append(
@@ -217,7 +222,9 @@ def suggest(
         )
         for _, (ps, after) in found[: max(0, n)]
     ]
-    return BuyResult(out, before_pq, tuple(order), trial.count, complete, tuple(notes))
+    return BuyResult(
+        out, before_pq, tuple(order), trial.count, complete, tuple(notes), trial.skipped
+    )
 
 
 def joint(cand0, src: Source, est) -> tuple[int, float]:
@@ -252,6 +259,8 @@ class Trial:
     def __init__(self, stock, stages, rank, max_error, opts, time_limit):
         self.stock, self.stages, self.rank, self.max_error = stock, stages, rank, max_error
         self.opts, self.time_limit, self.count = opts, time_limit, 0
+        self.alone0: list = []
+        self.skipped = 0  # purchases a stage search proved unable to help
 
     def rank1(self, stock, stages=None, **over):
         from picker.search.yieldrank import reference
@@ -263,10 +272,57 @@ class Trial:
         kw.update(over)
         return reference(stock, stages or self.stages, self.rank, **kw).candidates[0]
 
+    def alone(self, stock, s: int):
+        """(pieces, score) of stage ``s`` searched on its own, or None: no design."""
+        from picker.errors import NoDesignError
+
+        try:
+            c = self.rank1(stock, [self.stages[s]])
+        except NoDesignError:
+            return None
+        return int(c.pieces), float(c.score)
+
+    def lower(self, purchases, cand0):
+        """A key that rank 1 with ``purchases`` cannot beat, from searches of single
+        stages (a design is never better than each of its stages alone); None when no
+        stage search can tell (one stage: that search is the real one)."""
+        if len(self.stages) < 2:
+            return None
+        copy, _ = with_purchases(self.stock, purchases)
+        sizes = [len(topo.positions) for topo, _ in self.stages]
+        if cand0 is None:  # no design: a stage that has none alone must get one
+            look = [s for s, a in enumerate(self.alone0) if a is None]
+        elif self.rank == "error":  # the stages that hold rank 1 back
+            look = [s for s, a in enumerate(self.alone0) if a and a[1] >= cand0.score]
+        else:  # the stages with pairs, or outside the goal, on their own
+            look = [
+                s
+                for s, a in enumerate(self.alone0)
+                if a is None or a[0] > sizes[s] or a[1] > self.max_error
+            ]
+        if not look:
+            return None
+        got = {s: self.alone(copy, s) for s in look}
+        if any(a is None for a in got.values()):
+            return rank_key(self.rank, self.max_error, None, None)
+        if cand0 is None:
+            return None
+        worst = max(a[1] for a in got.values())
+        if self.rank == "error":
+            return (worst, 0.0, 0.0)
+        if worst > self.max_error:
+            outside = max(a[1] for a in got.values() if a[1] > self.max_error)
+            return (1.0, outside, 0.0)
+        exact = _has_rank()  # a stage's own rank 1 under "pieces" has its fewest pieces
+        pieces = sum(got[s][0] if (s in got and exact) else sizes[s] for s in range(len(sizes)))
+        return (0.0, float(pieces), worst if exact else 0.0)
+
     def sources(self, cand0) -> list[Source]:
         """Rank 1's stages and each stage's best with single pieces only."""
         from picker.errors import NoDesignError
 
+        if len(self.stages) > 1:
+            self.alone0 = [self.alone(self.stock, s) for s in range(len(self.stages))]
         out = []
         for s, (topo, target) in enumerate(self.stages):
             choices = [] if cand0 is None else [cand0.stages[s]]
@@ -303,14 +359,24 @@ class Trial:
         pq = (int(cand.pieces), float(cand.score))
         return rank_key(self.rank, self.max_error, *pq), (taken, pq)
 
-    def run(self, purchases, key0, left) -> tuple[list, bool]:
-        """Every purchase that improves on ``key0``, in the order tried, and whether
-        all were tried before the time ran out."""
+    def better(self, key, than) -> bool:
+        """``rank`` pieces: a smaller key; error: a smaller worst error."""
+        return key < than if self.rank == "pieces" else key[0] < than[0]
+
+    def run(self, purchases, key0, n, left, cand0) -> tuple[list, bool]:
+        """The ``n`` best purchases that improve on ``key0`` (best first), and whether
+        every purchase was either searched or proven unable to enter them."""
         found: list[tuple] = []
         for ps in purchases:
             if left is not None and left() <= 0:
                 return found, False
+            limit = found[n - 1][0] if len(found) >= n else key0
+            lb = self.lower(ps, cand0)
+            if lb is not None and not self.better(lb, limit):
+                self.skipped += 1
+                continue
             res = self.after(ps)
-            if res is not None and res[0] < key0:
+            if res is not None and self.better(res[0], key0):
                 found.append(res)
+                found.sort(key=lambda f: f[0])
         return found, True

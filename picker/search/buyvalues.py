@@ -112,8 +112,8 @@ def near_values(stages, sources: list[Source], bounds, mantissas, space) -> dict
                     forms += partner_forms(p.kind, x, space)
                 for need, partner in forms:
                     for v in bracket(need, mantissas):
-                        if not lo * (1 - 1e-9) <= v <= hi * (1 + 1e-9) and partner is None:
-                            continue
+                        if not lo * (1 - 1e-9) <= v <= hi * (1 + 1e-9):
+                            continue  # a part bought lies within the bounds itself
                         at = v if partner is None else partner(v)
                         spot = (src, p.name, at, 1 if partner is None else 2)
                         spots = out.setdefault((p.kind, v), [])
