@@ -102,7 +102,21 @@ def rank_of(args) -> tuple[str, float]:
         return rank, 0.005
     if isinstance(goal, (int, float)):
         return rank, float(goal)
-    return rank, parse_percent(str(goal).strip())
+    import picker.targets as targets
+
+    read = getattr(targets, "read_max_error", None)  # the design's own reading, when it has one
+    return rank, read(goal) if read else parse_percent(str(goal).strip())
+
+
+def trial_limit(args) -> float | None:
+    """Seconds each trial's search may take: the design's --time-limit, when it has one."""
+    limit = getattr(args, "time_limit", None)
+    if limit is None or isinstance(limit, (int, float)):
+        return limit
+    import picker.targets as targets
+
+    read = getattr(targets, "read_time_limit", None)
+    return read(limit) if read else float(limit)
 
 
 def run(options: BuyOptions, args, stock, stages, kw: dict, before):
@@ -110,7 +124,6 @@ def run(options: BuyOptions, args, stock, stages, kw: dict, before):
     from picker.search.buying import suggest
 
     rank, goal = rank_of(args)
-    limit = getattr(args, "time_limit", None)
     return suggest(
         stock,
         stages,
@@ -124,7 +137,7 @@ def run(options: BuyOptions, args, stock, stages, kw: dict, before):
         singles=kw["singles"],
         allow_polarized=kw["allow_polarized"],
         time_limit=BUDGET_S,
-        trial_time_limit=None if limit is None else float(limit),
+        trial_time_limit=trial_limit(args),
         before="none" if before is None else before,
     )
 
