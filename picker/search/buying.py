@@ -260,9 +260,10 @@ class Trial:
         self.stock, self.stages, self.rank, self.max_error = stock, stages, rank, max_error
         self.opts, self.time_limit, self.count = opts, time_limit, 0
         self.alone0: list = []
+        self.screens: list | None = None
         self.skipped = 0  # purchases a stage search proved unable to help
 
-    def rank1(self, stock, stages=None, **over):
+    def rank1(self, stock, stages=None, rank=None, **over):
         from picker.search.yieldrank import reference
 
         self.count += 1
@@ -270,7 +271,22 @@ class Trial:
         if self.time_limit is not None:
             kw["time_limit"] = self.time_limit
         kw.update(over)
-        return reference(stock, stages or self.stages, self.rank, **kw).candidates[0]
+        return reference(stock, stages or self.stages, rank or self.rank, **kw).candidates[0]
+
+    def lower_pieces(self, purchases):
+        from picker.search.buystage import StageScreen, lower_key
+
+        if self.screens is None:
+            space0 = build_space(self.stock, **self.opts)
+            single = self.opts["singles"]
+            self.screens = [
+                StageScreen(topo, target, space0, singles=single, goal=self.max_error)
+                for topo, target in self.stages
+            ]
+        copy, lines = with_purchases(self.stock, purchases)
+        space = build_space(copy, **self.opts)
+        ids = {i for i, u in enumerate(space.units) if any(u.line is ln for ln in lines)}
+        return lower_key([sc.after(space, ids) for sc in self.screens])
 
     def alone(self, stock, s: int):
         """(pieces, score) of stage ``s`` searched on its own, or None: no design."""
@@ -283,9 +299,13 @@ class Trial:
         return int(c.pieces), float(c.score)
 
     def lower(self, purchases, cand0):
-        """A key that rank 1 with ``purchases`` cannot beat, from searches of single
-        stages (a design is never better than each of its stages alone); None when no
-        stage search can tell (one stage: that search is the real one)."""
+        """A key that rank 1 with ``purchases`` cannot beat, or None when nothing can
+        tell. ``pieces``: from each stage's classes up to its fewest pieces
+        (:mod:`picker.search.buystage`); ``error``: from searches of single stages (a
+        design is never better than each of its stages alone; one stage: that search is
+        the real one)."""
+        if self.rank == "pieces":
+            return self.lower_pieces(purchases)
         if len(self.stages) < 2:
             return None
         copy, _ = with_purchases(self.stock, purchases)
@@ -321,13 +341,15 @@ class Trial:
         """Rank 1's stages and each stage's best with single pieces only."""
         from picker.errors import NoDesignError
 
-        if len(self.stages) > 1:
+        if len(self.stages) > 1 and self.rank == "error":  # for the bounds of lower()
             self.alone0 = [self.alone(self.stock, s) for s in range(len(self.stages))]
         out = []
         for s, (topo, target) in enumerate(self.stages):
             choices = [] if cand0 is None else [cand0.stages[s]]
             with contextlib.suppress(NoDesignError):
-                choices.append(self.rank1(self.stock, [(topo, target)], singles=True).stages[0])
+                # a source only: the cheaper ranking will do
+                one = self.rank1(self.stock, [(topo, target)], "error", singles=True)
+                choices.append(one.stages[0])
             for choice in choices:
                 values = {name: arr.value for name, arr in choice.positions}
                 pieces = {name: len(arr.parts) for name, arr in choice.positions}
@@ -367,11 +389,18 @@ class Trial:
         """The ``n`` best purchases that improve on ``key0`` (best first), and whether
         every purchase was either searched or proven unable to enter them."""
         found: list[tuple] = []
-        for ps in purchases:
+        bounds: dict[int, tuple | None] = {}
+        if self.rank == "pieces":  # cheap bounds: all first, then best first
+            bounds = {i: self.lower(ps, cand0) for i, ps in enumerate(purchases)}
+            low = (-math.inf,)
+            ranked = sorted(range(len(purchases)), key=lambda i: (bounds[i] or low, i))
+            purchases = [purchases[i] for i in ranked]
+            bounds = {k: bounds[i] for k, i in enumerate(ranked)}
+        for k, ps in enumerate(purchases):
             if left is not None and left() <= 0:
                 return found, False
             limit = found[n - 1][0] if len(found) >= n else key0
-            lb = self.lower(ps, cand0)
+            lb = bounds[k] if k in bounds else self.lower(ps, cand0)
             if lb is not None and not self.better(lb, limit):
                 self.skipped += 1
                 continue

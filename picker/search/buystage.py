@@ -1,0 +1,93 @@
+"""One stage with a purchase, under the ``pieces`` ranking, without a whole search
+(docs/buying.md).
+
+For a stage and the goal ``g``, ``m`` is the fewest pieces of an assignment scoring
+``<= g`` with the stock as it is, and ``e(j)`` the best such score with exactly ``j``
+pieces. Each class ``j`` is the union of the patterns (one piece or a pair in each
+position) with ``j`` pieces; each pattern is a :class:`picker.search.stage.StageProblem`,
+exact, searched with the cap ``g``.
+
+With lines bought (unit ids ``new``), the assignments that differ are exactly those that
+use a new unit in some position; for each position that can hold one, the pattern with
+that position limited to values containing a new unit finds them. Only classes
+``j <= m`` can give the stage fewer pieces or, at ``m`` pieces, a smaller error, so only
+those are searched: :meth:`StageScreen.after` is ``{j: e'(j)}`` for ``j <= m`` (new and
+old assignments), exact.
+
+A design of several stages: a combination within the goal takes, in each stage, an
+assignment within the goal, so at least ``sum_s m'_s`` pieces, and with exactly that
+many every stage sits at its ``m'_s`` and the score is at least ``max_s e'_s(m'_s)``:
+:func:`lower_key`. One stage: that key is rank 1 after (quantities are the stage's own).
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from picker.search.stage import StageProblem, patterns
+
+
+class StageScreen:
+    """A stage's fewest pieces within the goal, before and with purchases."""
+
+    def __init__(self, topo, target, space, *, singles: bool, goal: float):
+        self.topo, self.target, self.singles, self.goal = topo, target, singles, goal
+        self.m: int | None = None
+        self.e: float = math.inf
+        n = len(topo.positions)
+        for j in range(n, (n if singles else 2 * n) + 1):
+            best = self._class(space, j, None, goal)
+            if best is not None:
+                self.m, self.e = j, best
+                break
+
+    def _class(self, space, j: int, new, cap: float) -> float | None:
+        """Best score ``<= cap`` with exactly ``j`` pieces (only assignments using a unit
+        of ``new`` when given), or None."""
+        kinds = set() if new is None else {space.units[int(u)].kind for u in new}
+        best = None
+        for pat in patterns(len(self.topo.positions), self.singles):
+            if sum(pat) != j:
+                continue
+            limits = (
+                [None] if new is None else [p.name for p in self.topo.positions if p.kind in kinds]
+            )
+            for limit in limits:
+                arrays = {}
+                for p, k in zip(self.topo.positions, pat, strict=False):
+                    v = space.values[p.kind]
+                    mask = v.pieces == k
+                    if p.name == limit:
+                        mask &= np.isin(v.unit_a, new) | np.isin(v.unit_b, new)
+                    arrays[p.name] = v.subset(mask)
+                problem = StageProblem(self.topo, self.target, space, arrays)
+                if problem.empty():
+                    continue
+                rows, _ = problem.best(1, cap=cap if best is None else min(cap, best))
+                if len(rows):
+                    best = float(rows.score[0])
+        return best
+
+    def after(self, space, new) -> tuple[int, float] | None:
+        """(fewest pieces within the goal, best score with that many) with the new units;
+        None when the stage cannot reach the goal before (then nothing is screened)."""
+        if self.m is None:
+            return None
+        ids = np.asarray(sorted(new), dtype=np.int64)
+        n = len(self.topo.positions)
+        for j in range(n, self.m):
+            best = self._class(space, j, ids, self.goal)
+            if best is not None:
+                return j, best
+        best = self._class(space, self.m, ids, min(self.goal, self.e))
+        return self.m, self.e if best is None else min(self.e, best)
+
+
+def lower_key(results) -> tuple | None:
+    """The ``pieces`` key no combination beats, from each stage's ``after``; None when a
+    stage could not be screened."""
+    if any(r is None for r in results):
+        return None
+    return (0.0, float(sum(r[0] for r in results)), max(r[1] for r in results))
