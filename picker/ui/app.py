@@ -10,13 +10,13 @@ from __future__ import annotations
 import os
 from pathlib import Path
 
-from textual.app import App
 from textual.binding import Binding
 
+from picker.ui.key_order import InOrderApp
 from picker.ui.screens.main import MainScreen
 
 
-class PickerApp(App):
+class PickerApp(InOrderApp):
     CSS_PATH = "picker.tcss"
     TITLE = "picker"
     ENABLE_COMMAND_PALETTE = False
@@ -37,6 +37,13 @@ class PickerApp(App):
 
     def on_mount(self) -> None:
         self.push_screen(MainScreen(self.stock_path, self.note))
+
+    async def action_quit(self) -> None:
+        for screen in self.screen_stack:
+            if isinstance(screen, MainScreen) and screen.mounting:
+                screen.quit_wanted = True  # it quits once its panes are in place
+                return
+        self.exit()
 
     def action_help(self) -> None:
         from picker.ui.screens.help import HelpScreen

@@ -93,6 +93,8 @@ class MainScreen(TypingAware, Screen):
         self._searching: Targets | None = None
         self.started = False  # True once every pane is mounted
         self._wanted_pane: str | None = None
+        self.mounting = False  # the lazy panes are being mounted
+        self.quit_wanted = False  # ctrl+q came meanwhile: quit once they are
         self.lane = Lane("search")
 
     def compose(self) -> ComposeResult:
@@ -121,7 +123,17 @@ class MainScreen(TypingAware, Screen):
         panes = [TargetsPane(id="targets"), MatchesPane(id="matches"), ChosenPane(id="chosen")]
         for pane in panes:
             pane.display = False
-        await self.query_one(ContentSwitcher).mount_all(panes)
+        # Quitting in the middle of this would tear the panes down while they still
+        # set themselves up (their on_mount finds no children and the app fails with
+        # exit status 1): the quit waits for the mount, a fraction of a second.
+        self.mounting = True
+        try:
+            await self.query_one(ContentSwitcher).mount_all(panes)
+        finally:
+            self.mounting = False
+        if self.quit_wanted:
+            self.app.exit()
+            return
         for chosen in self.query(ChosenPane):
             chosen.set_stock(self.stock)
         self.started = True

@@ -1,0 +1,161 @@
+"""Every key applied in the order typed, one at a time (DEVELOPERS.md, Terminal UI).
+
+Textual handles a key in several hops: the app runs its priority bindings at once,
+then forwards the key to the focused widget's message queue; a key the widget does
+not take bubbles up through the queue of each ancestor and comes back to the app,
+which then runs the ordinary bindings (an Input's BackSpace and ctrl+u are such
+bindings). The next key in the same terminal read does not wait for those hops: a
+priority binding (ctrl+n) runs while the BackSpace before it is still on its way up
+and then finds the focus elsewhere, and a printable key typed after a BackSpace is
+inserted before the BackSpace is applied. Even a change of focus waits in the app's
+queue behind keys already read, so a digit after ctrl+n still lands in the old field.
+
+``InOrderApp`` makes key handling strictly sequential: keys (and pastes) wait in the
+app's own line; the next one starts only after the one before is finished, and after
+whatever the app was asked to do while handling it (a focus change is one of those):
+
+- a priority binding that ran finishes the key;
+- a widget that stops the key finishes it once that widget's handler returns;
+- a key that bubbles back to the app finishes once the app's bindings have run;
+- a key no widget accepts (disabled, closing) finishes at once.
+
+A key that none of these finishes (its widget removed while the key waited in its
+queue) is let go after ``LOST_KEY_S`` so that the keyboard never locks up.
+"""
+
+from __future__ import annotations
+
+from collections import deque
+from typing import TYPE_CHECKING
+
+from textual import events
+from textual._context import active_message_pump
+from textual.app import App
+
+if TYPE_CHECKING:
+    from textual.message_pump import MessagePump
+    from textual.timer import Timer
+
+LOST_KEY_S = 2.0
+
+
+class _Ordered:
+    """What the in-order copies of a key and a paste add: they report being stopped."""
+
+    __slots__ = ()
+    _line: KeyLine
+
+    def stop(self, stop: bool = True):
+        result = super().stop(stop)  # type: ignore[misc]
+        if stop:
+            self._line.stopped(self)  # type: ignore[arg-type]
+        return result
+
+
+class OrderedKey(_Ordered, events.Key):
+    __slots__ = ("_line",)
+
+
+class OrderedPaste(_Ordered, events.Paste):
+    __slots__ = ("_line",)
+
+
+# handled by the same methods as the events they copy (on_key, _on_paste, key bindings)
+OrderedKey.handler_name = events.Key.handler_name
+OrderedPaste.handler_name = events.Paste.handler_name
+
+Ordered = OrderedKey | OrderedPaste
+
+
+class KeyLine:
+    """The keys waiting, the one being handled, and how each one is finished."""
+
+    def __init__(self, app: InOrderApp) -> None:
+        self.app = app
+        self.waiting: deque[Ordered] = deque()
+        self.current: Ordered | None = None
+        self.releasing = False
+        self._timer: Timer | None = None
+
+    @property
+    def busy(self) -> bool:
+        return self.current is not None or self.releasing
+
+    def copy(self, event: events.Key | events.Paste) -> Ordered:
+        ordered: Ordered
+        if isinstance(event, events.Key):
+            ordered = OrderedKey(event.key, event.character)
+        else:
+            ordered = OrderedPaste(event.text)
+        ordered._line = self
+        ordered._sender = None  # from the terminal, as the driver's own events are
+        return ordered
+
+    def stopped(self, event: Ordered) -> None:
+        """A handler stopped the key: finish it once that handler has returned."""
+        if event is not self.current:
+            return
+        pump: MessagePump = active_message_pump.get(self.app)
+        if pump is self.app or not pump.call_later(self.finish, event):
+            self.app.call_later(self.finish, event)
+
+    def finish(self, event: Ordered) -> None:
+        """The key is handled: the next starts after what the app was asked to do."""
+        if event is not self.current:
+            return
+        self.current = None
+        if self._timer is not None:
+            self._timer.stop()
+            self._timer = None
+        self.releasing = True
+        self.app.call_later(self._release)
+
+    async def _release(self) -> None:
+        self.releasing = False
+        await self.start_next()
+
+    async def start_next(self) -> None:
+        app = self.app
+        while not self.busy and self.waiting:
+            event = self.waiting.popleft()
+            self.current = event
+            self._timer = app.set_timer(LOST_KEY_S, lambda e=event: self.finish(e))
+            if isinstance(event, events.Key):
+                screen = app.screen
+                if (
+                    screen.maximized is not None
+                    and event.key == "escape"
+                    and app.escape_to_minimize
+                ):
+                    screen.minimize()
+                    self.finish(event)
+                    continue
+                if await app._check_bindings(event.key, priority=True):
+                    self.finish(event)
+                    continue
+            target = app.focused or app.screen
+            event._set_forwarded()
+            if not target.post_message(event):
+                self.finish(event)
+
+
+class InOrderApp(App):
+    """An app that applies keys and pastes strictly in the order they arrive."""
+
+    def __init__(self, *args, **kwargs) -> None:
+        super().__init__(*args, **kwargs)
+        self._key_line = KeyLine(self)
+
+    async def on_event(self, event: events.Event) -> None:
+        line = self._key_line
+        if isinstance(event, (OrderedKey, OrderedPaste)):
+            # back from the focused widget: the app's own bindings, then the next key
+            await super().on_event(event)
+            line.finish(event)
+        elif isinstance(event, (events.Key, events.Paste)) and not event.is_forwarded:
+            if isinstance(event, events.Key) and not self.app_focus:
+                self.app_focus = True
+            line.waiting.append(line.copy(event))
+            await line.start_next()
+        else:
+            await super().on_event(event)
