@@ -125,3 +125,30 @@ def test_no_color_sends_no_colour_codes(terminal, stock_copy):
     assert "\x1b[7m" in painted  # the focus is marked in the reverse attribute instead
     terminal.keys("C-q")
     terminal.wait_for("EXITED:0")
+
+
+def test_a_burst_of_edits_and_pane_keys_keeps_its_order(terminal, stock_copy):
+    # every burst goes in ONE send-keys call, so the app reads it in one go
+    terminal.start(picker_command(stock_copy), {})
+    terminal.wait_for("^q quit")
+    terminal.keys("2")
+    terminal.wait_for("what passes")
+    terminal.keys("Tab", "Tab", "Tab", "C-u", "1", "k", "BSpace", "BSpace", "2", "k", "Tab")
+    screen = terminal.wait_for("fc 2k ")
+    assert "fc 2k2k" not in screen and "fc 1k" not in screen
+    # on gain now: BackSpace then ctrl+n must clear gain before the pane changes
+    terminal.keys("BSpace", "C-n")
+    terminal.wait_for("[3 matches]")
+    terminal.keys("2")
+    screen = terminal.wait_for("[2 targets]")
+    gain_line = next(line for line in screen.splitlines() if line.strip().startswith("gain"))
+    assert gain_line.split()[:2] == ["gain", "passband"], gain_line  # the field is empty
+    terminal.keys("C-q")
+    terminal.wait_for("EXITED:0")
+
+
+def test_quit_right_after_the_first_paint_exits_0(terminal, stock_copy):
+    terminal.start(picker_command(stock_copy), {})
+    terminal.wait_for("[1 drawers]")
+    terminal.keys("C-q")
+    terminal.wait_for("EXITED:0")

@@ -158,8 +158,10 @@ class MainScreen(TypingAware, Screen):
         self.query_one(PaneBar).show(self.current, busy=self.busy, stock_name=name)
 
     def action_pane(self, pane_id: str) -> None:
-        if not self.query(f"#{pane_id}"):
-            self._wanted_pane = pane_id  # still mounting: go there once it is
+        if not self.started:
+            # still mounting (a pane half mounted has nothing to focus yet): go there
+            # once every pane is in place
+            self._wanted_pane = None if pane_id == "drawers" else pane_id
             return
         self.query_one(ContentSwitcher).current = pane_id
         self._bar()
