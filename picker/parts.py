@@ -96,3 +96,4 @@ class Candidate:
     stages: tuple[StageChoice, ...]
     opamp: OpAmp | None = None
     warnings: tuple[str, ...] = ()
+    alike: tuple[str, ...] = ()  # what its look-alikes change ("R1 and R2 may be swapped")

@@ -10,7 +10,7 @@ from rich.console import Console, ConsoleOptions, Group, RenderableType, RenderR
 from rich.table import Table
 from rich.text import Text
 
-from picker.report.owner import owner_text
+from picker.report.owner import owner_text, visible
 from picker.report.schematic import arrangement_text, schematic
 from stock.values import format_si
 
@@ -66,6 +66,7 @@ class DesignReport:
                     items.append(f"{name} {value} @{drawer}")
                 prefix = f"{s + 1}: " if len(cand.stages) > 1 else ""
                 parts.append(prefix + ", ".join(items))
+            parts += [f"({visible(note)})" for note in getattr(cand, "alike", ())]
             # a drawer is owner text: a Text cell is never read as markup
             table.add_row(str(rank), pct(cand.score), str(cand.pieces), Text("\n".join(parts)))
         return table
@@ -177,6 +178,7 @@ def design_json(result, budgets=None) -> dict:
                 "stages": stages,
                 "budget": bud.candidate_json() if bud is not None else None,
                 "warnings": warnings,
+                "alike": list(getattr(cand, "alike", ())),
             }
         )
     return {

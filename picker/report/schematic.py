@@ -11,6 +11,7 @@ from __future__ import annotations
 from typing import TYPE_CHECKING
 
 from picker.report.owner import visible
+from stock.display import format_rkm_display
 from stock.values import format_rkm, format_si
 
 if TYPE_CHECKING:
@@ -35,7 +36,7 @@ def arrangement_text(arr) -> tuple[str, str]:
         value = format_rkm(p.value, kind) + (" (measured)" if p.measured is not None else "")
     else:
         value = (
-            format_rkm(float(f"{arr.value:.4g}"), kind)
+            format_rkm_display(arr.value, kind)
             + " = "
             + JOIN[arr.arrangement].join(format_rkm(p.value, kind) for p in arr.parts)
         )

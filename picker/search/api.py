@@ -52,7 +52,7 @@ class SearchResult:
     bound_of: str | None = None
 
 
-SPARE = 3  # combinations asked for per candidate shown, so that look-alikes can go
+SPARE = 4  # combinations asked for per candidate shown, so that look-alikes can go
 
 
 def signature(candidate: Candidate) -> tuple:
@@ -115,7 +115,8 @@ def search(
     for_people : the shells' policy (CLI report, TUI): refuse at once, naming the reach
         of the parts, a stage whose f0 lies outside what the values on hand can reach
         (rather than searching the whole space for a far-off best), and show each
-        look-alike candidate once (see :func:`distinct`). Rank 1 is the same either way.
+        look-alike candidate once, with a note (:mod:`picker.search.alike`). Rank 1 is
+        the same either way.
     rank : "pieces" (fewest pieces within ``max_error``, then smaller worst error, then
         tighter tolerance) or "error" (smallest worst error, then fewer pieces, then
         tighter tolerance); see :mod:`picker.search.ranking`. The yield ranking is
@@ -193,7 +194,11 @@ def search(
         )
     shown = tuple(warnings) + tuple(n for n in notes if "not proven" in n)
     candidates = [replace(c, warnings=shown) for c in candidates]
-    candidates = (distinct(candidates) if for_people else candidates)[:top]
+    if for_people:
+        from picker.search.alike import group
+
+        candidates = group(candidates)
+    candidates = candidates[:top]
     curve: list[tuple[int, float]] = []
     if tradeoff:
         limit = None if time_limit is None else max(clock.remaining(), 0.25 * time_limit)

@@ -114,7 +114,7 @@ def test_json_has_the_documented_shape_and_consistent_numbers(capsys, stock_file
     scores = [c["score"] for c in cands]
     assert scores == sorted(scores)
     for cand in cands:
-        assert set(cand) == {"score", "pieces", "stages", "budget", "warnings"}
+        assert set(cand) == {"score", "pieces", "stages", "budget", "warnings", "alike"}
         worst, pieces = 0.0, 0
         for stage in cand["stages"]:
             assert set(stage) == {"topology", "order", "targets", "achieved", "positions", "budget"}

@@ -29,10 +29,15 @@ def pct(score: float) -> str:
 def parts_text(candidate) -> str:
     """Every position's combined value, RKM style, so that rows of equal score and piece
     count can be told apart at a glance ("R1 18k59 R2 28k3 C1 10n03 C2 4n8")."""
+    from stock.display import format_rkm_display  # a pair's value at 4 figures, as the CLI
     from stock.values import format_rkm
 
+    def shown(arr) -> str:
+        show = format_rkm if arr.arrangement == "single" else format_rkm_display
+        return show(arr.value, arr.kind)
+
     return " | ".join(
-        " ".join(f"{name} {format_rkm(arr.value, arr.kind)}" for name, arr in stage.positions)
+        " ".join(f"{name} {shown(arr)}" for name, arr in stage.positions)
         for stage in candidate.stages
     )
 
