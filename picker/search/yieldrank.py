@@ -392,7 +392,8 @@ def search(
     fields = {f.name: getattr(by_pieces, f.name) for f in dataclasses.fields(by_pieces)}
     fields.update(candidates=[c for c, _ in ranked], notes=tuple(notes))
     if "rank" in fields:
-        fields.update(rank="yield", proven=False)
+        met = not ranked or ranked[0][0].score <= by_pieces.max_error  # no proof carries over
+        fields.update(rank="yield", proven=False, bound=None, bound_of=None, goal_met=met)
     return YieldResult(
         **fields,
         yields=tuple(info for _, info in ranked),
