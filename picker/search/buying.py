@@ -31,6 +31,7 @@ import contextlib
 import dataclasses
 import math
 import time
+from collections import Counter
 from dataclasses import dataclass
 
 from picker.search.buyvalues import (
@@ -261,6 +262,7 @@ class Trial:
         self.opts, self.time_limit, self.count = opts, time_limit, 0
         self.alone0: list = []
         self.screens: list | None = None
+        self.known: dict = {}  # purchases -> after, proven by the stage bounds
         self.skipped = 0  # purchases a stage search proved unable to help
 
     def rank1(self, stock, stages=None, rank=None, **over):
@@ -274,7 +276,7 @@ class Trial:
         return reference(stock, stages or self.stages, rank or self.rank, **kw).candidates[0]
 
     def lower_pieces(self, purchases):
-        from picker.search.buystage import StageScreen, lower_key
+        from picker.search.buystage import StageScreen, attained, lower_key
 
         if self.screens is None:
             space0 = build_space(self.stock, **self.opts)
@@ -286,7 +288,18 @@ class Trial:
         copy, lines = with_purchases(self.stock, purchases)
         space = build_space(copy, **self.opts)
         ids = {i for i, u in enumerate(space.units) if any(u.line is ln for ln in lines)}
-        return lower_key([sc.after(space, ids) for sc in self.screens])
+        results = [sc.after(space, ids) for sc in self.screens]
+        key = lower_key(results)
+        if key is not None and attained(results, space):  # rank 1 after, proven
+            taken = Counter(k for r in results for k in r[2])
+            used = [taken[(ln.kind, ln.index, None)] for ln in lines]
+            if all(used):
+                bought = tuple(
+                    dataclasses.replace(p, qty=u) for p, u in zip(purchases, used, strict=True)
+                )
+                pq = (int(key[1]), float(key[2]))
+                self.known[purchases] = (key, (bought, pq))
+        return key
 
     def alone(self, stock, s: int):
         """(pieces, score) of stage ``s`` searched on its own, or None: no design."""
@@ -363,6 +376,8 @@ class Trial:
         purchase is not used or leaves no design."""
         from picker.errors import NoDesignError
 
+        if purchases in self.known:
+            return self.known[purchases]
         copy, lines = with_purchases(self.stock, purchases)
         try:
             cand = self.rank1(copy)

@@ -17,12 +17,15 @@ old assignments), exact.
 A design of several stages: a combination within the goal takes, in each stage, an
 assignment within the goal, so at least ``sum_s m'_s`` pieces, and with exactly that
 many every stage sits at its ``m'_s`` and the score is at least ``max_s e'_s(m'_s)``:
-:func:`lower_key`. One stage: that key is rank 1 after (quantities are the stage's own).
+:func:`lower_key`. When the stages' bests together fit the quantities on hand
+(:func:`attained`), they are such a combination, so that key is rank 1's key after, and
+the whole search is not needed to know it (one stage: always, its quantities are its own).
 """
 
 from __future__ import annotations
 
 import math
+from collections import Counter
 
 import numpy as np
 
@@ -36,16 +39,17 @@ class StageScreen:
         self.topo, self.target, self.singles, self.goal = topo, target, singles, goal
         self.m: int | None = None
         self.e: float = math.inf
+        self.row: tuple = ()  # the pieces of that best, as unit keys
         n = len(topo.positions)
         for j in range(n, (n if singles else 2 * n) + 1):
             best = self._class(space, j, None, goal)
             if best is not None:
-                self.m, self.e = j, best
+                self.m, self.e, self.row = j, best[0], best[1]
                 break
 
-    def _class(self, space, j: int, new, cap: float) -> float | None:
-        """Best score ``<= cap`` with exactly ``j`` pieces (only assignments using a unit
-        of ``new`` when given), or None."""
+    def _class(self, space, j: int, new, cap: float) -> tuple[float, tuple] | None:
+        """(best score ``<= cap`` with exactly ``j`` pieces, its pieces as unit keys)
+        (only assignments using a unit of ``new`` when given), or None."""
         kinds = set() if new is None else {space.units[int(u)].kind for u in new}
         best = None
         for pat in patterns(len(self.topo.positions), self.singles):
@@ -65,14 +69,16 @@ class StageScreen:
                 problem = StageProblem(self.topo, self.target, space, arrays)
                 if problem.empty():
                     continue
-                rows, _ = problem.best(1, cap=cap if best is None else min(cap, best))
+                rows, _ = problem.best(1, cap=cap if best is None else min(cap, best[0]))
                 if len(rows):
-                    best = float(rows.score[0])
+                    taken = tuple(unit_key(space, int(u)) for u in rows.units[0] if u >= 0)
+                    best = (float(rows.score[0]), taken)
         return best
 
-    def after(self, space, new) -> tuple[int, float] | None:
-        """(fewest pieces within the goal, best score with that many) with the new units;
-        None when the stage cannot reach the goal before (then nothing is screened)."""
+    def after(self, space, new) -> tuple[int, float, tuple] | None:
+        """(fewest pieces within the goal, best score with that many, the pieces of that
+        best as unit keys) with the new units; None when the stage cannot reach the
+        goal before (then nothing is screened)."""
         if self.m is None:
             return None
         ids = np.asarray(sorted(new), dtype=np.int64)
@@ -80,9 +86,17 @@ class StageScreen:
         for j in range(n, self.m):
             best = self._class(space, j, ids, self.goal)
             if best is not None:
-                return j, best
+                return j, best[0], best[1]
         best = self._class(space, self.m, ids, min(self.goal, self.e))
-        return self.m, self.e if best is None else min(self.e, best)
+        if best is None or best[0] >= self.e:
+            return self.m, self.e, self.row
+        return self.m, best[0], best[1]
+
+
+def unit_key(space, uid: int) -> tuple:
+    """A unit by its stock line and reading, the same in every space of the stock."""
+    u = space.units[uid]
+    return (u.kind, u.line.index, u.measured)
 
 
 def lower_key(results) -> tuple | None:
@@ -91,3 +105,13 @@ def lower_key(results) -> tuple | None:
     if any(r is None for r in results):
         return None
     return (0.0, float(sum(r[0] for r in results)), max(r[1] for r in results))
+
+
+def attained(results, space) -> bool:
+    """Whether the stages' own bests, taken together, fit the quantities on hand: then
+    they are one combination whose key is :func:`lower_key`, i.e. rank 1's key."""
+    if any(r is None for r in results):
+        return False
+    use = Counter(k for r in results for k in r[2])
+    have = {unit_key(space, i): int(c) for i, c in enumerate(space.counts)}
+    return all(n <= have.get(k, 0) for k, n in use.items())

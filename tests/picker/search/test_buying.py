@@ -57,7 +57,7 @@ def _cli(capsys, path, *extra):
     return code, out, err
 
 
-def _toml_line(kind: str, value: float, qty: int, tolerance: float) -> str:
+def _toml_line(kind: str, value: float, qty: int, tolerance: float, **_) -> str:
     return f'\n[[{kind}]]\nvalue = "{value!r}"\nqty = {qty}\ntolerance = "{100 * tolerance:g}%"\n'
 
 
@@ -83,6 +83,31 @@ def test_after_is_what_the_design_gives_with_the_purchase(capsys, tmp_path):
         after = json.loads(out)["candidates"][0]
         assert s["after"] == {"pieces": after["pieces"], "score": after["score"]}
         assert s["after"]["score"] < s["before"]["score"]  # better under --rank error
+
+
+def test_after_under_rank_pieces_on_the_sample_bench(capsys, tmp_path):
+    # rank pieces (the default) on a copy of the invented sample bench, two stages: the
+    # afters proven from the one-stage bounds must be what the design gives
+    from picker.commands.common import bundled_sample_path
+
+    text = bundled_sample_path().read_text(encoding="utf-8")
+    path = tmp_path / "inventory.toml"
+    path.write_text(text, encoding="utf-8")
+    args = ("--order", "4", "--top", "1", "--json")
+    code = main(["--stock", str(path), *DESIGN[:-2], *args, "--suggest", "2"])
+    out, _ = capsys.readouterr()
+    assert code == 0
+    doc = json.loads(out)
+    assert doc["suggestions"] and doc["suggestions_proven"]
+    for k, s in enumerate(doc["suggestions"]):
+        copy = tmp_path / f"bought-{k}.toml"
+        extra = "".join(_toml_line(**a) for a in s["also"])
+        copy.write_text(text + _toml_line(s["kind"], s["value"], s["qty"], s["tolerance"]) + extra)
+        code = main(["--stock", str(copy), *DESIGN[:-2], *args])
+        out, _ = capsys.readouterr()
+        assert code == 0
+        after = json.loads(out)["candidates"][0]
+        assert s["after"] == {"pieces": after["pieces"], "score": after["score"]}
 
 
 def test_report_has_the_section(capsys, tmp_path):
