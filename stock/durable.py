@@ -113,6 +113,25 @@ def describe_os_error(exc: OSError) -> str:
     return exc.strerror or str(exc)
 
 
+def lock_exclusive(fd: int) -> None:
+    """Wait for an exclusive advisory lock on ``fd`` (released when it is closed).
+
+    picker is POSIX-only: the lock is ``fcntl.flock``. ``fcntl`` is imported here, when a
+    write takes its lock, so the read-only commands never import it; where there is none
+    the write is refused before anything is changed.
+    """
+    try:
+        import fcntl
+    except ImportError:
+        from stock.errors import StockEditError
+
+        raise StockEditError(
+            "picker changes files only on POSIX systems (it locks them with fcntl, "
+            "which this Python does not have); reading and designing work everywhere else"
+        ) from None
+    fcntl.flock(fd, fcntl.LOCK_EX)
+
+
 def sync_folder(folder) -> None:
     """fsync ``folder`` so that a rename or link inside it survives a crash.
 

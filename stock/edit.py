@@ -2,11 +2,12 @@
 
 Every write:
 
-1. takes an exclusive ``fcntl.flock`` on the stock file itself and keeps it across
-   read-modify-write. The rename at the end puts a new inode at the path, so after
-   the lock is granted the holder checks that the path still names the inode it
-   locked; if not (another writer replaced it meanwhile) it drops the lock and locks
-   the new file. No lock file is left in the owner's folder.
+1. takes an exclusive ``fcntl.flock`` on the stock file itself
+   (``stock.durable.lock_exclusive``) and keeps it across read-modify-write. The
+   rename at the end puts a new inode at the path, so after the lock is granted the
+   holder checks that the path still names the inode it locked; if not (another
+   writer replaced it meanwhile) it drops the lock and locks the new file. No lock
+   file is left in the owner's folder.
 2. reads the bytes through the locked descriptor and refuses (``StockEditError``, file
    untouched) if their sha256 is not the one the caller read (``expect_sha256``);
 3. changes only what it must and keeps every other byte (``stock.splice``): a qty
@@ -24,7 +25,6 @@ the stock file; the next write removes it.
 
 from __future__ import annotations
 
-import fcntl
 import hashlib
 import os
 import re
@@ -36,6 +36,7 @@ from pathlib import Path
 
 from stock.durable import (
     describe_os_error,
+    lock_exclusive,
     open_regular,
     read_fd,
     remove_stale_temps,
@@ -110,7 +111,7 @@ def locked(path):
                 f"{path}: cannot open the stock file: {describe_os_error(exc)}"
             ) from None
         try:
-            fcntl.flock(fd, fcntl.LOCK_EX)
+            lock_exclusive(fd)
             st = os.fstat(fd)
             try:
                 now = os.stat(real)

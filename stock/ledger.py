@@ -27,7 +27,6 @@ text given by its caller (``picker.building``).
 
 from __future__ import annotations
 
-import fcntl
 import hashlib
 import os
 import re
@@ -42,6 +41,7 @@ import tomli_w
 from stock import tomlread
 from stock.durable import (
     describe_os_error,
+    lock_exclusive,
     read_bounded,
     remove_stale_temps,
     sync_folder,
@@ -115,7 +115,7 @@ def locked(stock_path) -> Iterator[Path]:
     except OSError as exc:
         raise _fail(f"{folder}: cannot open the build records folder", exc) from None
     try:
-        fcntl.flock(fd, fcntl.LOCK_EX)
+        lock_exclusive(fd)
         remove_stale_temps(folder)
         _remove_orphan_copies(folder)
         yield folder
