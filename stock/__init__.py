@@ -8,8 +8,18 @@ Knows nothing of filters or screens.
                     add_line, replace_bytes (work done in stock.load, stock.fields, stock.edit)
 """
 
+from typing import TYPE_CHECKING
+
 from stock.errors import PickerError, StockEditError, StockError, StockFileError, ValueParseError
-from stock.model import Capacitor, OpAmp, Resistor, Stock
+from stock.lazy import lazy_exports
+
+if TYPE_CHECKING:
+    from stock.model import Capacitor, OpAmp, Resistor, Stock
+
+# the records load on first use: `from stock.errors import ...` (every command) stays light
+__getattr__ = lazy_exports(
+    __name__, dict.fromkeys(("Capacitor", "OpAmp", "Resistor", "Stock"), "stock.model")
+)
 
 __all__ = [
     "Capacitor",
