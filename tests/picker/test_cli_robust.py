@@ -19,9 +19,8 @@ import pytest
 
 from picker import cli
 from picker.cli import main
-
-ROOT = Path(__file__).resolve().parents[2]
-SAMPLE = ROOT / "sample_inventory.toml"
+from tests.helpers import run_cli as run
+from tests.helpers import write_stock
 
 SMALL = """\
 [[resistor]]
@@ -54,18 +53,7 @@ location = "IC tray"
 
 @pytest.fixture
 def small(tmp_path):
-    path = tmp_path / "inventory.toml"
-    path.write_text(SMALL, encoding="utf-8")
-    return path
-
-
-def run(capsys, *argv):
-    try:
-        code = main(list(argv))
-    except SystemExit as exc:  # argparse: 0 after --help, 2 for a bad option
-        code = exc.code
-    out, err = capsys.readouterr()
-    return code, out, err
+    return write_stock(tmp_path, SMALL)
 
 
 def _env(**extra):

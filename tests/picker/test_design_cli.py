@@ -11,6 +11,8 @@ from rich.console import Console
 
 from picker.cli import main
 from picker.filters import get_topology
+from tests.helpers import run_cli as run
+from tests.helpers import write_stock
 
 STOCK = """\
 [[resistor]]
@@ -66,15 +68,7 @@ location = "IC tray"
 
 @pytest.fixture
 def stock_file(tmp_path):
-    path = tmp_path / "inventory.toml"
-    path.write_text(STOCK, encoding="utf-8")
-    return path
-
-
-def run(capsys, *argv):
-    code = main(list(argv))
-    out, err = capsys.readouterr()
-    return code, out, err
+    return write_stock(tmp_path, STOCK)
 
 
 def test_json_has_the_documented_shape_and_consistent_numbers(capsys, stock_file):
@@ -304,7 +298,6 @@ def test_bad_save_target_is_refused_before_the_search(tmp_path, monkeypatch):
     from pathlib import Path
 
     import picker.search as search_mod
-    from picker.cli import main
 
     stock = tmp_path / "inventory.toml"
     shutil.copy(Path(__file__).resolve().parents[2] / "sample_inventory.toml", stock)

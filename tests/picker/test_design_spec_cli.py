@@ -10,21 +10,13 @@ import tomllib
 import pytest
 from scipy import signal
 
-from picker.cli import main
-from picker.commands.common import bundled_sample_path
+from tests.helpers import copy_sample
+from tests.helpers import run_cli as run
 
 
 @pytest.fixture
 def stock_file(tmp_path):
-    path = tmp_path / "inventory.toml"
-    path.write_bytes(bundled_sample_path().read_bytes())
-    return path
-
-
-def run(capsys, *argv):
-    code = main(list(argv))
-    out, err = capsys.readouterr()
-    return code, out, err
+    return copy_sample(tmp_path)
 
 
 def test_order_is_chosen_shown_and_saved(capsys, stock_file, tmp_path):

@@ -14,8 +14,9 @@ import io
 import pytest
 from rich.console import Console
 
-from picker.cli import main
 from picker.report.owner import owner_text, visible
+from tests.helpers import run_cli as run
+from tests.helpers import write_stock
 
 # TOML basic strings: \u001b is ESC, \u0007 BEL, \u009b the C1 CSI, \u202e a bidi override
 STOCK = """\
@@ -69,15 +70,7 @@ RAW = ("\x1b", "\x07", "\x9b", "\u202e", "⚠")
 
 @pytest.fixture
 def stock_file(tmp_path):
-    path = tmp_path / "inventory.toml"
-    path.write_text(STOCK, encoding="utf-8")
-    return path
-
-
-def run(capsys, *argv):
-    code = main(list(argv))
-    out, err = capsys.readouterr()
-    return code, out, err
+    return write_stock(tmp_path, STOCK)
 
 
 def _no_raw(text: str) -> None:

@@ -11,16 +11,12 @@ import pytest
 from picker.cli import main
 from picker.commands.common import bundled_sample_path, resolve_stock_path
 from stock.file import load
-
-ROOT = Path(__file__).resolve().parents[2]
-SAMPLE = ROOT / "sample_inventory.toml"
+from tests.helpers import ROOT, SAMPLE, copy_sample
 
 
 @pytest.fixture
 def inv(tmp_path):
-    p = tmp_path / "inv.toml"
-    p.write_bytes(SAMPLE.read_bytes())
-    return p
+    return copy_sample(tmp_path, "inv.toml")
 
 
 def test_check_ok(inv, capsys):

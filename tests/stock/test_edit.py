@@ -10,7 +10,6 @@ import subprocess
 import sys
 import textwrap
 import time
-from pathlib import Path
 
 import pytest
 
@@ -24,9 +23,7 @@ from stock.file import (
     load,
     replace_bytes,
 )
-
-ROOT = Path(__file__).resolve().parents[2]
-SAMPLE = ROOT / "sample_inventory.toml"
+from tests.helpers import ROOT, SAMPLE, write_stock
 
 TEXT = """\
 # my drawers   (comment kept)
@@ -48,8 +45,7 @@ dielectric = "C0G"
 
 @pytest.fixture
 def stockfile(tmp_path):
-    p = tmp_path / "inv.toml"
-    p.write_text(TEXT, encoding="utf-8")
+    p = write_stock(tmp_path, TEXT, "inv.toml")
     p.chmod(0o640)
     return p
 
