@@ -28,6 +28,7 @@ COMMAND_MODULES = (
     "picker.commands.stock_cmd",
     "picker.commands.design_cmd",
     "picker.commands.outputs_cmd",
+    "picker.commands.build_cmd",
     "picker.commands.plot_cmd",
     "picker.commands.repair_cmd",
 )

@@ -284,7 +284,7 @@ def test_cli_build_never_lets_the_design_file_choose_the_stock(tmp_path, stock_f
 
 
 def test_cli_build_asks_naming_the_design_stock(tmp_path, stock_file, capsys, monkeypatch):
-    from picker.commands import outputs_cmd
+    from picker.commands import build_cmd
 
     _design(tmp_path, stock_file)
     asked = []
@@ -293,7 +293,7 @@ def test_cli_build_asks_naming_the_design_stock(tmp_path, stock_file, capsys, mo
         asked.append(question)
         return "n" if len(asked) == 1 else "y"
 
-    monkeypatch.setattr(outputs_cmd, "_interactive", lambda: True)
+    monkeypatch.setattr(build_cmd, "_interactive", lambda: True)
     monkeypatch.setattr("builtins.input", answer)
     before = stock_file.read_bytes()
     assert main(["build", str(tmp_path / "design.toml")]) == 0  # "n": nothing taken
