@@ -2,7 +2,9 @@
 
 Knows nothing of filters or screens.
 
-    stock.values    parse_value / format_rkm / format_si and the %, ppm, V, Hz, V/us readers
+    stock.values    parse_value / format_rkm / format_si (and, re-exported, the two below)
+    stock.units     the %, ppm, V, Hz, A, W, V/us readers
+    stock.text      owner text in messages: printable, shown, toml_text, type_word
     stock.eseries   series, nearest, series_of (IEC 60063 tables)
     stock.file      load, loads, file_sha256; QtyChange, EditResult, apply_changes,
                     add_line, replace_bytes (work done in stock.load, stock.fields, stock.edit)

@@ -1,5 +1,9 @@
 """Read and write component values: RKM code, SI prefixes, units, percent, ppm.
 
+The readers of other quantities (percent, ppm, voltage, frequency ...) are in
+``stock.units``, the helpers that quote owner text in messages in ``stock.text``; both
+are importable from here as before.
+
 Accepted value texts (docs/stock-file.md):
 
 - RKM code as in IEC 60062 [1]_: the multiplier letter stands where the decimal point
@@ -27,8 +31,23 @@ import functools
 import math
 import re
 from decimal import Decimal
+from typing import TYPE_CHECKING
 
 from stock.errors import ValueParseError
+from stock.lazy import lazy_exports
+from stock.text import printable, shown, toml_text, type_word
+
+if TYPE_CHECKING:
+    from stock.units import (
+        parse_current,
+        parse_frequency,
+        parse_number,
+        parse_percent,
+        parse_power,
+        parse_ppm,
+        parse_slew,
+        parse_voltage,
+    )
 
 # prefix -> power of ten; values are built as decimals so that "2n2" is exactly float("2.2e-9")
 PREFIXES = {
@@ -64,97 +83,6 @@ VALUE_HELP = (
     "write an RKM code (4k7, R47, 2n2, 1M0, 4u7), SI notation (4.7k, 2.2n, 1meg, "
     "1e-9) or a plain number, with an optional unit (Ω, ohm, F)"
 )
-
-
-def printable(text: str) -> str:
-    """``text`` with every character that is not printable (C0 and C1 controls such as ESC,
-    DEL, bidi overrides, line separators) shown as a Python escape: ``\\x1b``, ``\\u202e``."""
-    if text.isprintable():
-        return text
-    return "".join(
-        c if c.isprintable() else c.encode("unicode_escape").decode("ascii") for c in text
-    )
-
-
-def shown(text, limit: int = 80) -> str:
-    """``text`` in single quotes for a message, as the owner wrote it.
-
-    Control characters (ESC, CR, tabs ...) are shown escaped (``\\x1b``), never sent
-    raw; past ``limit`` characters the text is cut and its length said.
-    """
-    s = text if isinstance(text, str) else toml_text(text)
-    out = printable(s)
-    if len(out) <= limit:
-        return f"'{out}'"
-    return f"'{out[: limit - 1]}…' ({len(s):,} characters)"
-
-
-def toml_text(value, limit: int = 200) -> str:
-    """How TOML spells a parsed ``value``: ``true``, ``1979-05-27``, ``1000.0``, ``[1, 2]``.
-
-    For messages about a value whose own text in the file is not at hand; long arrays
-    and tables are cut near ``limit`` characters.
-    """
-    if isinstance(value, bool):
-        return "true" if value else "false"
-    if isinstance(value, int):
-        if value.bit_length() > 10_000:  # str() refuses past Python's digit limit
-            return f"<a whole number of about {int(value.bit_length() * 0.30103):,} digits>"
-        return str(value)
-    if isinstance(value, float):
-        if math.isnan(value):
-            return "nan"
-        if math.isinf(value):
-            return "inf" if value > 0 else "-inf"
-        return repr(value)
-    if isinstance(value, str):
-        return '"' + value.replace("\\", "\\\\").replace('"', '\\"') + '"'
-    if hasattr(value, "isoformat"):  # date, time, datetime
-        return value.isoformat()
-    if isinstance(value, (list, tuple)):
-        parts, size = [], 0
-        for x in value:
-            if size > limit:
-                parts.append("…")
-                break
-            parts.append(toml_text(x, limit))
-            size += len(parts[-1]) + 2
-        return "[" + ", ".join(parts) + "]"
-    if isinstance(value, dict):
-        parts, size = [], 0
-        for k, x in value.items():
-            if size > limit:
-                parts.append("…")
-                break
-            parts.append(f"{k} = {toml_text(x, limit)}")
-            size += len(parts[-1]) + 2
-        return "{" + ", ".join(parts) + "}"
-    return str(value)
-
-
-def type_word(value) -> str:
-    """What a parsed TOML value is, in words: "a date", "true or false", "a list" ..."""
-    import datetime as _dt
-
-    if isinstance(value, bool):
-        return "true or false"
-    if isinstance(value, int):
-        return "a whole number"
-    if isinstance(value, float):
-        return "a float"
-    if isinstance(value, str):
-        return "text"
-    if isinstance(value, _dt.datetime):
-        return "a date and time"
-    if isinstance(value, _dt.date):
-        return "a date"
-    if isinstance(value, _dt.time):
-        return "a time of day"
-    if isinstance(value, (list, tuple)):
-        return "a list"
-    if isinstance(value, dict):
-        return "a table"
-    return type(value).__name__
 
 
 def _prefix_exp(prefix: str | None) -> int:
@@ -295,120 +223,6 @@ def parse_value(text, *, kind: str | None = None) -> float:
     return _scaled(digits, exp, m["sign"], text)
 
 
-def _parse_with_unit(text, unit_re: str, what: str, example: str, *, bare_ok: bool = True) -> float:
-    """Number, optional SI prefix, then the unit (matched by ``unit_re``)."""
-    help_ = f"write {what} like {example}"
-    if isinstance(text, bool) or not isinstance(text, (int, float, str)):
-        raise ValueParseError(f"{shown(text)} is {type_word(text)}, not {what}; {help_}")
-    if isinstance(text, (int, float)):
-        if not bare_ok:
-            raise ValueParseError(f"{shown(text)} has no unit; {help_}")
-        return _bare_number(text)
-    s = text.strip()
-    for pm in ("±", "+/-"):
-        if s.startswith(pm):
-            s = s[len(pm) :].strip()
-    m = re.fullmatch(rf"([+-]?)({_NUM})\s*({_PREFIX})?\s*({unit_re})?", s)
-    if m:
-        sign, digits, exp, unit = m[1], m[2], _prefix_exp(m[3]), m[4]
-    else:  # RKM style, the prefix letter as the decimal point: 1k5 = 1.5 k (IEC 60062)
-        m = re.fullmatch(rf"([+-]?)([0-9]*)({_RKM_PREFIX})([0-9]+)\s*({unit_re})?", s)
-        if not m:
-            raise ValueParseError(f"cannot read {what} {shown(text)}; {help_}")
-        sign, digits, exp, unit = m[1], f"{m[2] or '0'}.{m[4]}", PREFIXES[m[3]], m[5]
-    if not unit and not bare_ok:
-        raise ValueParseError(f"{shown(text)} has no unit; {help_}")
-    return _scaled(digits, exp, sign, text)
-
-
-@_memo_text
-def parse_percent(text) -> float:
-    """``"1%"``, ``"±0.5 %"`` -> fraction (0.01, 0.005). The percent sign is required."""
-    help_ = "write a percentage like '1%' or '0.5%'"
-    if isinstance(text, str):
-        s = text.strip()
-        for pm in ("±", "+/-"):
-            if s.startswith(pm):
-                s = s[len(pm) :].strip()
-        m = re.fullmatch(rf"({_NUM})\s*%", s)
-        if m:
-            return _scaled(m[1], -2, "", text)
-        raise ValueParseError(f"cannot read percentage {shown(text)}; {help_}")
-    raise ValueParseError(
-        f"{shown(text)} is {type_word(text)}, not a percentage; {help_} (with the %"
-        " sign, in quotes)"
-    )
-
-
-@_memo_text
-def parse_ppm(text) -> float:
-    """``"50ppm"``, ``"-750 ppm/K"``, ``"100ppm/°C"`` -> fraction per kelvin (50e-6)."""
-    help_ = "write a temperature coefficient like '100ppm' or '-750ppm/K'"
-    if isinstance(text, str):
-        s = text.strip()
-        for pm in ("±", "+/-"):
-            if s.startswith(pm):
-                s = s[len(pm) :].strip()
-        m = re.fullmatch(rf"([+-]?)({_NUM})\s*ppm\s*(?:/\s*(?:K|°C|C|°K))?", s, re.IGNORECASE)
-        if m:
-            return _scaled(m[2], -6, m[1], text)
-        raise ValueParseError(f"cannot read temperature coefficient {shown(text)}; {help_}")
-    raise ValueParseError(
-        f"{shown(text)} is {type_word(text)}, not a temperature coefficient; {help_} (in quotes)"
-    )
-
-
-@_memo_text
-def parse_voltage(text) -> float:
-    """``"50V"``, ``"6.3 V"``, ``"1kV"``, ``"6V3"`` (RKM) or a bare number -> volt."""
-    if isinstance(text, str):
-        m = re.fullmatch(r"\s*([0-9]+)V([0-9]+)\s*", text)
-        if m:  # RKM style as printed on capacitors, 6V3 = 6.3 V (common practice)
-            return float(f"{m[1]}.{m[2]}")
-    return _parse_with_unit(text, "[Vv]", "a voltage", "'50V' or '6.3V'")
-
-
-@_memo_text
-def parse_frequency(text) -> float:
-    """``"1k"``, ``"1kHz"``, ``"2.5 MHz"`` or a bare number -> hertz."""
-    return _parse_with_unit(text, "[Hh][Zz]", "a frequency", "'1kHz', '2.5 MHz' or '1k'")
-
-
-@_memo_text
-def parse_number(text) -> float:
-    """A plain number with an optional SI prefix or RKM letter, no unit: ``"2"``,
-    ``"0.707"``, ``"1k"``, ``"1k5"`` (1500), ``"1e3"``."""
-    return _parse_with_unit(text, "(?!)", "a number", "'2', '0.707', '1k' or '1k5'")
-
-
-@_memo_text
-def parse_current(text) -> float:
-    """``"30pA"``, ``"1 nA"`` or a bare number -> ampere."""
-    return _parse_with_unit(text, "A", "a current", "'30pA' or '2nA'")
-
-
-@_memo_text
-def parse_power(text) -> float:
-    """``"0.25W"``, ``"250mW"`` or a bare number -> watt."""
-    return _parse_with_unit(text, "W", "a power", "'0.25W' or '250mW'")
-
-
-@_memo_text
-def parse_slew(text) -> float:
-    """``"13V/us"``, ``"0.5 V/µs"``, ``"13e6 V/s"`` -> volt per second. The unit is required."""
-    help_ = "write a slew rate like '13V/us' or '0.5 V/µs'"
-    if isinstance(text, str):
-        s = text.strip()
-        m = re.fullmatch(rf"({_NUM})\s*({_PREFIX})?\s*V\s*/\s*([munµμ]?)s", s)
-        if m:
-            per = {"": 0, "m": -3, "u": -6, "µ": -6, "μ": -6, "n": -9}[m[3]]
-            return _scaled(m[1], _prefix_exp(m[2]) - per, "", text)
-        raise ValueParseError(f"cannot read slew rate {shown(text)}; {help_}")
-    raise ValueParseError(
-        f"{shown(text)} is {type_word(text)}, not a slew rate; {help_} (with its unit, in quotes)"
-    )
-
-
 def _sig_decimal(value: float, max_digits: int = 6) -> Decimal:
     """The shortest decimal (1..max_digits significant digits) equal to value within 1e-9."""
     for n in range(1, max_digits + 1):
@@ -496,6 +310,11 @@ def format_si(value: float, unit: str = "", *, digits: int = 3, ascii_micro: boo
         prefix = "u"
     return f"{sign}{number} {prefix}{unit}".rstrip()
 
+
+# the readers of percent, ppm, V, Hz, A, W, V/us live in stock.units (they use the
+# number reading above); they are imported from there on first use
+_UNITS = "current frequency number percent power ppm slew voltage"
+__getattr__ = lazy_exports(__name__, {f"parse_{u}": "stock.units" for u in _UNITS.split()})
 
 __all__ = [
     "VALUE_HELP",
