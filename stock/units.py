@@ -23,6 +23,12 @@ from stock.values import (
 )
 
 
+def format_percent(fraction: float, digits: int = 3) -> str:
+    """A fraction as the percentage a stock file writes: 0.01 -> ``1%``, 0.005 -> ``0.5%``
+    (``digits`` significant digits); what ``parse_percent`` reads back."""
+    return f"{fraction * 100:.{digits}g}%"
+
+
 def _without_plus_minus(text: str) -> str:
     """``text`` stripped, and without a leading ``±`` or ``+/-`` (a tolerance as printed)."""
     s = text.strip()
@@ -138,6 +144,7 @@ def parse_slew(text) -> float:
 
 
 __all__ = [
+    "format_percent",
     "parse_current",
     "parse_frequency",
     "parse_number",

@@ -17,6 +17,7 @@ import math
 from dataclasses import dataclass
 
 from picker.export.design_file import SavedDesign
+from stock.units import format_percent
 
 KIND_ORDER = {"resistor": 0, "capacitor": 1, "opamp": 2}
 CSV_HEADER = ("kind", "value", "tolerance", "location", "count", "positions", "measured")
@@ -56,8 +57,7 @@ def opamp_packages(design: SavedDesign) -> int:
 
 
 def _format_tolerance(tol: float) -> str:
-    pct = tol * 100.0
-    return f"{pct:.2g}%" if pct < 1 else f"{pct:.3g}%"
+    return format_percent(tol, digits=2 if tol * 100.0 < 1 else 3)
 
 
 def _join_positions(by_stage: dict[int, list[str]], stages: int) -> str:

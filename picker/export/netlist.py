@@ -28,6 +28,7 @@ import math
 from picker.errors import DesignError
 from picker.export.bom import designator, reference_name
 from picker.export.design_file import SavedDesign
+from stock.units import format_percent
 
 # the open-loop gain of picker.analysis.A0_DEFAULT (2e5, common practice), written out
 # here so that `picker netlist` does not import numpy; a test keeps the two equal
@@ -148,7 +149,7 @@ def spice_netlist(design: SavedDesign) -> str:
                 lines.append(
                     f"* {name} = stage {s} {designator(pos.name, pos.arrangement, k)}: "
                     f"{format_rkm(part.value, part.kind)}{reading}, "
-                    f"{_pct(part.tolerance)}, {where}, stock {part.kind} "
+                    f"{format_percent(part.tolerance)}, {where}, stock {part.kind} "
                     f"{part.index} (line {part.line})"
                 )
                 lines.append(f"{name} {ends[k][0]} {ends[k][1]} {_num(part.value)}")
@@ -178,7 +179,3 @@ def sweep_range(design: SavedDesign) -> tuple[float, float]:
 
 def _num(value: float) -> str:
     return f"{value:.9g}"
-
-
-def _pct(tol: float) -> str:
-    return f"{tol * 100:.3g}%"
