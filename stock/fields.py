@@ -10,6 +10,7 @@ from __future__ import annotations
 import math
 import re
 from collections.abc import Callable
+from typing import Any
 
 from stock import values as V
 from stock.errors import ValueParseError
@@ -293,7 +294,8 @@ class EntryChecker:
         self._unknown_keys()
         return getattr(self, f"_build_{self.kind}")()
 
-    def _common(self, default_tol):
+    def _common(self, default_tol) -> dict[str, Any]:
+        """The keys resistors and capacitors share, as keyword arguments of their records."""
         value = self._value()
         qty = self._int("qty", required=True, minimum=0, what="a whole number of pieces >= 0")
         tol, assumed = self._fraction("tolerance", default_tol)
@@ -303,33 +305,31 @@ class EntryChecker:
             "tempco", V.parse_ppm, lo=-0.1, hi=0.1, span="-1e5 .. 1e5 ppm", positive=False
         )
         measured = self._measured(qty, value, tol, meter)
-        return value, qty, tol, assumed, meter, tempco, measured
+        return {
+            "value": value,
+            "qty": qty,
+            "tolerance": tol,
+            "tolerance_assumed": assumed,
+            "tempco": tempco,
+            "measured": measured,
+            "meter": meter,
+        }
+
+    def _placed(self) -> dict[str, Any]:
+        """Drawer, note and where the entry stands: the last keys of every record."""
+        location, note = self._text("location"), self._text("note")
+        return {"location": location, "note": note, "line": self.header, "index": self.index}
 
     def _build_resistor(self):
-        value, qty, tol, assumed, meter, tempco, measured = self._common(DEFAULT_RESISTOR_TOLERANCE)
+        common = self._common(DEFAULT_RESISTOR_TOLERANCE)
         power = self._parsed("power", V.parse_power, hi=1e4, span="up to 10 kW")
-        location, note = self._text("location"), self._text("note")
-        if value is None or qty is None or self.errors:
+        placed = self._placed()
+        if common["value"] is None or common["qty"] is None or self.errors:
             return None
-        return Resistor(
-            value=value,
-            qty=qty,
-            tolerance=tol,
-            tolerance_assumed=assumed,
-            tempco=tempco,
-            power=power,
-            location=location,
-            note=note,
-            measured=measured,
-            meter=meter,
-            line=self.header,
-            index=self.index,
-        )
+        return Resistor(**common, power=power, **placed)
 
     def _build_capacitor(self):
-        value, qty, tol, assumed, meter, tempco, measured = self._common(
-            DEFAULT_CAPACITOR_TOLERANCE
-        )
+        common = self._common(DEFAULT_CAPACITOR_TOLERANCE)
         dielectric = None
         raw = self.entry.get("dielectric")
         if raw is not None:
@@ -350,24 +350,11 @@ class EntryChecker:
                     "polarized", f"{self.q('polarized', raw)} must be true or false (no quotes)"
                 )
         voltage = self._parsed("voltage", V.parse_voltage, hi=1e5, span="up to 100 kV")
-        location, note = self._text("location"), self._text("note")
-        if value is None or qty is None or self.errors:
+        placed = self._placed()
+        if common["value"] is None or common["qty"] is None or self.errors:
             return None
         return Capacitor(
-            value=value,
-            qty=qty,
-            tolerance=tol,
-            tolerance_assumed=assumed,
-            dielectric=dielectric,
-            polarized=polarized,
-            voltage=voltage,
-            location=location,
-            note=note,
-            measured=measured,
-            meter=meter,
-            line=self.header,
-            index=self.index,
-            tempco=tempco,
+            **common, dielectric=dielectric, polarized=polarized, voltage=voltage, **placed
         )
 
     def _build_opamp(self):
@@ -383,7 +370,7 @@ class EntryChecker:
         supply = self._parsed("supply", V.parse_voltage, hi=1e4, span="up to 10 kV")
         ib = self._parsed("ib", V.parse_current, lo=0, hi=1.0, span="0 .. 1 A", positive=False)
         qty = self._int("qty", required=True, minimum=0, what="a whole number of packages >= 0")
-        location, note = self._text("location"), self._text("note")
+        placed = self._placed()
         if gbw is None or qty is None or self.errors:
             return None
         return OpAmp(
@@ -394,8 +381,5 @@ class EntryChecker:
             channels=channels,
             supply=supply,
             ib=ib,
-            location=location,
-            note=note,
-            line=self.header,
-            index=self.index,
+            **placed,
         )
