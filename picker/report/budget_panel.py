@@ -16,9 +16,9 @@ from rich.table import Table
 from rich.text import Text
 
 from picker.report.owner import owner_text, visible
+from picker.report.views import block_rows
 from stock.values import format_si
 
-BARS = " ▁▂▃▄▅▆▇█"
 HIST_ROWS = 4
 
 
@@ -133,14 +133,8 @@ class BudgetPanel:
         n = len(h.counts)
         cell = max(1, min(2, (width - 2) // n))
         top = max(h.counts)
-        rows = []
-        for r in range(HIST_ROWS - 1, -1, -1):
-            line = ""
-            for c in h.counts:
-                level = c / top * HIST_ROWS - r
-                ch = BARS[max(0, min(8, int(round(level * 8))))]
-                line += ch * cell
-            rows.append(Text(line))
+        eighths = [round(c / top * HIST_ROWS * 8) for c in h.counts]
+        rows = [Text(line) for line in block_rows(eighths, rows=HIST_ROWS, repeat=cell)]
         axis = [" "] * (n * cell)
         lo, hi = h.edges[0], h.edges[-1]
         for value, mark in ((h.nominal, "n"), (h.target, "T")):

@@ -21,6 +21,7 @@ from rich.text import Text
 
 from stock.values import format_si
 
+# eighths of a character cell, empty to full (U+2581..U+2588)
 BLOCKS = " ▁▂▃▄▅▆▇█"
 CURVE_ROWS = 2
 CURVE_WIDTH = 60
@@ -37,8 +38,14 @@ def block_curve(values: Sequence[float], *, width: int, rows: int = CURVE_ROWS) 
     n = len(values)
     cols = [values[min(n - 1, round(i * (n - 1) / max(width - 1, 1)))] for i in range(width)]
     levels = [0 if not math.isfinite(v) else round((v - lo) / span * rows * 8) for v in cols]
+    return block_rows(levels, rows=rows)
+
+
+def block_rows(eighths: Sequence[int], *, rows: int, repeat: int = 1) -> list[str]:
+    """Bars standing on the bottom row, top row first: column ``i`` filled to
+    ``eighths[i]`` eighths of a row, each column ``repeat`` characters wide."""
     return [
-        "".join(BLOCKS[max(0, min(8, lev - r * 8))] for lev in levels)
+        "".join(BLOCKS[max(0, min(8, e - r * 8))] * repeat for e in eighths)
         for r in range(rows - 1, -1, -1)
     ]
 

@@ -11,7 +11,7 @@ from rich.console import Console
 from picker.analysis.step_delay import candidate_views
 from picker.cli import main
 from picker.commands.common import bundled_sample_path
-from picker.report.views import ViewsPanel, block_curve
+from picker.report.views import ViewsPanel, block_curve, block_rows
 from stock.values import format_si
 from tests.picker.analysis.test_step_delay import design
 
@@ -46,6 +46,13 @@ def test_block_curve_spans_empty_to_full():
     rows = block_curve([0.0, 0.5, 1.0], width=3, rows=2)
     assert rows == ["  █", " ██"]  # half way fills the lower row of two
     assert block_curve([], width=5) == []
+
+
+def test_block_rows_fill_by_eighths_from_the_bottom():
+    # the eight block elements U+2581..U+2588 stand for 1..8 eighths of a cell (Unicode)
+    assert block_rows([0, 4, 8, 12, 16], rows=2) == ["   ▄█", " ▄███"]
+    assert block_rows([3], rows=1, repeat=3) == ["▃▃▃"]
+    assert block_rows([99, -5], rows=1) == ["█ "]  # clamped to an empty or a full cell
 
 
 def test_show_in_the_design_command(capsys, tmp_path):
