@@ -22,7 +22,7 @@ ORDERS = (1, 8)
 # million is 120 dB in one filter; a Q of 1000 rings for a thousand cycles); past them
 # the search would only grind through a space that cannot answer
 GAIN_RANGE = (1e-6, 1e6)
-Q_RANGE = (0.01, 1000.0)
+Q_RANGE = (0.01, 100.0)  # past Q 100 no stock of 1 % parts holds the response
 TEMP_CEILING_C = 1000.0
 TOP_MAX = 100
 TRIALS_MAX = 1_000_000
