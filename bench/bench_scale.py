@@ -117,9 +117,8 @@ def make_stocks(tmp: Path) -> dict[str, Path]:
 
 def run_case(stock: Path, design: str, timeout: float, as_kb: int) -> dict:
     cmd = PICKER + ["--stock", str(stock), "design"] + shlex.split(design)
-    shell = (
-        f"ulimit -v {as_kb}; exec /usr/bin/time -v timeout {timeout:g} "
-        + " ".join(shlex.quote(c) for c in cmd)
+    shell = f"ulimit -v {as_kb}; exec /usr/bin/time -v timeout {timeout:g} " + " ".join(
+        shlex.quote(c) for c in cmd
     )
     t0 = time.monotonic()
     proc = subprocess.run(

@@ -14,7 +14,7 @@ sorted by value, so a window of values is two ``np.searchsorted`` calls.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 
@@ -83,6 +83,17 @@ class Space:
     counts: np.ndarray  # int64 per unit id
     values: dict[str, Values]  # "resistor" | "capacitor" -> Values
     usable: dict[str, int]  # pieces on hand per kind (units usable at all)
+    _parts: dict = field(default_factory=dict, compare=False, repr=False)
+
+    def with_pieces(self, kind: str, pieces: int) -> tuple[Values, np.ndarray]:
+        """The values of ``kind`` made of ``pieces`` pieces (1 or 2), and their indices in
+        ``values[kind]``; made once per space, shared by every stage and pattern."""
+        key = (kind, pieces)
+        if key not in self._parts:
+            values = self.values[kind]
+            mask = values.pieces == pieces
+            self._parts[key] = (values.subset(mask), np.flatnonzero(mask))
+        return self._parts[key]
 
     def arrangement(self, kind: str, index: int) -> Arrangement:
         """The picker.parts record of value ``index`` of ``kind`` (the boundary conversion)."""
@@ -134,44 +145,122 @@ def build_space(
     return Space(tuple(units), counts, values, usable)
 
 
+CHUNK = 1 << 20  # pairs generated at a time (memory: a few such blocks, never n^2 at once)
+UNIT = np.int32  # unit ids (a stock file has far fewer than 2^31 units)
+SMALL = np.int8  # piece counts and arrangement codes
+
+
 def _kind_values(kind, ids, units, counts, singles, limits) -> Values:
+    """Singles and pairs of one kind within ``limits``, sorted by (value, pieces, tolerances).
+
+    Pairs are never enumerated outside the bounds: with the singles sorted by value, the
+    partners ``b >= a`` of each ``a`` whose sum lies in ``[lo, hi]`` are one index range
+    (``b`` in ``[lo - a, hi - a]``), and so are those whose reciprocal sum does
+    (``1/b`` in ``[1/hi - 1/a, 1/lo - 1/a]``); the ranges are widened by a relative 1e-9
+    and the exact bound test applied after, so rounding drops nothing. Arrays are sized
+    from the range lengths first and filled block by block (:data:`CHUNK` pairs)."""
+    lo, hi = limits
     val = np.array([units[i].value for i in ids], dtype=float)
     tol = np.array([units[i].tolerance for i in ids], dtype=float)
-    cols = [
-        (
-            val,
-            np.ones(ids.size, np.int64),
-            ids,
-            np.full(ids.size, -1, np.int64),
-            np.full(ids.size, SINGLE, np.int64),
-            tol,
-            tol,
-        )
+    by_value = np.argsort(val, kind="stable")
+    ids, val, tol = ids[by_value], val[by_value], tol[by_value]
+    twice = counts[ids] >= 2 if ids.size else np.zeros(0, bool)
+    inside = (val >= lo) & (val <= hi)
+    blocks = [
+        (val[inside], ids[inside], np.full(int(inside.sum()), -1, np.int64), SINGLE, tol[inside])
     ]
+    total = int(inside.sum())
+    plans = []
     if not singles and ids.size:
-        ia, ib = np.triu_indices(ids.size)  # unordered pairs, a <= b
-        keep = (ia != ib) | (counts[ids[ia]] >= 2)  # the same unit twice needs two pieces
-        ia, ib = ia[keep], ib[keep]
-        a, b = val[ia], val[ib]
-        plus, product = a + b, a * b / (a + b)
         # resistors add in series, capacitors in parallel (picker.parts.combine)
-        series, parallel = (plus, product) if kind == "resistor" else (product, plus)
-        n = ia.size
-        for combined, code in ((series, SERIES), (parallel, PARALLEL)):
-            cols.append(
-                (
-                    combined,
-                    np.full(n, 2, np.int64),
-                    ids[ia],
-                    ids[ib],
-                    np.full(n, code, np.int64),
-                    np.maximum(tol[ia], tol[ib]),
-                    tol[ia] + tol[ib],
-                )
+        add_code, rec_code = (SERIES, PARALLEL) if kind == "resistor" else (PARALLEL, SERIES)
+        for code, start, stop in (
+            (add_code, *_sum_ranges(val, lo, hi)),
+            (rec_code, *_reciprocal_ranges(val, lo, hi)),
+        ):
+            plans.append((code, code == add_code, start, stop))
+            total += int(np.maximum(stop - start, 0).sum())
+    out = {
+        "value": np.empty(total, float),
+        "pieces": np.empty(total, SMALL),
+        "unit_a": np.empty(total, UNIT),
+        "unit_b": np.empty(total, UNIT),
+        "code": np.empty(total, SMALL),
+        "tol_max": np.empty(total, float),
+        "tol_sum": np.empty(total, float),
+    }
+    n = 0
+
+    def put(v, a, b, code, tmax, tsum):
+        nonlocal n
+        k = v.size
+        sl = slice(n, n + k)
+        out["value"][sl], out["unit_a"][sl], out["unit_b"][sl] = v, a, b
+        out["pieces"][sl] = 1 if code == SINGLE else 2
+        out["code"][sl], out["tol_max"][sl], out["tol_sum"][sl] = code, tmax, tsum
+        n += k
+
+    v, a, b, code, t = blocks[0]
+    put(v, a, b, code, t, t)
+    for code, additive, start, stop in plans:
+        for ia, ib in _pair_blocks(start, stop):
+            keep = (ia != ib) | twice[ia]  # the same unit twice needs two pieces
+            ia, ib = ia[keep], ib[keep]
+            x, y = val[ia], val[ib]
+            combined = x + y if additive else x * y / (x + y)
+            ok = (combined >= lo) & (combined <= hi)
+            ia, ib, combined = ia[ok], ib[ok], combined[ok]
+            ua, ub = ids[ia], ids[ib]
+            put(
+                combined,
+                np.minimum(ua, ub),
+                np.maximum(ua, ub),
+                code,
+                np.maximum(tol[ia], tol[ib]),
+                tol[ia] + tol[ib],
             )
-    arrays = [np.concatenate([c[k] for c in cols]) for k in range(len(_FIELDS))]
-    lo, hi = limits
-    inside = (arrays[0] >= lo) & (arrays[0] <= hi)
-    arrays = [a[inside] for a in arrays]
-    order = np.lexsort((arrays[6], arrays[5], arrays[1], arrays[0]))
+    arrays = [out[f][:n] for f in _FIELDS]
+    # ties in (value, pieces, tolerances) keep the order of the unit ids: singles, then
+    # series before parallel pairs, each by (first unit, second unit)
+    order = np.lexsort(
+        (arrays[3], arrays[2], arrays[4], arrays[6], arrays[5], arrays[1], arrays[0])
+    )
     return Values(*(a[order] for a in arrays))
+
+
+def _sum_ranges(val, lo, hi):
+    """Per ``a`` (sorted ``val``), partners ``b >= a`` with ``a + b`` in ``[lo, hi]``."""
+    first = np.arange(val.size)
+    start = np.maximum(first, np.searchsorted(val, (lo - val) * (1 - 1e-9), side="left"))
+    stop = np.searchsorted(val, (hi - val) * (1 + 1e-9), side="right")
+    return start, np.maximum(stop, start)
+
+
+def _reciprocal_ranges(val, lo, hi):
+    """Per ``a``, partners ``b >= a`` with ``1/(1/a + 1/b)`` in ``[lo, hi]``."""
+    first = np.arange(val.size)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        inv_lo = 1.0 / np.float64(hi) - 1.0 / val  # 1/b >= this
+        inv_hi = 1.0 / np.float64(lo) - 1.0 / val  # 1/b <= this (inf for lo = 0)
+        b_min = np.where(inv_hi > 0, 1.0 / inv_hi, np.inf)
+        b_max = np.where(inv_lo > 0, 1.0 / inv_lo, np.inf)
+    start = np.maximum(first, np.searchsorted(val, b_min * (1 - 1e-9), side="left"))
+    stop = np.searchsorted(val, np.where(np.isinf(b_max), np.inf, b_max * (1 + 1e-9)), "right")
+    return start, np.maximum(stop, start)
+
+
+def _pair_blocks(start, stop, chunk: int = CHUNK):
+    """``(ia, ib)`` index arrays of every ``ib`` in ``[start[ia], stop[ia])``, in blocks."""
+    width = np.maximum(stop - start, 0)
+    cum = np.cumsum(width)
+    first = 0
+    while first < width.size:
+        base = int(cum[first - 1]) if first else 0
+        last = max(int(np.searchsorted(cum, base + chunk, side="right")), first + 1)
+        w = width[first:last]
+        ia = np.repeat(np.arange(first, last), w)
+        offset = np.arange(ia.size) - np.repeat(np.cumsum(w) - w, w)
+        ib = start[ia] + offset
+        if ia.size:
+            yield ia, ib
+        first = last

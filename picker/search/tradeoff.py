@@ -37,9 +37,7 @@ class StageClasses:
         for pat in patterns(len(topo.positions), singles):
             arrays, back = {}, {}
             for p, n in zip(topo.positions, pat, strict=False):
-                values = space.values[p.kind]
-                mask = values.pieces == n
-                arrays[p.name], back[p.name] = values.subset(mask), np.flatnonzero(mask)
+                arrays[p.name], back[p.name] = space.with_pieces(p.kind, n)
             problem = StageProblem(topo, target, space, arrays, label=label)
             if not problem.empty():
                 self.by_j.setdefault(sum(pat), []).append((problem, back))
