@@ -122,6 +122,23 @@ def _materialize(rows, sub, lo, counts, position):
     return out
 
 
+def pairs_in_blocks(lo: np.ndarray, counts: np.ndarray, block: int = BLOCK):
+    """``(parent, pick)`` arrays: for each row ``r``, picks ``lo[r] .. lo[r] + counts[r] - 1``,
+    in blocks of about ``block`` pairs (one row's picks may exceed it)."""
+    cum = np.cumsum(counts)
+    start = 0
+    while start < counts.size:
+        base = int(cum[start - 1]) if start else 0
+        stop = max(int(np.searchsorted(cum, base + block, side="right")), start + 1)
+        c = counts[start:stop]
+        total = int(c.sum())
+        if total:
+            parent = np.repeat(np.arange(start, stop), c)
+            offset = np.arange(total) - np.repeat(np.cumsum(c) - c, c)
+            yield parent, lo[parent] + offset
+        start = stop
+
+
 def collect(blocks, what: str) -> dict[str, np.ndarray]:
     """Concatenate row blocks; NoDesignError when they exceed ``LIMIT`` rows."""
     parts: list[dict] = []

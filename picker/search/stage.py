@@ -85,6 +85,7 @@ class StageProblem:
         self.label = label
         self.limits = {k: _limits(space.values[k]) for k in ("resistor", "capacitor")}
         self._cache: tuple[float, StageRows] | None = None
+        self.clock = None  # a picker.search.progress.Clock; checked between blocks
 
     def empty(self) -> bool:
         return any(len(self.arrays[n]) == 0 for n in self.names)
@@ -165,6 +166,8 @@ class StageProblem:
                 return self._finish({n: np.zeros(0, np.int64) for n in self.names}, t, probe)
             merged = {n: np.concatenate([k[0][n] for k in kept]) for n in self.names}
             return self._finish(merged, t, probe, np.concatenate([k[1] for k in kept]))
+        if self.plan.link is not None and len(groups) == 2 and (probe or t < WIDE):
+            return self._linked(t, probe, shrink)
         parts = []
         ctx = self._ctx(t, probe)
         for group in groups:
@@ -185,6 +188,75 @@ class StageProblem:
             return self._finish({n: np.zeros(0, np.int64) for n in self.names}, t, probe)
         merged = {n: np.concatenate([k[0][n] for k in kept]) for n in self.names}
         return self._finish(merged, t, probe, np.concatenate([k[1] for k in kept]))
+
+    def _linked(self, t: float, probe: bool, shrink: int | None) -> StageRows:
+        """Rows of a two-group plan joined through its :class:`Link` (branch and bound
+        as in the one-group case): the second group's rows sorted by the link key, and
+        for each block of the first group's rows the key intervals they can pair with,
+        found by ``np.searchsorted`` (widened by ``join.EPS``; the probe also takes the
+        nearest key outside). Every pair that can score ``<= t`` is formed: the
+        intervals are necessary conditions and the exact score decides."""
+        first, second = self.plan.groups
+        link = self.plan.link
+        assert link is not None
+        none = {n: np.zeros(0, np.int64) for n in self.names}
+        label = f"{self.label} ({self.topology.key})"
+        rows2 = join.collect(
+            join.group_rows(second, self.arrays, self._ctx(t, probe), neighbors=probe), label
+        )
+        if not rows2:
+            return self._finish(none, t, probe)
+        if not probe:
+            part = scores(self.topology, self.target, self._values(rows2), second.determines)
+            rows2 = {p: i[part <= t] for p, i in rows2.items()}
+        key = np.asarray(link.key(self._values(rows2)), float)
+        order = np.argsort(key, kind="stable")
+        key, rows2 = key[order], {p: i[order] for p, i in rows2.items()}
+        state: dict[str, Any] = {"t": t, "best": np.zeros(0)}
+        outer = None
+        if probe:
+            n = len(self.arrays[first.steps[0].position])
+            outer = np.arange(0, n, max(1, n // PROBE_OUTER), dtype=np.int64)
+        kept = []
+        for rows1 in join.group_rows(
+            first, self.arrays, lambda: self._ctx(state["t"], probe), neighbors=probe, outer=outer
+        ):
+            self._tick()
+            v1 = self._values(rows1)
+            if not probe:
+                part = scores(self.topology, self.target, v1, first.determines)
+                sel = part <= state["t"]
+                rows1 = {p: i[sel] for p, i in rows1.items()}
+                v1 = {p: x[sel] for p, x in v1.items()}
+            ctx = self._ctx(state["t"], probe)
+            (w_lo, w_hi), *_ = link.window(v1, ctx)
+            if not probe:
+                w_lo, w_hi = np.maximum(w_lo, ctx.d_lo), np.minimum(w_hi, ctx.d_hi)
+            lo = np.searchsorted(key, w_lo - np.abs(w_lo) * join.EPS, side="left")
+            hi = np.searchsorted(key, w_hi + np.abs(w_hi) * join.EPS, side="right")
+            if probe:
+                lo, hi = np.maximum(lo - 1, 0), np.minimum(np.maximum(hi, lo) + 1, key.size)
+            counts = np.maximum(hi - lo, 0)
+            for parent, pick in join.pairs_in_blocks(lo, counts):
+                rows = {p: i[parent] for p, i in rows1.items()}
+                rows |= {p: i[pick] for p, i in rows2.items()}
+                k = self._filter(rows, state["t"], probe)
+                if k is None:
+                    continue
+                kept.append(k)
+                if shrink:
+                    state["best"] = np.sort(np.concatenate([state["best"], k[1]]))[:shrink]
+                    if state["best"].size >= shrink:
+                        state["t"] = min(state["t"], float(state["best"][-1]))
+        if not kept:
+            return self._finish(none, t, probe)
+        merged = {n: np.concatenate([k[0][n] for k in kept]) for n in self.names}
+        return self._finish(merged, t, probe, np.concatenate([k[1] for k in kept]))
+
+    def _tick(self) -> None:
+        """Between blocks of work: let the search's clock stop it (see progress.py)."""
+        if self.clock is not None:
+            self.clock.check()
 
     def _filter(self, rows, t, probe):
         s = scores(self.topology, self.target, self._values(rows))

@@ -53,8 +53,21 @@ class Group:
 
 
 @dataclass(frozen=True)
+class Link:
+    """How the second group of a two-group plan meets the first: ``key(values)`` of a row
+    of the second group (e.g. ``d = RB/RA``), and ``window(values, w)``: the intervals
+    of that key a row of the first group can pair with and score ``<= w.t`` (necessary,
+    like every window). The stage then joins the groups by ``np.searchsorted`` on the
+    sorted keys instead of a cross product."""
+
+    key: Callable[[dict], np.ndarray]
+    window: Window
+
+
+@dataclass(frozen=True)
 class Plan:
     groups: tuple[Group, ...]
+    link: Link | None = None
 
 
 @dataclass(frozen=True)
@@ -79,6 +92,7 @@ class Windows:
     c_lo: float
     c_hi: float
     q_lo: float = 0.0  # smallest Q' allowed, Q (1 - t)
+    q: float = 1.0  # the target Q
 
     @property
     def d_lo(self) -> float:
@@ -110,6 +124,7 @@ def windows(target: StageTarget, t: float, limits: dict[str, tuple[float, float]
         *limits["resistor"],
         *limits["capacitor"],
         q * hi,
+        q,
     )
 
 

@@ -15,13 +15,29 @@ R2 then lies in ``[P_lo, P_hi] / R1``. The capacitors are bounded through ``P`` 
 resistors on offer; unity low-pass also needs ``C1/C2 >= 4 Q'^2`` (AM-GM on
 ``R1 + R2 >= 2 sqrt(P)``), so ``C2 <= C1 / (4 Q^2 (1-t)^2)``. The gain network is its
 own group (``K`` reaches the windows only through its window ``[d_lo, d_hi]``).
+
+Link of the gain variants (:class:`picker.search.plans.Link`): with the first group's
+values fixed, ``b1`` is linear in ``d`` (slope ``-R1 C1`` low-pass, ``-R2 C2``
+high-pass), and ``|Q'/Q - 1| <= t`` means ``b1`` in ``[sqrt(b0)/(Q (1+t)),
+sqrt(b0)/(Q (1-t))]``, so ``d`` lies in one interval; it is widened by ``1e-9`` of the
+terms' size, so rounding in the subtraction drops nothing.
 """
 
 from __future__ import annotations
 
 import numpy as np
 
-from picker.search.plans import PLANS, Group, Plan, Step, gain_group, intersect, quad_ge, quad_le
+from picker.search.plans import (
+    PLANS,
+    Group,
+    Link,
+    Plan,
+    Step,
+    gain_group,
+    intersect,
+    quad_ge,
+    quad_le,
+)
 
 
 def _p(v, w):
@@ -42,6 +58,26 @@ def _r2(v, w):
     return [(p_lo / v["R1"], p_hi / v["R1"])]
 
 
+def _d(v) -> np.ndarray:
+    return v["RB"] / v["RA"]
+
+
+def _d_window(base, slope, v, w):
+    """``d`` with ``base - slope d`` (= b1) inside the Q window at ``w.t``."""
+    root = np.sqrt(v["R1"] * v["R2"] * v["C1"] * v["C2"])
+    b1_lo, b1_hi = root / (w.q * (1.0 + w.t)), root / (w.q * (1.0 - w.t))
+    slack = 1e-9 * (np.abs(base) + b1_hi) / slope
+    return [((base - b1_hi) / slope - slack, (base - b1_lo) / slope + slack)]
+
+
+LOWPASS_LINK = Link(
+    _d, lambda v, w: _d_window(v["C2"] * (v["R1"] + v["R2"]), v["R1"] * v["C1"], v, w)
+)
+HIGHPASS_LINK = Link(
+    _d, lambda v, w: _d_window(v["R1"] * (v["C1"] + v["C2"]), v["R2"] * v["C2"], v, w)
+)
+
+
 def _lowpass(gain: bool) -> Plan:
     def c2(v, w):
         lo, hi = _c2_by_bounds(v, w)
@@ -58,7 +94,7 @@ def _lowpass(gain: bool) -> Plan:
         (Step("C1"), Step("C2", c2), Step("R1", r1), Step("R2", _r2)),
         determines=("f0",) if gain else ("f0", "q", "gain"),
     )
-    return Plan((group, gain_group()) if gain else (group,))
+    return Plan((group, gain_group()), LOWPASS_LINK) if gain else Plan((group,))
 
 
 def _highpass(gain: bool) -> Plan:
@@ -77,7 +113,7 @@ def _highpass(gain: bool) -> Plan:
         ),
         determines=("f0",) if gain else ("f0", "q", "gain"),
     )
-    return Plan((group, gain_group()) if gain else (group,))
+    return Plan((group, gain_group()), HIGHPASS_LINK) if gain else Plan((group,))
 
 
 PLANS["sallen-key-lowpass"] = _lowpass(False)
