@@ -113,9 +113,12 @@ class StageProblem:
             return self.within(t), t
         if self._cache is not None and self._cache[0] >= cap:
             return self.within(cap), cap  # every row <= cap is already known
-        probe = self._rows(0.0, probe=True)
-        t = float(probe.score[min(need, len(probe)) - 1]) if len(probe) else 1e-4
-        t = min(t, cap)
+        if math.isfinite(cap) and cap < WIDE:
+            t = cap  # the caller's bound is a real assignment's score: no probe needed
+        else:
+            probe = self._rows(0.0, probe=True)
+            t = float(probe.score[min(need, len(probe)) - 1]) if len(probe) else 1e-4
+            t = min(t, cap)
         while True:
             rows, t_end = self._rows(t, probe=False, shrink=need), t
             if len(rows) >= need:
