@@ -263,6 +263,14 @@ def main(argv: list[str] | None = None) -> int:
     except BrokenPipeError:
         _quiet_stdout()
         return EX_PIPE
+    except MemoryError:  # a memory limit below what this request needs (docs/search.md)
+        print(
+            "picker: this request needs more memory than the process may use; narrow the "
+            "value bounds (--r-min/--r-max/--c-min/--c-max), use --singles, or use a "
+            "smaller stock",
+            file=sys.stderr,
+        )
+        return 1
     except PickerError as exc:
         from picker.errors import NoDesignError
 

@@ -55,21 +55,46 @@ class Unit:
 
 @dataclass(frozen=True)
 class Values:
-    """Realizable values of one kind, sorted by value. Parallel arrays of equal length."""
+    """Realizable values of one kind, sorted by value. Parallel arrays of equal length.
+
+    The tolerance columns are either stored (``tol_max``, ``tol_sum``) or, for the large
+    arrays of a stock, derived on demand from ``unit_tol`` (tolerance per unit id) by
+    :meth:`tol_max_at` and :meth:`tol_sum_at`, with the same floating-point operations."""
 
     value: np.ndarray  # float64, ohm or farad
-    pieces: np.ndarray  # int64, 1 or 2
-    unit_a: np.ndarray  # int64, global unit id
-    unit_b: np.ndarray  # int64, global unit id or -1 for a single
-    code: np.ndarray  # int64, SINGLE | SERIES | PARALLEL
-    tol_max: np.ndarray  # float64, worst tolerance of the pieces
-    tol_sum: np.ndarray  # float64, sum of the pieces' tolerances
+    pieces: np.ndarray  # small int, 1 or 2
+    unit_a: np.ndarray  # int, global unit id
+    unit_b: np.ndarray  # int, global unit id or -1 for a single
+    code: np.ndarray  # small int, SINGLE | SERIES | PARALLEL
+    tol_max: np.ndarray | None = None  # float64, worst tolerance of the pieces
+    tol_sum: np.ndarray | None = None  # float64, sum of the pieces' tolerances
+    unit_tol: np.ndarray | None = None  # float64 per unit id, when the two above are None
 
     def __len__(self) -> int:
         return int(self.value.size)
 
     def subset(self, mask: np.ndarray) -> Values:
-        return Values(*(getattr(self, f)[mask] for f in _FIELDS))
+        cols = (getattr(self, f) for f in _FIELDS)
+        return Values(*(None if c is None else c[mask] for c in cols), unit_tol=self.unit_tol)
+
+    def _pair_tols(self, idx):
+        assert self.unit_tol is not None
+        a = self.unit_tol[self.unit_a[idx]]
+        b_id = self.unit_b[idx]
+        b = self.unit_tol[np.maximum(b_id, 0)]
+        return a, b, b_id >= 0
+
+    def tol_max_at(self, idx) -> np.ndarray:
+        if self.tol_max is not None:
+            return self.tol_max[idx]
+        a, b, pair = self._pair_tols(idx)
+        return np.where(pair, np.maximum(a, b), a)
+
+    def tol_sum_at(self, idx) -> np.ndarray:
+        if self.tol_sum is not None:
+            return self.tol_sum[idx]
+        a, b, pair = self._pair_tols(idx)
+        return np.where(pair, a + b, a)
 
 
 _FIELDS = ("value", "pieces", "unit_a", "unit_b", "code", "tol_max", "tol_sum")
@@ -136,12 +161,14 @@ def build_space(
     """Units and sorted realizable values of ``stock`` under ``bounds``."""
     units = stock_units(stock, allow_polarized=allow_polarized)
     counts = np.array([u.count for u in units], dtype=np.int64)
+    unit_val = np.array([u.value for u in units], dtype=float)
+    unit_tol = np.array([u.tolerance for u in units], dtype=float)
     values: dict[str, Values] = {}
     usable: dict[str, int] = {}
     for kind in ("resistor", "capacitor"):
         ids = np.array([i for i, u in enumerate(units) if u.kind == kind], dtype=np.int64)
         usable[kind] = int(counts[ids].sum()) if ids.size else 0
-        values[kind] = _kind_values(kind, ids, units, counts, singles, bounds.of(kind))
+        values[kind] = _kind_values(kind, ids, unit_val, unit_tol, counts, singles, bounds.of(kind))
     return Space(tuple(units), counts, values, usable)
 
 
@@ -150,7 +177,7 @@ UNIT = np.int32  # unit ids (a stock file has far fewer than 2^31 units)
 SMALL = np.int8  # piece counts and arrangement codes
 
 
-def _kind_values(kind, ids, units, counts, singles, limits) -> Values:
+def _kind_values(kind, ids, unit_val, unit_tol, counts, singles, limits) -> Values:
     """Singles and pairs of one kind within ``limits``, sorted by (value, pieces, tolerances).
 
     Pairs are never enumerated outside the bounds: with the singles sorted by value, the
@@ -160,8 +187,7 @@ def _kind_values(kind, ids, units, counts, singles, limits) -> Values:
     and the exact bound test applied after, so rounding drops nothing. Arrays are sized
     from the range lengths first and filled block by block (:data:`CHUNK` pairs)."""
     lo, hi = limits
-    val = np.array([units[i].value for i in ids], dtype=float)
-    tol = np.array([units[i].tolerance for i in ids], dtype=float)
+    val, tol = unit_val[ids], unit_tol[ids]
     by_value = np.argsort(val, kind="stable")
     ids, val, tol = ids[by_value], val[by_value], tol[by_value]
     twice = counts[ids] >= 2 if ids.size else np.zeros(0, bool)
@@ -186,22 +212,20 @@ def _kind_values(kind, ids, units, counts, singles, limits) -> Values:
         "unit_a": np.empty(total, UNIT),
         "unit_b": np.empty(total, UNIT),
         "code": np.empty(total, SMALL),
-        "tol_max": np.empty(total, float),
-        "tol_sum": np.empty(total, float),
     }
     n = 0
 
-    def put(v, a, b, code, tmax, tsum):
+    def put(v, a, b, code):
         nonlocal n
         k = v.size
         sl = slice(n, n + k)
         out["value"][sl], out["unit_a"][sl], out["unit_b"][sl] = v, a, b
         out["pieces"][sl] = 1 if code == SINGLE else 2
-        out["code"][sl], out["tol_max"][sl], out["tol_sum"][sl] = code, tmax, tsum
+        out["code"][sl] = code
         n += k
 
-    v, a, b, code, t = blocks[0]
-    put(v, a, b, code, t, t)
+    v, a, b, code, _ = blocks[0]
+    put(v, a, b, code)
     for code, additive, start, stop in plans:
         for ia, ib in _pair_blocks(start, stop):
             keep = (ia != ib) | twice[ia]  # the same unit twice needs two pieces
@@ -211,21 +235,23 @@ def _kind_values(kind, ids, units, counts, singles, limits) -> Values:
             ok = (combined >= lo) & (combined <= hi)
             ia, ib, combined = ia[ok], ib[ok], combined[ok]
             ua, ub = ids[ia], ids[ib]
-            put(
-                combined,
-                np.minimum(ua, ub),
-                np.maximum(ua, ub),
-                code,
-                np.maximum(tol[ia], tol[ib]),
-                tol[ia] + tol[ib],
-            )
-    arrays = [out[f][:n] for f in _FIELDS]
+            put(combined, np.minimum(ua, ub), np.maximum(ua, ub), code)
+    cut = Values(*(out[f][:n] for f in _FIELDS[:5]), unit_tol=unit_tol)
+    arrays = [getattr(cut, f) for f in _FIELDS[:5]]
+    tmax, tsum = np.empty(n), np.empty(n)
+    for start in range(0, n, CHUNK):  # block by block: no full-size temporaries
+        part = np.arange(start, min(n, start + CHUNK))
+        tmax[part], tsum[part] = cut.tol_max_at(part), cut.tol_sum_at(part)
+    arrays += [tmax, tsum]
+    del tmax, tsum
+    out.clear()
     # ties in (value, pieces, tolerances) keep the order of the unit ids: singles, then
     # series before parallel pairs, each by (first unit, second unit)
     order = np.lexsort(
         (arrays[3], arrays[2], arrays[4], arrays[6], arrays[5], arrays[1], arrays[0])
     )
-    return Values(*(a[order] for a in arrays))
+    del arrays[5:]  # derived again on demand (tol_max_at, tol_sum_at)
+    return Values(*(a[order] for a in arrays), unit_tol=unit_tol)
 
 
 def _sum_ranges(val, lo, hi):

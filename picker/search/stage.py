@@ -302,8 +302,8 @@ class StageProblem:
             rows = {p: rows[p][keep] for p in self.names}
             s = s[keep]
         pieces = sum(self.arrays[p].pieces[rows[p]] for p in self.names)
-        tol_max = np.maximum.reduce([self.arrays[p].tol_max[rows[p]] for p in self.names])
-        tol_sum = sum(self.arrays[p].tol_sum[rows[p]] for p in self.names)
+        tol_max = np.maximum.reduce([self.arrays[p].tol_max_at(rows[p]) for p in self.names])
+        tol_sum = sum(self.arrays[p].tol_sum_at(rows[p]) for p in self.names)
         keys = [rows[p] for p in reversed(self.names)] + [tol_sum, tol_max, pieces, s]
         order = np.lexsort(keys) if s.size else np.zeros(0, np.int64)
         out = StageRows(
