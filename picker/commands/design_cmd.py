@@ -265,12 +265,18 @@ def run(args) -> int:
         mc = {k: opts[k] for k in ("window", "trials", "distribution", "seed")}
         result: SearchResult = by_yield(stock, stages, **mc, **kw)
     else:
+        from picker.commands.design_progress import status_line
+
+        line = status_line(json=args.json)  # live status on a terminal's stderr
         try:
-            result = search(stock, stages, rank=request["rank"], **kw)
+            result = search(stock, stages, rank=request["rank"], progress=line.update, **kw)
         except NoDesignError:
+            line.close()
             if buy:  # no design: say what to buy, then exit 1 as without --suggest
                 design_buy.no_design(buy, args, stock, stages, kw)
             raise
+        finally:
+            line.close()
     bought = buy and design_buy.run(buy, args, stock, stages, kw, result.candidates[0])
     from picker.budget import budget
 

@@ -52,6 +52,7 @@ class SearchResult:
     bound_of: str | None = None
 
 
+TIES = 200  # rows of one stage made into candidates at most (equal scores can be many)
 SPARE = 4  # combinations asked for per candidate shown, so that look-alikes can go
 
 
@@ -171,7 +172,7 @@ def search(
         loaded = {(0, None): rows}
         candidates = [
             build_candidate(stages, loaded, space, ((None, i),), (float(rows.score[i]),), opamp, ())
-            for i in range(len(rows))
+            for i in range(min(len(rows), max(top * spare, TIES)))
         ]
     else:
         out = ranked(

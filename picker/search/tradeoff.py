@@ -54,6 +54,7 @@ class StageClasses:
                 for problem, _ in sorted(problems, key=lambda pb: -_density(pb[0])):
                     if self.clock is not None:
                         self.clock.check()
+                    problem.clock = self.clock  # checked inside the stage's work too
                     rows, _ = problem.best(1, cap=b)
                     if len(rows):
                         b = min(b, float(rows.score[0]))
@@ -81,6 +82,7 @@ class StageClasses:
         indices into the full value arrays (so :meth:`Space.arrangement` reads them)."""
         parts = []
         for problem, back in self.by_j[j]:
+            problem.clock = self.clock
             rows = problem.within(t) if keep is None else problem.best(keep, cap=t)[0]
             parts.append(
                 StageRows(
@@ -138,6 +140,9 @@ def tradeoff(classes: list[StageClasses], counts, clock=None):
 
 def _tradeoff(classes: list[StageClasses], counts, clock):
     from picker.search.api import grow
+
+    for c in classes:  # the trade-off's own clock (its budget), in the stages' work too
+        c.clock = clock
 
     best = [c.best() for c in classes]
     if any(not b for b in best):
