@@ -15,6 +15,7 @@ sorted by value, so a window of values is two ``np.searchsorted`` calls.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from typing import Any
 
 import numpy as np
 
@@ -74,8 +75,10 @@ class Values:
         return int(self.value.size)
 
     def subset(self, mask: np.ndarray) -> Values:
-        cols = (getattr(self, f) for f in _FIELDS)
-        return Values(*(None if c is None else c[mask] for c in cols), unit_tol=self.unit_tol)
+        cols: dict[str, Any] = {
+            f: None if getattr(self, f) is None else getattr(self, f)[mask] for f in _FIELDS
+        }
+        return Values(**cols, unit_tol=self.unit_tol)
 
     def _pair_tols(self, idx):
         assert self.unit_tol is not None
@@ -236,7 +239,7 @@ def _kind_values(kind, ids, unit_val, unit_tol, counts, singles, limits) -> Valu
             ia, ib, combined = ia[ok], ib[ok], combined[ok]
             ua, ub = ids[ia], ids[ib]
             put(combined, np.minimum(ua, ub), np.maximum(ua, ub), code)
-    cut = Values(*(out[f][:n] for f in _FIELDS[:5]), unit_tol=unit_tol)
+    cut = Values(**{f: out[f][:n] for f in _FIELDS[:5]}, unit_tol=unit_tol)
     arrays = [getattr(cut, f) for f in _FIELDS[:5]]
     tmax, tsum = np.empty(n), np.empty(n)
     for start in range(0, n, CHUNK):  # block by block: no full-size temporaries
@@ -251,7 +254,7 @@ def _kind_values(kind, ids, unit_val, unit_tol, counts, singles, limits) -> Valu
         (arrays[3], arrays[2], arrays[4], arrays[6], arrays[5], arrays[1], arrays[0])
     )
     del arrays[5:]  # derived again on demand (tol_max_at, tol_sum_at)
-    return Values(*(a[order] for a in arrays), unit_tol=unit_tol)
+    return Values(**{f: a[order] for f, a in zip(_FIELDS, arrays, strict=False)}, unit_tol=unit_tol)
 
 
 def _sum_ranges(val, lo, hi):
