@@ -31,7 +31,7 @@ class StageClasses:
     """The pattern sub-problems of one stage, grouped by piece count."""
 
     def __init__(self, topo, target, space, *, singles: bool = False, label: str = "stage"):
-        self.topology, self.target = topo, target
+        self.topology, self.target, self.space = topo, target, space
         self.clock = None  # a picker.search.progress.Clock, checked between patterns
         self.by_j: dict[int, list[tuple[StageProblem, dict]]] = {}
         for pat in patterns(len(topo.positions), singles):
