@@ -31,8 +31,10 @@ of rank 1's key: for ``error``, the worst error no candidate goes below (the lar
 best score of a stage alone, or a threshold searched completely without a find); for
 ``pieces``, the fewest pieces a candidate within the goal can have (every smaller
 total searched completely, or each stage's fewest pieces within the goal). When the
-limit passes before any candidate is found, the ``error`` search goes on without it
-until it has one (a shell always gets a candidate to show, or a clear "no design").
+limit passes before any candidate is found, :func:`quick` takes one (unproven) from
+each stage's best rows, and only if those block each other does the ``error`` search
+go on without the limit until it has one (a shell always gets a candidate to show, or
+a clear "no design").
 """
 
 from __future__ import annotations
