@@ -1,7 +1,7 @@
 """Time of ``picker design ... --suggest 3`` on the sample bench (docs/buying.md).
 
     python bench/bench_buy.py            # 2nd- and 8th-order Butterworth 1 kHz low-pass
-    python bench/bench_buy.py --rank pieces
+    python bench/bench_buy.py --rank error --time-limit 120
 
 Each case runs the real command in a child process under ``/usr/bin/time -v`` (when it
 is there) and prints the wall time, the peak memory, the time of the same design without
@@ -50,14 +50,18 @@ def main() -> None:
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     ap.add_argument("--rank", default=None, help="passed on to picker design")
     ap.add_argument("--suggest", default="3")
+    ap.add_argument("--time-limit", default=None, help="passed on to picker design")
     opts = ap.parse_args()
     extra = ["--rank", opts.rank] if opts.rank else []
+    if opts.time_limit:
+        extra += ["--time-limit", opts.time_limit]
     for name, args in CASES.items():
         plain, _, _ = run([*args, *extra, "--top", "1"])
         wall, peak, doc = run([*args, *extra, "--top", "1", "--suggest", opts.suggest])
         mem = f"{peak:.0f} MB" if peak is not None else "n/a"
         print(f"{name}: --suggest {opts.suggest} {wall:.1f} s (peak {mem}); without {plain:.1f} s")
         print(f"  proven over the values tried: {doc.get('suggestions_proven')}")
+        print(f"  tried: {doc.get('suggestions_tried')}")
         for s in doc.get("suggestions", []):
             also = "".join(f" + {a['value']:g} ({a['kind']})" for a in s["also"])
             print(
