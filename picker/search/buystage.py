@@ -18,8 +18,10 @@ A design of several stages: a combination within the goal takes, in each stage, 
 assignment within the goal, so at least ``sum_s m'_s`` pieces, and with exactly that
 many every stage sits at its ``m'_s`` and the score is at least ``max_s e'_s(m'_s)``:
 :func:`lower_key`. When the stages' bests together fit the quantities on hand
-(:func:`attained`), they are such a combination, so that key is rank 1's key after, and
-the whole search is not needed to know it (one stage: always, its quantities are its own).
+(:func:`attained`), or other assignments of the same piece counts scoring no worse than
+that key do (:func:`fit`), they are such a combination, so that key is rank 1's key
+after, and the whole search is not needed to know it (one stage: always, its quantities
+are its own).
 """
 
 from __future__ import annotations
@@ -30,6 +32,9 @@ from collections import Counter
 import numpy as np
 
 from picker.search.stage import StageProblem, patterns
+
+ALTERNATIVES = 12  # assignments per pattern that :func:`fit` may combine
+FIT_STEPS = 20_000  # combinations :func:`fit` may try before it gives up (no proof then)
 
 
 class StageScreen:
@@ -91,6 +96,53 @@ class StageScreen:
         if best is None or best[0] >= self.e:
             return self.m, self.e, self.row
         return self.m, best[0], best[1]
+
+    def options(self, space, j: int, cap: float, keep: int = ALTERNATIVES) -> list[tuple]:
+        """Up to ``keep`` best assignments per pattern with exactly ``j`` pieces and score
+        ``<= cap`` over ``space`` (purchases included), as (score, unit keys)."""
+        out = []
+        for pat in patterns(len(self.topo.positions), self.singles):
+            if sum(pat) != j:
+                continue
+            arrays = {}
+            for p, k in zip(self.topo.positions, pat, strict=False):
+                v = space.values[p.kind]
+                arrays[p.name] = v.subset(v.pieces == k)
+            problem = StageProblem(self.topo, self.target, space, arrays)
+            if problem.empty():
+                continue
+            rows, _ = problem.best(keep, cap=cap)
+            for i in range(min(keep, len(rows))):
+                keys = tuple(unit_key(space, int(u)) for u in rows.units[i] if u >= 0)
+                out.append((float(rows.score[i]), keys))
+        return sorted(out)
+
+
+def fit(choices: list[list[tuple]], space) -> tuple | None:
+    """One assignment per stage (from ``choices``) that together fit the quantities on
+    hand, as the unit keys they take; None when none is found within ``FIT_STEPS``."""
+    have = {unit_key(space, i): int(c) for i, c in enumerate(space.counts)}
+    use: Counter = Counter()
+    steps = 0
+
+    def visit(s: int) -> tuple | None:
+        nonlocal steps
+        if s == len(choices):
+            return ()
+        for _, keys in choices[s]:
+            steps += 1
+            if steps > FIT_STEPS:
+                return None
+            need = Counter(keys)
+            if all(use[k] + n <= have.get(k, 0) for k, n in need.items()):
+                use.update(need)
+                rest = visit(s + 1)
+                use.subtract(need)
+                if rest is not None:
+                    return keys + rest
+        return None
+
+    return visit(0)
 
 
 def unit_key(space, uid: int) -> tuple:
