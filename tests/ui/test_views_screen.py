@@ -126,3 +126,16 @@ def test_axis_helpers():
     """1-2-5 steps cutting a span into about four (common practice for axis ticks)."""
     assert [nice_step(s) for s in (1.0, 4.0, 7.0, 0.03)] == pytest.approx([0.5, 1.0, 2.0, 0.01])
     assert time_unit(2.5e-3) == (1e-3, "ms") and time_unit(4e-7) == (1e-9, "ns")
+
+
+async def test_views_say_they_are_busy_in_words(stock_copy):
+    """The busy mark is text ("[busy]"), not markup that would vanish."""
+    candidate = ideal_candidate("butterworth", order=2)
+    screen = ViewsScreen(candidate)
+    app = PickerApp(stock_copy)
+    async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app, search=False)
+        screen._compute = lambda candidate: None  # keep the busy state on screen
+        await app.push_screen(screen)
+        await pilot.pause()
+        assert str(screen.query_one("#v-panel").render()).startswith("[busy] computing")

@@ -142,7 +142,11 @@ class ViewsScreen(Screen):
             markup=False,
         )
         with VerticalScroll(id="v-body"):
-            yield Static("[busy] computing the step response and the group delay …", id="v-panel")
+            yield Static(
+                "[busy] computing the step response and the group delay …",
+                id="v-panel",
+                markup=False,
+            )
             yield Static("", id="v-plots", markup=False)
         yield Footer()
 
