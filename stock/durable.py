@@ -19,7 +19,6 @@ import errno
 import os
 import re
 import stat
-import tempfile
 from contextlib import suppress
 from pathlib import Path
 
@@ -179,6 +178,8 @@ def write_temp(
     extended attributes it takes where allowed. Returns the path; on any failure the
     temporary file is removed and the error raised.
     """
+    import tempfile  # here: the commands that only read never load it (random, shutil ...)
+
     fd, tmp = tempfile.mkstemp(dir=folder, prefix=f".{prefix}.", suffix=".tmp")
     try:
         try:
