@@ -12,7 +12,8 @@ queue behind keys already read, so a digit after ctrl+n still lands in the old f
 
 ``InOrderApp`` makes key handling strictly sequential: keys (and pastes) wait in the
 app's own line; the next one starts only after the one before is finished, and after
-whatever the app was asked to do while handling it (a focus change is one of those):
+whatever the app was asked to do while handling it (a focus change is one of those),
+and after the set-up of a screen it opened (the dialog's first field takes the keys):
 
 - a priority binding that ran finishes the key;
 - a widget that stops the key finishes it once that widget's handler returns;
@@ -76,6 +77,7 @@ class KeyLine:
         self.current: Ordered | None = None
         self.releasing = False
         self._timer: Timer | None = None
+        self._screen: object = None  # the screen when the last key was started
 
     @property
     def busy(self) -> bool:
@@ -111,6 +113,14 @@ class KeyLine:
         self.app.call_later(self._release)
 
     async def _release(self) -> None:
+        screen = self.app.screen
+        if screen is not self._screen:
+            # the key opened or closed a screen: what that screen does as it starts or
+            # resumes (its on_mount gives a field the focus) comes first, so go once
+            # through its queue and then the app's
+            self._screen = screen
+            if screen.call_later(self.app.call_later, self._release):
+                return
         self.releasing = False
         await self.start_next()
 
@@ -119,6 +129,7 @@ class KeyLine:
         while not self.busy and self.waiting:
             event = self.waiting.popleft()
             self.current = event
+            self._screen = app.screen
             self._timer = app.set_timer(LOST_KEY_S, lambda e=event: self.finish(e))
             if isinstance(event, events.Key):
                 screen = app.screen

@@ -74,3 +74,35 @@ async def test_a_key_after_a_pane_switch_goes_to_the_new_pane(stock_copy):
         await until(pilot, lambda: app.focused is not fc, "the focus left fc")
         await pilot.pause(0.1)
         assert fc.value == "1k"
+
+
+async def test_focus_is_marked_and_f_keys_switch_panes_from_inside_a_field(stock_copy):
+    from textual.widgets import Label
+
+    app = PickerApp(stock_copy)
+    async with app.run_test(size=SIZE) as pilot:
+        fc = await in_targets(pilot, app)
+        row = fc.parent
+        assert row.has_class("-focused")
+        assert row.query_one(Label).styles.text_style.reverse  # the label in reverse
+        assert fc.styles.border_left[0] == "outer"  # the bar at its left
+        others = [r for r in app.screen.query(".field-row.-focused") if r is not row]
+        assert others == []  # one row only
+        burst(app, "end", "f3")  # a pane key from inside the field types nothing
+        await until(pilot, lambda: app.screen.query_one("#panes").current == "matches", "f3")
+        assert fc.value == "1k"
+        assert not row.has_class("-focused")
+        burst(app, "f2")
+        await until(pilot, lambda: app.screen.query_one("#panes").current == "targets", "f2")
+        assert fc.value == "1k"
+
+
+async def test_keys_typed_right_after_a_dialog_opens_go_into_it(stock_copy):
+    app = PickerApp(stock_copy)
+    async with app.run_test(size=SIZE) as pilot:
+        await until(pilot, lambda: getattr(app.screen, "started", False), "start-up done")
+        burst(app, "a", "4", "x", "7", "tab", "3")  # the add-line dialog, value, qty
+        await until(pilot, lambda: app.screen.query("#add-qty"), "the dialog")
+        await until(pilot, lambda: app.screen.query_one("#add-qty", Input).value, "qty")
+        assert app.screen.query_one("#add-value", Input).value == "4x7"
+        assert app.screen.query_one("#add-qty", Input).value == "3"

@@ -13,6 +13,7 @@ from test_tmux import Terminal, picker_command, terminal  # noqa: F401 (the fixt
 
 pytestmark = pytest.mark.tmux
 REVERSE = "\x1b[7m"
+BAR = "\u258c"  # the bar left of the focused field
 
 
 def test_enter_values_and_see_substitutes(terminal, stock_copy):  # noqa: F811
@@ -33,13 +34,13 @@ def test_enter_values_and_see_substitutes(terminal, stock_copy):  # noqa: F811
         ("C1", "22n", "ok: C1=22n/10% assumed"),
         ("C2", "10n", "ok: C2=10n/10% assumed"),
     ):
-        terminal.wait_for(f"{name} {REVERSE}", escapes=True)  # the field has the focus
+        terminal.wait_for(f"{name} {BAR}{REVERSE}", escapes=True)  # the field has the focus
         terminal.keys("-l", value)
         terminal.wait_for(shown)
         terminal.keys("Tab")
-    terminal.wait_for(f"GBW {REVERSE}", escapes=True)
+    terminal.wait_for(f"GBW {BAR}{REVERSE}", escapes=True)
     terminal.keys("Tab")  # past the GBW field to the failed part
-    terminal.wait_for(f"failed {REVERSE}", escapes=True)
+    terminal.wait_for(f"failed {BAR}{REVERSE}", escapes=True)
     terminal.keys("Enter")
     terminal.wait_for("Dismiss menu")  # the list is open (its key in the footer)
     terminal.keys("Down", "Down", "Down")  # none, R1, R2, C1

@@ -92,7 +92,7 @@ def test_type_a_target_and_quit(terminal, stock_copy):
     terminal.keys("Tab", "Tab", "Tab", "C-u")
     terminal.wait_for("fc is empty")
     terminal.keys("-l", "2.5k")
-    screen = terminal.wait_for("fc 2.5k ")
+    screen = terminal.wait_for("fc ▌2.5k ")  # the bar marks the focused field
     terminal.wait_for("corner (band-pass")  # the hint is back: the field reads
     terminal.keys("-l", "Hz!")
     screen = terminal.wait_for("'2.5kHz!'")  # the bad text is quoted beside the field
@@ -134,8 +134,8 @@ def test_a_burst_of_edits_and_pane_keys_keeps_its_order(terminal, stock_copy):
     terminal.keys("2")
     terminal.wait_for("what passes")
     terminal.keys("Tab", "Tab", "Tab", "C-u", "1", "k", "BSpace", "BSpace", "2", "k", "Tab")
-    screen = terminal.wait_for("fc 2k ")
-    assert "fc 2k2k" not in screen and "fc 1k" not in screen
+    screen = terminal.wait_for("fc  2k ")  # tab left it: no focus bar
+    assert "2k2k" not in screen and "fc  1k" not in screen
     # on gain now: BackSpace then ctrl+n must clear gain before the pane changes
     terminal.keys("BSpace", "C-n")
     terminal.wait_for("[3 matches]")

@@ -15,7 +15,7 @@ from textual.screen import ModalScreen
 from textual.widgets import Footer, Input, Label, OptionList, Select, Static
 
 from picker.ui import backend
-from picker.ui.widgets.common import put, say
+from picker.ui.widgets.common import FocusRows, put, say
 from stock.errors import PickerError, ValueParseError
 
 # field -> (label, kinds it belongs to, placeholder)
@@ -66,7 +66,7 @@ def check(kind: str, field: str, text: str):
     return text
 
 
-class AddLineScreen(ModalScreen[str | None]):
+class AddLineScreen(FocusRows, ModalScreen[str | None]):
     """Returns a note on success (the screen then reads the file again), else None."""
 
     BINDINGS = [

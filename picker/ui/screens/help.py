@@ -13,8 +13,12 @@ KEYS = """\
 Anywhere
   ctrl+q      quit
   ctrl+n      next pane (also from inside a text field)
-  1 2 3 4     go to a pane: drawers, targets, matches, chosen
-  ?           this help            (1-4 and ? outside text fields)
+  F1 F2 F3 F4 go to a pane: drawers, targets, matches, chosen
+              (also from inside a text field)
+  1 2 3 4     the same outside text fields (inside one they are text)
+  ?           this help (outside text fields)
+  The field with the focus has a bar at its left and its label is
+  shown in reverse.
   tab         next field or table; shift+tab goes back
   m           repair mode: a stage as built, substitutes for a part
 

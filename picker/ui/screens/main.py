@@ -1,6 +1,6 @@
 """The main screen: four panes behind one bar, the search worker, the stock state.
 
-Panes are switched with 1-4 (outside text fields) or ctrl+n (anywhere); only the
+Panes are switched with 1-4 (outside text fields), F1-F4 or ctrl+n (anywhere); only the
 pane shown takes part in tab focus. The screen owns the stock read from the file and
 the targets; a change of either restarts the search after a short pause.
 """
@@ -23,7 +23,7 @@ from picker.ui import backend, offload
 from picker.ui.offload import Cancelled, Lane
 from picker.ui.targets_form import Targets
 from picker.ui.widgets.chosen import ChosenPane
-from picker.ui.widgets.common import TypingAware
+from picker.ui.widgets.common import FocusRows, TypingAware
 from picker.ui.widgets.drawers import DrawersPane
 from picker.ui.widgets.matches import MatchesPane
 from picker.ui.widgets.targets import TargetsPane
@@ -67,13 +67,18 @@ class PaneBar(Static):
         self.update(bar_text(current, busy=busy, stock_name=stock_name))
 
 
-class MainScreen(TypingAware, Screen):
+class MainScreen(FocusRows, TypingAware, Screen):
     BINDINGS = [
         Binding("ctrl+n", "next_pane", "next pane", key_display="^n", priority=True),
         Binding("1", "pane('drawers')", "drawers", show=False),
         Binding("2", "pane('targets')", "targets", show=False),
         Binding("3", "pane('matches')", "matches", show=False),
         Binding("4", "pane('chosen')", "chosen", show=False),
+        # the same from anywhere, also from inside a text field (where 1-4 are text)
+        Binding("f1", "goto_pane('drawers')", "drawers", show=False),
+        Binding("f2", "goto_pane('targets')", "targets", show=False),
+        Binding("f3", "goto_pane('matches')", "matches", show=False),
+        Binding("f4", "goto_pane('chosen')", "chosen", show=False),
         Binding("question_mark", "app.help", "help", key_display="?"),
         Binding("m", "repair", "repair", show=False),  # in the help: the footer is full
         Binding("v", "views", "views"),  # shown on pane 4 only (check_action)
@@ -185,6 +190,10 @@ class MainScreen(TypingAware, Screen):
         from picker.ui.screens.views import open_views
 
         open_views(self)
+
+    def action_goto_pane(self, pane_id: str) -> None:
+        """F1-F4: a pane from anywhere (1-4 are text inside a field)."""
+        self.action_pane(pane_id)
 
     def action_next_pane(self) -> None:
         ids = [p for p, _ in PANES]

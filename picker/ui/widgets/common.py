@@ -30,6 +30,29 @@ class TypingAware(_Mixin):
         )
 
 
+class FocusRows(_Mixin):
+    """A screen whose field rows mark the focused one: class ``-focused`` on its row.
+
+    The style sheet shows that row's label in reverse (seen in every colour mode and
+    under NO_COLOR). CSS ``:focus-within`` restyles only the focused widget's own
+    ancestors, not the label beside it, and a blur is not always told to a pane that
+    was just hidden, so the screen's own ``focused`` is watched instead.
+    """
+
+    def on_mount(self) -> None:
+        self.watch(self, "focused", _mark_rows)
+
+
+def _mark_rows(old, new) -> None:
+    for widget, focused in ((old, False), (new, True)):
+        if widget is None:
+            continue
+        for node in widget.ancestors_with_self:
+            if node.has_class("field-row"):
+                node.set_class(focused, "-focused")
+                break
+
+
 def say(kind: str, text: str) -> str:
     """Message text whose meaning is in the words, not the colour: "error: ...", "ok: ..."."""
     return f"{kind}: {text}" if text else ""
