@@ -232,11 +232,15 @@ class MainScreen(FocusRows, TypingAware, Screen):
     @on(TargetsPane.Changed)
     def _targets_changed(self, event: TargetsPane.Changed) -> None:
         self.targets = event.targets
+        for chosen in self.query(ChosenPane):
+            chosen.set_current(event.targets)
         self.schedule_search()
 
     @on(TargetsPane.Invalid)
     def _targets_invalid(self) -> None:
         self.targets = None
+        for chosen in self.query(ChosenPane):
+            chosen.set_current(None)
         if self._timer is not None:
             self._timer.stop()
             self._timer = None
@@ -309,6 +313,15 @@ class MainScreen(FocusRows, TypingAware, Screen):
 
     @on(MatchesPane.Chosen)
     def _chosen(self, event: MatchesPane.Chosen) -> None:
+        if self.busy or self._timer is not None or self.targets != self.result_targets:
+            # the rows answer earlier targets: a search for the current ones is waiting,
+            # running, or cannot start (a field is wrong); open nothing
+            old = describe(self.result_targets) if self.result_targets else "earlier targets"
+            self.query_one(MatchesPane).show_stale(
+                f"these rows answer {old}, not the targets now: wait for the search "
+                "(or fix the field marked error in pane 2), then enter opens a row"
+            )
+            return
         chosen = self.query_one(ChosenPane)
         chosen.set_stock(self.stock)
         chosen.show(event.candidate, event.rank, self.result_targets)

@@ -19,6 +19,7 @@ from textual.worker import Worker, WorkerState, get_current_worker
 
 from picker.ui import backend
 from picker.ui.offload import Cancelled, Lane
+from picker.ui.pick_targets import answers, differences
 from picker.ui.widgets.common import say
 from picker.ui.widgets.matches import pct
 from picker.ui.widgets.plots import F0Histogram, ResponsePlot
@@ -43,11 +44,13 @@ class ChosenPane(VerticalScroll):
         self.lane = Lane("detail")
         self.rank = 0
         self.stock = None
+        self.current_targets = None  # the form's targets now (None: a field is wrong)
 
     def compose(self) -> ComposeResult:
         yield Static(
             "no candidate chosen yet: pick one in pane 3 (matches)", id="c-title", markup=False
         )
+        yield Static("", id="c-stale", markup=False)
         with Vertical(id="c-body"):
             yield Static("", id="c-schematic", markup=False)
             yield Static("", id="c-warnings", markup=False)
@@ -65,11 +68,14 @@ class ChosenPane(VerticalScroll):
     # showing ---------------------------------------------------------------------
     def show(self, candidate, rank: int, targets=None) -> None:
         self.candidate, self.rank, self.targets = candidate, rank, targets
+        self.current_targets = targets
         warn = f"; {len(candidate.warnings)} warning(s) below" if candidate.warnings else ""
+        what = f" for {answers(targets)}" if targets is not None else ""
         self.query_one("#c-title", Static).update(
-            f"candidate {rank}: worst error {pct(candidate.score)}, {candidate.pieces} pieces"
-            f"{warn}   (b: build it, u: undo the last build)"
+            f"candidate {rank}{what}\nworst error {pct(candidate.score)}, "
+            f"{candidate.pieces} pieces{warn}   (b: build it, u: undo the last build)"
         )
+        self._show_stale()
         try:
             schematic = backend.schematic(candidate)
         except backend.Unavailable as exc:
@@ -82,6 +88,28 @@ class ChosenPane(VerticalScroll):
         self.query_one(ResponsePlot).set_note("[busy] computing …")
         self.query_one(F0Histogram).set_note("[busy] computing …")
         self._detail(candidate)
+
+    def set_current(self, targets) -> None:
+        """The form's targets changed: mark the pick when it no longer answers them."""
+        self.current_targets = targets
+        self._show_stale()
+
+    def stale(self) -> list[str]:
+        """How the targets of the pick differ from the form's now (empty: they agree)."""
+        if self.candidate is None or self.targets is None:
+            return []
+        return differences(self.targets, self.current_targets)
+
+    def _show_stale(self) -> None:
+        diff = self.stale()
+        text = (
+            "[old] this pick answers earlier targets, not the form's now: "
+            + "; ".join(diff)
+            + ". Pick again in pane 3, or b asks before building it anyway."
+            if diff
+            else ""
+        )
+        self.query_one("#c-stale", Static).update(text)
 
     @work(thread=True, exclusive=True, group="detail", exit_on_error=False)
     def _detail(self, candidate) -> None:
@@ -161,13 +189,19 @@ class ChosenPane(VerticalScroll):
             self._status(f"built: {note}   (u: undo)")
             self.post_message(self.StockChanged(f"built candidate {self.rank}: {note}"))
 
+        what = f" ({answers(self.targets)})" if self.targets is not None else ""
+        diff = self.stale()
+        if diff:
+            question = (
+                f"Build candidate {self.rank}{what}? It answers earlier targets, not the "
+                f"form's now: {'; '.join(diff)}. Take its parts out anyway?"
+            )
+            yes = "y: yes, build it for the earlier targets"
+        else:
+            question = f"Build candidate {self.rank}{what}: take these parts out of the stock file?"
+            yes = "y: yes, take them out"
         self.app.push_screen(
-            ConfirmScreen(
-                f"Build candidate {self.rank}: take these parts out of the stock file?",
-                body,
-                yes="y: yes, take them out",
-                no="n: no, leave the stock as it is",
-            ),
+            ConfirmScreen(question, body, yes=yes, no="n: no, leave the stock as it is"),
             answered,
         )
 
