@@ -93,11 +93,20 @@ def plan(targets: Targets):
     )
 
 
-def search(stock, stages, targets: Targets, *, top: int = 8):
+def search(stock, stages, targets: Targets, *, top: int = 8, should_stop=None):
+    import inspect
+
     mod = need("picker.search", "search", "Bounds")
     bounds = mod.Bounds(
         r_min=targets.r_min, r_max=targets.r_max, c_min=targets.c_min, c_max=targets.c_max
     )
+    extra = {
+        "rank": targets.rank,
+        "max_error": targets.max_error,
+        "time_limit": targets.time_limit,
+        "should_stop": should_stop,
+    }
+    takes = inspect.signature(mod.search).parameters  # only what this search knows
     return mod.search(
         stock,
         stages,
@@ -106,6 +115,7 @@ def search(stock, stages, targets: Targets, *, top: int = 8):
         bounds=bounds,
         top=top,
         for_people=True,
+        **{k: v for k, v in extra.items() if k in takes},
     )
 
 
@@ -195,10 +205,14 @@ def undo_last(stock_path: Path) -> str:
 
 
 # jobs for a child process (picker.ui.offload): plain arguments in, plain data out ----
-def search_job(stock, targets: Targets, top: int = 8):
-    """("done", SearchResult) or ("unavailable", message); PickerError propagates."""
+def search_job(stock, targets: Targets, stop=None, top: int = 8):
+    """("done", SearchResult) or ("unavailable", message); PickerError propagates.
+
+    ``stop``: an event shared with the UI; once set the search returns its best so far.
+    """
+    should_stop = stop.is_set if stop is not None else None
     try:
-        return "done", search(stock, plan(targets), targets, top=top)
+        return "done", search(stock, plan(targets), targets, top=top, should_stop=should_stop)
     except Unavailable as exc:
         return "unavailable", f"search not available yet ({exc})"
 

@@ -14,6 +14,7 @@ from stock.errors import PickerError, ValueParseError
 RESPONSE_TYPES = ("lowpass", "highpass", "bandpass")
 RESPONSES = ("butterworth", "bessel", "chebyshev")
 FAMILIES = ("any", "inverting", "non-inverting", "sallen-key", "mfb")
+RANKS = ("pieces", "error")  # fewest pieces within the goal, or smallest error
 
 # field name -> (label shown, default text)
 TEXT_FIELDS = {
@@ -26,6 +27,8 @@ TEXT_FIELDS = {
     "r_max": ("R max", "1M"),
     "c_min": ("C min", "100p"),
     "c_max": ("C max", "10u"),
+    "goal": ("goal %", "0.5"),
+    "time": ("time s", ""),
 }
 
 
@@ -47,6 +50,9 @@ class Targets:
     c_max: float = 10e-6
     singles: bool = False
     allow_polarized: bool = False
+    rank: str = "pieces"
+    max_error: float = 0.005  # the precision goal, a fraction
+    time_limit: float | None = None  # seconds; None: search to the end
 
 
 class FormError(PickerError):
@@ -104,6 +110,18 @@ def read_field(name: str, text: str):
         if not text:
             raise ValueParseError(f"{TEXT_FIELDS[name][0]} is empty")
         return parse_value(text, kind=kind)
+    if name == "goal":
+        g = _number(text or "0.5", "goal")
+        if not 0 < g <= 100:
+            raise ValueParseError(f"goal '{text}' %: write a number above 0, at most 100")
+        return g / 100
+    if name == "time":
+        if not text:
+            return None
+        t = _number(text, "time")
+        if t <= 0:
+            raise ValueParseError(f"time '{text}' s must be above 0 (blank: no limit)")
+        return t
     raise KeyError(name)
 
 
@@ -115,6 +133,7 @@ def read_targets(
     family: str,
     singles: bool,
     allow_polarized: bool,
+    rank: str = "pieces",
 ) -> Targets:
     """All fields at once; raise ``FormError`` with every bad field."""
     values, errors = {}, {}
@@ -147,4 +166,7 @@ def read_targets(
         c_max=values["c_max"],
         singles=singles,
         allow_polarized=allow_polarized,
+        rank=rank,
+        max_error=values["goal"],
+        time_limit=values["time"],
     )

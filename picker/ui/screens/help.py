@@ -35,7 +35,10 @@ Anywhere
   lists       (type, response, circuit) enter opens, up/down, enter
   space       ticks or unticks a box
 
+  rank by     pieces: fewest pieces within the goal %; error: smallest
+  time s      a time limit: the best found by then (blank: no limit)
 3 matches     up/down, then enter: look closer (opens pane 4)
+  s           stop the running search: its best so far is shown
 4 chosen      b: build it (asks first); u: undo the last build
               v: its step response and group delay
 Dialogs       y yes, n no; a form: ctrl+g cancels (escape too)

@@ -80,10 +80,11 @@ class MainScreen(FocusRows, TypingAware, Screen):
         Binding("f3", "goto_pane('matches')", "matches", show=False),
         Binding("f4", "goto_pane('chosen')", "chosen", show=False),
         Binding("question_mark", "app.help", "help", key_display="?"),
+        Binding("s", "stop_search", "stop search", show=False),
         Binding("m", "repair", "repair", show=False),  # in the help: the footer is full
         Binding("v", "views", "views"),  # shown on pane 4 only (check_action)
     ]
-    LETTER_ACTIONS = frozenset({"pane", "app.help", "repair", "views"})
+    LETTER_ACTIONS = frozenset({"pane", "app.help", "repair", "views", "stop_search"})
 
     def __init__(self, stock_path: Path | None, note: str | None = None) -> None:
         super().__init__()
@@ -101,6 +102,7 @@ class MainScreen(FocusRows, TypingAware, Screen):
         self.mounting = False  # the lazy panes are being mounted
         self.quit_wanted = False  # ctrl+q came meanwhile: quit once they are
         self.lane = Lane("search")
+        self._stop = None  # the running search's stop event (shared with its process)
 
     def compose(self) -> ComposeResult:
         name = self.stock_path.name if self.stock_path else "no stock file"
@@ -267,17 +269,18 @@ class MainScreen(FocusRows, TypingAware, Screen):
         self.busy = True
         self._bar()
         what = describe(self.targets)
-        matches.show_busy(what)
-        self._search(self.stock, self.targets, self.generation, what)
+        matches.show_busy(what + " (s: stop, keep the best so far)")
+        self._stop = offload.context().Event()
+        self._search(self.stock, self.targets, self.generation, what, self._stop)
         self._searching = self.targets
 
     @work(thread=True, exclusive=True, group="search", exit_on_error=False)
-    def _search(self, stock, targets: Targets, generation: int, what: str) -> None:
+    def _search(self, stock, targets: Targets, generation: int, what: str, stop) -> None:
         """Plan and search in a child process; a newer search kills this one."""
         worker = get_current_worker()
         t0 = time.perf_counter()
         try:
-            kind, payload = self.lane.run(backend.search_job, stock, targets)
+            kind, payload = self.lane.run(backend.search_job, stock, targets, stop)
             outcome = (kind if kind == "done" else "message", payload)
         except Cancelled:
             return
@@ -287,18 +290,28 @@ class MainScreen(FocusRows, TypingAware, Screen):
         if not worker.is_cancelled:
             self.app.call_from_thread(self._searched, generation, outcome, seconds, what)
 
+    def action_stop_search(self) -> None:
+        """s: the running search stops and shows the best it found so far."""
+        if self.busy and self._stop is not None:
+            self._stop.set()
+            self.query_one(MatchesPane).show_busy("stopping: the best so far comes next …")
+
     def _searched(self, generation: int, outcome, seconds: float, what: str) -> None:
         if generation != self.generation:
             return  # a newer search is on its way
         self.busy = False
+        stopped = self._stop is not None and self._stop.is_set()
+        self._stop = None
         self._bar()
         matches = self.query_one(MatchesPane)
         kind, payload = outcome
         self.result_targets = self._searching
         if kind == "done":
-            matches.show_result(payload, seconds=seconds, what=what)
+            matches.show_result(payload, seconds=seconds, what=what, stopped=stopped)
         else:
             matches.show_message(payload)
+        for targets_pane in self.query(TargetsPane):  # the outcome in pane 2 as well
+            targets_pane.show_outcome(matches.last_status)
 
     @on(Worker.StateChanged)
     def _worker_failed(self, event: Worker.StateChanged) -> None:

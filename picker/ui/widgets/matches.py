@@ -99,7 +99,7 @@ class MatchesPane(Vertical):
         self.query_one("#m-tradeoff", Static).update("")
         self._show_status(text)
 
-    def show_result(self, result, *, seconds: float, what: str) -> None:
+    def show_result(self, result, *, seconds: float, what: str, stopped: bool = False) -> None:
         self.candidates = list(result.candidates)
         table = self.query_one(DataTable)
         table.clear()
@@ -114,8 +114,19 @@ class MatchesPane(Vertical):
                 str(rank), pct(c.score), str(c.pieces), values, "; ".join(notes), key=str(rank)
             )
         n = len(self.candidates)
+        head = "stopped" if stopped else "done"
+        note = ""
+        if not getattr(result, "proven", True):
+            bound = getattr(result, "bound", None)
+            note = "; the best so far, not proven the best" + (
+                f" (a proven bound: {bound:g} {getattr(result, 'bound_of', '') or ''})".rstrip()
+                if bound is not None
+                else ""
+            )
+        if not getattr(result, "goal_met", True):
+            note += "; none within the precision goal"
         self._show_status(
-            f"done: {n} candidate(s) for {what} in {seconds:.2f} s"
+            f"{head}: {n} candidate(s) for {what} in {seconds:.2f} s{note}"
             + ("; enter on a row: look closer" if n else "")
         )
         self.query_one("#m-tradeoff", Static).update(tradeoff_text(result.tradeoff))

@@ -15,6 +15,7 @@ from textual.widgets import Checkbox, Input, Label, Select, Static
 
 from picker.ui.targets_form import (
     FAMILIES,
+    RANKS,
     RESPONSE_TYPES,
     RESPONSES,
     TEXT_FIELDS,
@@ -36,6 +37,8 @@ HINTS = {
     "r_max": "largest resistance",
     "c_min": "smallest capacitance",
     "c_max": "largest capacitance",
+    "goal": "precision goal: worst error of f0, Q, gain",
+    "time": "time limit; blank: search to the end",
 }
 
 
@@ -74,6 +77,10 @@ class TargetsPane(VerticalScroll):
                 yield from choice(
                     "family", "circuit", FAMILIES, "topology family; any: the search picks"
                 )
+            if name == "goal":
+                yield from choice(
+                    "rank", "rank by", RANKS, "pieces: fewest within the goal; error: smallest"
+                )
             with Horizontal(classes="field-row"):
                 yield Label(label, classes="field-label")
                 yield Input(default, id=f"t-{name}", compact=True)
@@ -89,6 +96,7 @@ class TargetsPane(VerticalScroll):
                 compact=True,
             )
         yield Static("", id="t-status", markup=False)
+        yield Static("", id="t-outcome", markup=False)
 
     def on_mount(self) -> None:
         self.call_after_refresh(self._read_all)
@@ -106,6 +114,7 @@ class TargetsPane(VerticalScroll):
                 family=str(self.query_one("#t-family", Select).value),
                 singles=self.query_one("#t-singles", Checkbox).value,
                 allow_polarized=self.query_one("#t-polarized", Checkbox).value,
+                rank=str(self.query_one("#t-rank", Select).value),
             )
         except FormError as exc:
             for name, text in exc.errors.items():
@@ -122,6 +131,10 @@ class TargetsPane(VerticalScroll):
         if targets != self.targets:
             self.targets = targets
             self.post_message(self.Changed(targets))
+
+    def show_outcome(self, text: str) -> None:
+        """The search's outcome (or why there is no design), under the form."""
+        put(self.query_one("#t-outcome", Static), f"search: {text}" if text else "")
 
     @on(Input.Changed)
     def _typed(self, event: Input.Changed) -> None:
