@@ -311,7 +311,7 @@ class MainScreen(FocusRows, TypingAware, Screen):
         else:
             matches.show_message(payload)
         for targets_pane in self.query(TargetsPane):  # the outcome in pane 2 as well
-            targets_pane.show_outcome(matches.last_status)
+            targets_pane.show_outcome(matches.outcome)
 
     @on(Worker.StateChanged)
     def _worker_failed(self, event: Worker.StateChanged) -> None:

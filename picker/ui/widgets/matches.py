@@ -73,6 +73,7 @@ class MatchesPane(Vertical):
         super().__init__(**kwargs)
         self.candidates: list = []
         self.last_status = ""
+        self.outcome = ""  # what the search gave, for the targets pane
 
     def compose(self) -> ComposeResult:
         yield Static("no search yet: fill in the targets (pane 2)", id="m-status", markup=False)
@@ -94,6 +95,7 @@ class MatchesPane(Vertical):
         self._show_status(f"[busy] searching: {what} …")
 
     def show_message(self, text: str) -> None:
+        self.outcome = text
         self.candidates = []
         self.query_one(DataTable).clear()
         self.query_one("#m-tradeoff", Static).update("")
@@ -129,6 +131,7 @@ class MatchesPane(Vertical):
             f"{head}: {n} candidate(s) for {what} in {seconds:.2f} s{note}"
             + ("; enter on a row: look closer" if n else "")
         )
+        self.outcome = f"{head}: {n} candidate(s) for {what}{note}"  # no time: see pane 3
         self.query_one("#m-tradeoff", Static).update(tradeoff_text(result.tradeoff))
 
     @on(DataTable.RowSelected, "#m-table")
