@@ -47,7 +47,7 @@ CASES = [
         "skerr",
         "2nd-order Sallen-Key 1 kHz, --rank error",
         "1000",
-        "lowpass --fc 1k --order 2 --rank error",
+        "lowpass --fc 1k --order 2 --rank error --json --trials 200",
         "within the time limit",
     ),
     ("skg2", "Sallen-Key gain 2", "sample", "lowpass --fc 1k --order 2 --gain 2", "<= 1 s"),
@@ -130,6 +130,14 @@ def run_case(stock: Path, design: str, timeout: float, as_kb: int) -> dict:
     status = re.search(r"Exit status: (\d+)", err)
     code = int(status.group(1)) if status else proc.returncode
     body = err.split("\tCommand being timed")[0].strip().splitlines()
+    if proc.stdout.lstrip().startswith("{"):
+        import json
+
+        try:
+            out = json.loads(proc.stdout)
+            body.append(f"proven {out.get('proven')}, bound {out.get('bound')}")
+        except ValueError:
+            pass
     return {
         "wall": wall,
         "rss_mb": int(rss.group(1)) / 1024 if rss else float("nan"),
