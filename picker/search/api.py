@@ -23,7 +23,7 @@ from picker.errors import NoDesignError
 from picker.parts import Candidate, StageChoice, StageTarget
 from picker.search.opamp import choose_opamp
 from picker.search.plans import WIDE
-from picker.search.progress import Clock
+from picker.search.progress import Clock, Stopped
 from picker.search.ranking import DEFAULT_MAX_ERROR, RANKS, ranked
 from picker.search.space import Bounds, Space, build_space
 from picker.search.stage import StageProblem
@@ -79,6 +79,16 @@ def distinct(candidates: list[Candidate]) -> list[Candidate]:
             seen.add(sig)
             out.append(c)
     return out
+
+
+def _timed_out(clock: Clock) -> NoDesignError:
+    """No candidate at all within the time limit (and, in the ranking, as long again)."""
+    span = clock.deadline - clock.start
+    return NoDesignError(
+        f"no candidate found within the time limit ({span:.3g} s): the values on hand "
+        "make this search long; give more time (--time-limit, the form's time limit), "
+        "narrow the value bounds, or fill positions with single pieces only"
+    )
 
 
 def grow(t: float) -> float:
@@ -168,7 +178,11 @@ def search(
         problem = StageProblem(
             topo, target, space, {p.name: space.values[p.kind] for p in topo.positions}
         )
-        rows, _ = problem.best(top * spare)
+        problem.clock = clock
+        try:
+            rows, _ = problem.best(top * spare)
+        except Stopped:
+            raise _timed_out(clock) from None
         loaded = {(0, None): rows}
         candidates = [
             build_candidate(stages, loaded, space, ((None, i),), (float(rows.score[i]),), opamp, ())
@@ -186,6 +200,8 @@ def search(
                 stages, loaded, space, rows, key, opamp, ()
             ),
         )
+        if out.timed_out:
+            raise _timed_out(clock)
         candidates, notes = out.candidates, list(out.notes)
         proven, bound, goal_met, bound_of = out.proven, out.bound, out.goal_met, out.bound_of
     if not candidates:

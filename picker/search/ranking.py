@@ -76,6 +76,7 @@ class Ranked:
     goal_met: bool = True
     step_limited: bool = False
     ties_unsure: bool = False  # rank 1 proven but for the tolerance tie-break
+    timed_out: bool = False  # no first candidate within twice the time limit
     notes: list[str] = field(default_factory=list)
 
     def add(self, got, clock: Clock | None, key) -> None:
@@ -103,19 +104,30 @@ def ranked(classes, counts, *, rank: str, max_error: float, top: int, clock: Clo
     except Stopped:
         stopped = True
     if stopped and not out.candidates:
-        rescue = Clock(None, progress=clock.progress)
+        # One more span as long as the time limit (at least RESCUE_S) to find a
+        # first candidate; past it the search ends with none and says so (api.search).
+        span = max(clock.deadline - clock.start, RESCUE_S)
+        rescue = Clock(
+            span if math.isfinite(span) else None,
+            progress=clock.progress,
+        )
         for c in classes:
             c.clock = None
-        out.candidates, floor = quick(classes, counts, build)
-        if rank == "error" or out.bound_of is None:
-            # each stage's best over its whole space is exact: no candidate goes below
-            out.bound, out.bound_of = max(out.bound or 0.0, floor), "error"
-        if not out.candidates:  # the stages block each other: the full search finds one
-            sub = Ranked()
-            _error(classes, counts, 1, rescue, build, sub)
-            out.candidates = sub.candidates
-            if rank == "error" and sub.proven:
-                out.proven = True
+        try:
+            out.candidates, floor = quick(classes, counts, build, rescue)
+            if rank == "error" or out.bound_of is None:
+                # each stage's best over its whole space is exact: no candidate goes below
+                out.bound, out.bound_of = max(out.bound or 0.0, floor), "error"
+            if not out.candidates:  # the stages block each other: the full search finds one
+                sub = Ranked()
+                _error(classes, counts, 1, rescue, build, sub)
+                out.candidates = sub.candidates
+                if rank == "error" and sub.proven:
+                    out.proven = True
+        except Stopped:
+            out.candidates = []
+            out.timed_out = True
+            return out
         out.notes.append(
             "the time limit passed before a first candidate was found; the search went "
             f"on until it had one ({rescue.elapsed():.1f} s more)"
@@ -154,10 +166,11 @@ def ranked(classes, counts, *, rank: str, max_error: float, top: int, clock: Clo
     return out
 
 
+RESCUE_S = 5.0  # at least this long for a first candidate after a very short limit
 QUICK = (8, 64)  # rows per stage the quick first candidate tries
 
 
-def quick(classes, counts, build) -> tuple[list, float]:
+def quick(classes, counts, build, clock: Clock | None = None) -> tuple[list, float]:
     """(a first candidate, fast and unproven, or none; a proved lower bound of the worst
     error). The candidate: each stage's best rows over its whole space (one search per
     stage, not one per class), joined with quantities shared by a short depth-first
@@ -170,7 +183,9 @@ def quick(classes, counts, build) -> tuple[list, float]:
         stage_rows = []
         for c in classes:
             arrays = {p.name: c.space.values[p.kind] for p in c.topology.positions}
-            rows, _ = StageProblem(c.topology, c.target, c.space, arrays).best(need)
+            problem = StageProblem(c.topology, c.target, c.space, arrays)
+            problem.clock = clock
+            rows, _ = problem.best(need)
             if not len(rows):
                 return [], floor
             floor = max(floor, float(rows.score[0]))

@@ -28,6 +28,7 @@ import numpy as np
 
 from picker.search import join
 from picker.search.plans import WIDE, plan_for, windows
+from picker.search.progress import Clock
 
 PROBE_KEEP = 64  # rows per group kept by the probe of a multi-group plan
 PROBE_ROWS = 1024  # rows per block kept by the probe of a one-group plan
@@ -85,7 +86,7 @@ class StageProblem:
         self.label = label
         self.limits = {k: _limits(space.values[k]) for k in ("resistor", "capacitor")}
         self._cache: tuple[float, StageRows] | None = None
-        self.clock = None  # a picker.search.progress.Clock; checked between blocks
+        self.clock: Clock | None = None  # checked between blocks (progress.py)
 
     def empty(self) -> bool:
         return any(len(self.arrays[n]) == 0 for n in self.names)
@@ -157,6 +158,7 @@ class StageProblem:
                 neighbors=probe,
                 outer=outer,
             ):
+                self._tick()
                 k = self._filter(rows, state["t"], probe)
                 if k is None:
                     continue
@@ -174,6 +176,7 @@ class StageProblem:
         parts = []
         ctx = self._ctx(t, probe)
         for group in groups:
+            self._tick()
             rows = join.collect(
                 join.group_rows(group, self.arrays, ctx, neighbors=probe),
                 f"{self.label} ({self.topology.key})",
