@@ -28,7 +28,7 @@ TEXT_FIELDS = {
     "c_min": ("C min", "100p"),
     "c_max": ("C max", "10u"),
     "goal": ("goal %", "0.5"),
-    "time": ("time s", ""),
+    "time": ("time s", "10"),
 }
 
 
@@ -52,7 +52,7 @@ class Targets:
     allow_polarized: bool = False
     rank: str = "pieces"
     max_error: float = 0.005  # the precision goal, a fraction
-    time_limit: float | None = None  # seconds; None: search to the end
+    time_limit: float | None = 10.0  # seconds, as the CLI; None (field blank): to the end
 
 
 class FormError(PickerError):
