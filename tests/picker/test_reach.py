@@ -1,4 +1,4 @@
-"""The reach check of the search for people (picker.search.api.check_reach) has slack,
+"""The reach check of the search for people (picker.search.reach.check_reach) has slack,
 says what the parts reach, and tells a limit of the stock from one of the bounds.
 
 The worked example: an inverting first-order low-pass (R1 in, R2 with C1 across it)
