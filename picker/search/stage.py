@@ -150,7 +150,7 @@ class StageProblem:
             if probe:
                 n = len(self.arrays[groups[0].steps[0].position])
                 outer = np.arange(0, n, max(1, n // PROBE_OUTER), dtype=np.int64)
-            kept = []
+            kept: list[tuple] = []
             for rows in join.group_rows(
                 groups[0],
                 self.arrays,
@@ -159,14 +159,7 @@ class StageProblem:
                 outer=outer,
             ):
                 self._tick()
-                k = self._filter(rows, state["t"], probe)
-                if k is None:
-                    continue
-                kept.append(k)
-                if shrink:
-                    state["best"] = np.sort(np.concatenate([state["best"], k[1]]))[:shrink]
-                    if state["best"].size >= shrink:
-                        state["t"] = min(state["t"], float(state["best"][-1]))
+                self._keep(self._filter(rows, state["t"], probe), kept, state, shrink)
             if not kept:
                 return self._finish({n: np.zeros(0, np.int64) for n in self.names}, t, probe)
             merged = {n: np.concatenate([k[0][n] for k in kept]) for n in self.names}
@@ -223,7 +216,7 @@ class StageProblem:
         if probe:
             n = len(self.arrays[first.steps[0].position])
             outer = np.arange(0, n, max(1, n // PROBE_OUTER), dtype=np.int64)
-        kept = []
+        kept: list[tuple] = []
         for rows1 in join.group_rows(
             first, self.arrays, lambda: self._ctx(state["t"], probe), neighbors=probe, outer=outer
         ):
@@ -246,18 +239,23 @@ class StageProblem:
             for parent, pick in join.pairs_in_blocks(lo, counts):
                 rows = {p: i[parent] for p, i in rows1.items()}
                 rows |= {p: i[pick] for p, i in rows2.items()}
-                k = self._filter(rows, state["t"], probe)
-                if k is None:
-                    continue
-                kept.append(k)
-                if shrink:
-                    state["best"] = np.sort(np.concatenate([state["best"], k[1]]))[:shrink]
-                    if state["best"].size >= shrink:
-                        state["t"] = min(state["t"], float(state["best"][-1]))
+                self._keep(self._filter(rows, state["t"], probe), kept, state, shrink)
         if not kept:
             return self._finish(none, t, probe)
         merged = {n: np.concatenate([k[0][n] for k in kept]) for n in self.names}
         return self._finish(merged, t, probe, np.concatenate([k[1] for k in kept]))
+
+    @staticmethod
+    def _keep(k, kept: list, state: dict, shrink: int | None) -> None:
+        """Keep filtered rows ``k`` (if any); with ``shrink``, lower the threshold
+        ``state["t"]`` to the ``shrink``-th best score kept so far (branch and bound)."""
+        if k is None:
+            return
+        kept.append(k)
+        if shrink:
+            state["best"] = np.sort(np.concatenate([state["best"], k[1]]))[:shrink]
+            if state["best"].size >= shrink:
+                state["t"] = min(state["t"], float(state["best"][-1]))
 
     def _tick(self) -> None:
         """Between blocks of work: let the search's clock stop it (see progress.py)."""
