@@ -12,7 +12,8 @@ Every write:
    untouched) if their sha256 is not the one the caller read (``expect_sha256``);
 3. changes only what it must and keeps every other byte (``stock.splice``): a qty
    change rewrites just its digits, measured readings are removed within their own
-   entry, a line appended goes at the end; the result must load to the stock planned;
+   entry, a line added goes after the last line of its kind; the result must load to
+   the stock planned;
 4. writes a temporary file in the same folder with the mode, owner (where allowed) and
    extended attributes of the original, fsyncs it, renames it over the original and
    fsyncs the folder (``stock.durable``), so a crash leaves the old file or the new
@@ -46,7 +47,7 @@ from stock.durable import (
 from stock.errors import PartlyDoneError, StockEditError, StockFileError
 from stock.fields import MAX_COUNT
 from stock.load import KINDS, loads
-from stock.splice import splice
+from stock.splice import insert_entry, splice
 from stock.values import format_rkm
 
 _BOM = "\ufeff"
@@ -336,7 +337,8 @@ def _toml_line(path, key, value) -> str:
 
 
 def add_line(path, kind: str, fields: dict, *, expect_sha256: str | None = None) -> EditResult:
-    """Append a new ``[[kind]]`` table with ``fields`` at the end of the file.
+    """Add a new ``[[kind]]`` table with ``fields`` after the last one of its kind
+    (at the end of the file when there is none; ``stock.splice.insert_entry``).
 
     The bytes already in the file stay as they are; the new entry must load without
     errors (same rules as the loader), else ``StockEditError`` and nothing is written.
@@ -348,14 +350,8 @@ def add_line(path, kind: str, fields: dict, *, expect_sha256: str | None = None)
     def transform(before: bytes) -> bytes:
         bom, text = _text_of(before, path)
         stock = _check_loads(text, path, "the stock file has problems")
-        nl = "\r\n" if "\r\n" in text else "\n"
         body = [f"[[{kind}]]"] + [_toml_line(path, k, v) for k, v in fields.items()]
-        lead = ""
-        if text and not text.endswith(("\n", "\r")):
-            lead = nl
-        if text.strip():
-            lead += nl
-        after_text = text + lead + nl.join(body) + nl
+        after_text = insert_entry(text, kind, body, stock, str(path))
         new = _check_loads(after_text, path, f"the new {kind} line is not valid")
         if len(new.lines(kind)) != len(stock.lines(kind)) + 1:
             raise StockEditError(

@@ -11,6 +11,11 @@ so that every other byte of the file stays as it was:
 3. an entry the line scan cannot place (an inline array of tables) goes through a round
    trip of the whole file, kept only if every line outside that entry is unchanged.
 
+``insert_entry`` places a new ``[[kind]]`` entry (``stock.edit.add_line``) right after
+the last entry of its own kind, before the blank lines and comments that lead to the
+next table; with no entry of that kind yet, or where the scan cannot place it, the
+entry goes at the end of the file. Every byte already there is kept either way.
+
 The result must load to exactly the stock planned. When none of these is certain,
 ``StockEditError`` says so and nothing is written. Rules: docs/stock-file.md.
 """
@@ -21,6 +26,7 @@ import difflib
 import re
 from dataclasses import replace
 
+from stock import tomlread
 from stock.errors import StockEditError, StockFileError
 from stock.load import KINDS, LineMap, loads
 
@@ -160,4 +166,64 @@ def _refuse_if_moved(before: str, after: str, lmap: LineMap, whole, source: str)
             )
 
 
-__all__ = ["same_base", "splice"]
+def insert_entry(text: str, kind: str, body: list[str], stock, source: str) -> str:
+    """``text`` with the entry ``body`` (its lines, header first) after the last
+    ``[[kind]]`` entry (see the module docstring); ``stock`` is ``text`` loaded."""
+    nl = "\r\n" if "\r\n" in text else "\n"
+    block = nl.join(body) + nl
+    lmap = LineMap(text)
+    heads = lmap.entries.get(kind, [])
+    if heads and len(heads) == len(stock.lines(kind)):
+        last = _last_code_row(lmap, heads[-1])
+        if last < len(lmap.rows):  # the row has its newline: insert after it
+            at = sum(len(row) + 1 for row in lmap.rows[:last])
+            after = text[:at] + nl + block + text[at:]
+            if _one_more(text, after, kind, len(heads), source):
+                return after
+    lead = nl if text and not text.endswith(("\n", "\r")) else ""
+    if text.strip():
+        lead += nl
+    return text + lead + block
+
+
+def _last_code_row(lmap: LineMap, header: int) -> int:
+    """The last row of the entry at ``header`` that holds TOML (not blank, not a
+    comment), a multi-line value's closing row included."""
+    last = header
+    for n, raw in tomlread.code_rows(lmap.rows, header, lmap.next_header(header)):
+        if raw.strip() and not raw.lstrip().startswith("#"):
+            last = n
+        # a multi-line value's closing row is skipped by code_rows: count it too
+        closing = tomlread.opens_multiline(raw)
+        if closing:
+            for m in range(n + 1, lmap.next_header(header)):
+                last = m
+                if lmap.rows[m - 1].count(closing) % 2 == 1:
+                    break
+    return last
+
+
+def _one_more(before: str, after: str, kind: str, count: int, source: str) -> bool:
+    """True when ``after`` loads to the stock of ``before`` with one more ``kind``
+    line at the end of its kind and nothing else changed (line numbers aside)."""
+    try:
+        old, new = loads(before, source=source), loads(after, source=source)
+    except StockFileError:
+        return False
+
+    def bare(items) -> list:
+        return [replace(x, line=0) for x in items]
+
+    for k in KINDS:
+        want = bare(old.lines(k))
+        got = bare(new.lines(k))
+        if k == kind:
+            if len(got) != count + 1:
+                return False
+            got = got[:-1]
+        if got != want:
+            return False
+    return True
+
+
+__all__ = ["insert_entry", "same_base", "splice"]

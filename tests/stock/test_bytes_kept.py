@@ -10,7 +10,7 @@ import os
 import pytest
 
 from stock.errors import StockEditError
-from stock.file import QtyChange, apply_changes, load
+from stock.file import QtyChange, add_line, apply_changes, load
 from stock.load import LineMap
 from stock.splice import _refuse_if_moved, same_base
 
@@ -114,3 +114,58 @@ def test_extended_attributes_kept(tmp_path):
     assert os.getxattr(p, "user.origin") == b"bench notebook, page 12"
     assert os.getxattr(p, "user.picker.test") == b"1"
     assert load(p).resistors[0].measured == (998.0,)
+
+
+# -- a new line goes after the last line of its own kind (docs/stock-file.md, "Editing") --
+
+ADD = {"value": "3k3", "qty": 2}
+ADDED = '[[resistor]]\nvalue = "3k3"\nqty = 2\n'
+
+
+def _add(tmp_path, text: str, kind: str = "resistor", fields=None, newline: str = "\n") -> bytes:
+    p = tmp_path / "inv.toml"
+    p.write_bytes(text.replace("\n", newline).encode("utf-8"))
+    before = p.read_bytes()
+    res = add_line(p, kind, dict(fields or ADD))
+    assert res.before == before and p.read_bytes() == res.after
+    return res.after
+
+
+def test_a_new_resistor_goes_after_the_last_resistor_not_at_the_end(tmp_path):
+    after = _add(tmp_path, TEXT).decode()
+    # TEXT's last resistor ends with the "]" of its readings, before the end of the file
+    assert after == TEXT + "\n" + ADDED
+    text = TEXT + '\n# op amps from here on\n[[opamp]]\nname = "quad"\ngbw = "1MHz"\nqty = 1\n'
+    after = _add(tmp_path, text).decode()
+    at = text.index("]\n\n# op amps") + 2
+    assert after == text[:at] + "\n" + ADDED + text[at:]  # the comment stays with the op amps
+    s = load(tmp_path / "inv.toml")
+    assert [r.value for r in s.resistors][-1] == 3300.0 and s.opamps[0].name == "quad"
+
+
+def test_a_new_capacitor_goes_between_two_resistor_tables(tmp_path):
+    cap = {"value": "1n", "qty": 3, "dielectric": "C0G"}
+    after = _add(tmp_path, TEXT, "capacitor", cap).decode()
+    at = TEXT.index("qty = 4\n") + len("qty = 4\n")
+    new = '\n[[capacitor]]\nvalue = "1n"\nqty = 3\ndielectric = "C0G"\n'
+    assert after == TEXT[:at] + new + TEXT[at:]
+    assert [c.value for c in load(tmp_path / "inv.toml").capacitors] == [10e-9, 1e-9]
+
+
+def test_crlf_and_a_multi_line_string_are_kept(tmp_path):
+    text = (
+        '[[resistor]]\nvalue = "1k"\nqty = 1\nnote = """bought at the fair\n'
+        '# not a comment: inside the string"""\n\n# capacitors\n[[capacitor]]\n'
+        'value = "10n"\nqty = 4\n'
+    )
+    after = _add(tmp_path, text, newline="\r\n")
+    crlf = text.replace("\n", "\r\n")
+    at = crlf.index('string"""\r\n') + len('string"""\r\n')
+    assert after.decode() == crlf[:at] + "\r\n" + ADDED.replace("\n", "\r\n") + crlf[at:]
+    assert load(tmp_path / "inv.toml").resistors[0].note.endswith("inside the string")
+
+
+def test_no_line_of_its_kind_yet_goes_at_the_end(tmp_path):
+    text = '[[capacitor]]\nvalue = "10n"\nqty = 4'  # no newline at the end either
+    after = _add(tmp_path, text).decode()
+    assert after == text + "\n\n" + ADDED

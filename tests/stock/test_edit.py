@@ -136,20 +136,27 @@ def test_refuses_broken_file(stockfile):
         apply_changes(stockfile, [QtyChange("resistor", 0, -1)])
 
 
-def test_add_line_appends_and_keeps_bytes(stockfile):
+def test_add_line_goes_after_its_kind_and_keeps_bytes(stockfile):
     res = add_line(
         stockfile,
         "resistor",
         {"value": "10k", "qty": 5, "tolerance": "1%", "location": "B4", "measured": ["9.99k"]},
     )
-    assert res.after.startswith(res.before)
-    assert res.after[len(res.before) :] == (
-        b'\n[[resistor]]\nvalue = "10k"\nqty = 5\n'
-        b'tolerance = "1%"\nlocation = "B4"\n'
-        b'measured = ["9.99k"]\n'
+    # after the resistor's last line, before the blank line that leads to [[capacitor]]
+    at = res.before.index(b"# two picked\n") + len(b"# two picked\n")
+    assert (
+        res.after
+        == res.before[:at]
+        + (
+            b'\n[[resistor]]\nvalue = "10k"\nqty = 5\n'
+            b'tolerance = "1%"\nlocation = "B4"\n'
+            b'measured = ["9.99k"]\n'
+        )
+        + res.before[at:]
     )
     s = load(stockfile)
-    assert [r.value for r in s.resistors] == [4700.0, 10000.0] and s.resistors[1].line == 16
+    assert [r.value for r in s.resistors] == [4700.0, 10000.0] and s.resistors[1].line == 11
+    assert s.capacitors[0].line == 18  # moved down by the seven new lines, unchanged
 
 
 @pytest.mark.parametrize(

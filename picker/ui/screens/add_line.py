@@ -1,4 +1,4 @@
-"""Dialog: a new line of stock, appended to the file with the safe edit.
+"""Dialog: a new line of stock, written with the safe edit after the last line of its kind.
 
 Each field is checked as it is typed and the message stands beside it; enter in any
 field writes the line when every field reads. The text typed is what goes into the
