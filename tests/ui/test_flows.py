@@ -71,7 +71,8 @@ async def test_edit_quantity_changes_exactly_that_number(stock_copy):
     assert len(before.splitlines()) == len(after.splitlines())
 
 
-async def test_add_line_validates_in_place_then_appends(stock_copy):
+async def test_add_line_validates_in_place_then_writes_after_its_kind(stock_copy):
+    before = stock_copy.read_text(encoding="utf-8")
     app = PickerApp(stock_copy)
     async with app.run_test(size=SIZE) as pilot:
         await settle(pilot, app)
@@ -89,8 +90,10 @@ async def test_add_line_validates_in_place_then_appends(stock_copy):
         pane = app.screen.query_one(DrawersPane)
         assert [r.cells[1] for r in pane.rows if r.kind == "resistor"][-1] == "6k8"
     text = stock_copy.read_text(encoding="utf-8")
-    assert text.rstrip().endswith('location = "B2"')
-    assert 'value = "6k8"' in text
+    # after the last resistor (the 15k in A5), before the capacitors; nothing else changed
+    at = before.index('location = "A5"\n\n[[capacitor]]') + len('location = "A5"\n')
+    added = '\n[[resistor]]\nvalue = "6k8"\nqty = 5\ntolerance = "1%"\nlocation = "B2"\n'
+    assert text == before[:at] + added + before[at:]
 
 
 async def test_help_and_pane_keys_and_letters_inside_fields(stock_copy):
