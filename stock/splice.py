@@ -22,7 +22,6 @@ The result must load to exactly the stock planned. When none of these is certain
 
 from __future__ import annotations
 
-import difflib
 import re
 from dataclasses import replace
 
@@ -153,6 +152,8 @@ def _refuse_if_moved(before: str, after: str, lmap: LineMap, whole, source: str)
         start = lmap.tables.get(kind) or lmap.top_keys.get(kind, 0)
         if start:
             allowed.update(range(start - 1, lmap.next_header(start) - 1))
+    import difflib  # only on this rare path (an entry the line scan cannot place)
+
     a, b = before.split("\n"), after.split("\n")
     for tag, i1, i2, _, _ in difflib.SequenceMatcher(None, a, b, autojunk=False).get_opcodes():
         if tag == "equal":

@@ -15,6 +15,7 @@ written there. The rules are in docs/stock-file.md and docs/reliability.md.
 
 from __future__ import annotations
 
+import functools
 import re
 import sys
 import tomllib
@@ -101,7 +102,7 @@ def _long_number(text: str, exc: ValueError) -> TomlProblem:
     if not m:
         return TomlProblem(0, f"a value TOML cannot hold ({exc})")
     line = text.count("\n", 0, m.start()) + 1
-    key = _KEYLINE_RE.match(text.split("\n")[line - 1])
+    key = _patterns()[2].match(text.split("\n")[line - 1])
     what = f"{'.'.join(split_key(key[1]))}: " if key else ""
     return TomlProblem(
         line,
@@ -159,16 +160,25 @@ def _deep_line(text: str, limit: int) -> int:
 
 _KEY = r'(?:[A-Za-z0-9_-]+|"(?:[^"\\\n]|\\.)*"|\'[^\'\n]*\')'
 _DOTTED = rf"{_KEY}(?:\s*\.\s*{_KEY})*"
-_AOT_RE = re.compile(rf"^\s*\[\[\s*({_DOTTED})\s*\]\]")
-_TABLE_RE = re.compile(rf"^\s*\[\s*({_DOTTED})\s*\]")
-_KEYLINE_RE = re.compile(rf"^\s*({_DOTTED})\s*=\s*")
-_PART_RE = re.compile(_KEY)
+
+
+@functools.cache
+def _patterns() -> tuple[re.Pattern[str], re.Pattern[str], re.Pattern[str], re.Pattern[str]]:
+    """The line-scan patterns ``(array-of-tables header, table header, key line, key
+    part)``, compiled on first use: a stock file's load never needs them (its own scan is
+    ``stock.load.LineMap``), and compiling them costs start-up time."""
+    return (
+        re.compile(rf"^\s*\[\[\s*({_DOTTED})\s*\]\]"),
+        re.compile(rf"^\s*\[\s*({_DOTTED})\s*\]"),
+        re.compile(rf"^\s*({_DOTTED})\s*=\s*"),
+        re.compile(_KEY),
+    )
 
 
 def split_key(dotted: str) -> list[str]:
     """``a."b.c".d`` -> ``["a", "b.c", "d"]``."""
     out = []
-    for m in _PART_RE.finditer(dotted):
+    for m in _patterns()[3].finditer(dotted):
         k = m[0]
         out.append(k[1:-1] if k[:1] in "\"'" else k)
     return out
@@ -202,7 +212,7 @@ def written_value(row: str) -> str | None:
 
     None for a value that goes on past the line (a multi-line array or string).
     """
-    m = _KEYLINE_RE.match(row)
+    m = _patterns()[2].match(row)
     if not m:
         return None
     rest = row[m.end() :].rstrip("\r")
@@ -258,9 +268,10 @@ class KeyLines:
         self.lines: dict[tuple, int] = {}
         aot: dict[tuple, int] = {}
         current: tuple = ()
+        aot_re, table_re, keyline_re, _ = _patterns()
         for n, raw in code_rows(self.rows):
-            head = _AOT_RE.match(raw)
-            found = head or _TABLE_RE.match(raw)
+            head = aot_re.match(raw)
+            found = head or table_re.match(raw)
             if found:
                 parts = split_key(found[1])
                 path = self._resolve(parts[:-1] if head else parts, aot)
@@ -272,7 +283,7 @@ class KeyLines:
                 current = path
                 self.lines.setdefault(path, n)
                 continue
-            m = _KEYLINE_RE.match(raw)
+            m = keyline_re.match(raw)
             if m:
                 self.lines.setdefault(current + tuple(split_key(m[1])), n)
 

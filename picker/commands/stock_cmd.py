@@ -219,10 +219,14 @@ def run_list(args) -> int:
         return 0
     from rich.console import Console
 
-    from picker.report.stock_tables import stock_tables
+    from rich.table import Table
+
+    from picker.report.stock_tables import fit_widths, stock_tables
 
     console = Console(highlight=False, markup=False, emoji=False)
     for renderable in stock_tables(stock, kinds):
+        if isinstance(renderable, Table):
+            fit_widths(renderable, console.width)
         console.print(renderable)
     return 0
 
