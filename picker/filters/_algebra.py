@@ -11,6 +11,7 @@ from collections.abc import Mapping
 from typing import TYPE_CHECKING
 
 from picker.errors import DesignError
+from picker.filters.base import Element, PositionSpec, Topology
 from picker.parts import StageTarget
 
 if TYPE_CHECKING:
@@ -100,9 +101,34 @@ def gain_network(gain: float, ra: float) -> dict[str, float]:
 
 def gain_elements(values: Mapping[str, float], node: str):
     """Netlist of the RA/RB gain network around the inverting input ``node``."""
-    from picker.filters.base import Element
-
     return [
         Element("R", "RA", (node, "0"), float(values["RA"])),
         Element("R", "RB", ("out", node), float(values["RB"])),
     ]
+
+
+class GainNetwork(Topology):
+    """The "-gain" variant of a unity-gain stage: its follower becomes a non-inverting
+    amplifier of gain K = 1 + RB/RA, RA from the inverting input to ground and RB from
+    the output to it (gain 1 + Rf/Rg; common practice, from memory).
+
+    Put it first among the bases, before the unity class, which keeps its formulas with
+    ``_k(values)`` (the follower's 1) and its netlist ending in the follower ``U1``."""
+
+    sets_gain = True
+    GAIN_POSITIONS = (
+        PositionSpec("RA", "resistor", "gain resistor to ground"),
+        PositionSpec("RB", "resistor", "gain feedback resistor"),
+    )
+
+    def _k(self, values):
+        return 1.0 + value(values, "RB") / value(values, "RA")
+
+    def _gain_network(self, k: float, ra: float) -> dict[str, float]:
+        return gain_network(k, choice("ra", ra, self.key))
+
+    def netlist(self, values):
+        *network, follower = super().netlist(values)
+        return (
+            network + gain_elements(values, "n") + [Element("OA", follower.name, ("p", "n", "out"))]
+        )

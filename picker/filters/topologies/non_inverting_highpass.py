@@ -30,12 +30,12 @@ class NonInvertingHighpass(Topology):
         PositionSpec("R1", "resistor", "resistor to ground"),
     )
 
-    def _gain(self, values):
+    def _k(self, values):
         return al.unity_like(al.value(values, "R1"))
 
     def characteristics(self, values):
         r1, c1 = al.value(values, "R1"), al.value(values, "C1")
-        return al.first_order_hz(r1 * c1), None, self._gain(values)
+        return al.first_order_hz(r1 * c1), None, self._k(values)
 
     def _cr(self, target, c):
         w0 = al.target_w0(target, self.key)
@@ -47,14 +47,14 @@ class NonInvertingHighpass(Topology):
         The target's gain is ignored: a follower has gain 1."""
         return self._cr(target, c)
 
-    def _cr_elements(self, values):
+    def _core(self, values):
         return [
             Element("C", "C1", ("in", "p"), float(values["C1"])),
             Element("R", "R1", ("p", "0"), float(values["R1"])),
         ]
 
     def netlist(self, values):
-        return self._cr_elements(values) + [Element("OA", "U1", ("p", "out", "out"))]
+        return self._core(values) + [Element("OA", "U1", ("p", "out", "out"))]
 
 
 register(NonInvertingHighpass())

@@ -13,34 +13,18 @@ References
 from __future__ import annotations
 
 from picker.filters import _algebra as al
-from picker.filters.base import Element, PositionSpec, register
+from picker.filters.base import register
 from picker.filters.topologies.non_inverting_highpass import NonInvertingHighpass
 
 
-class NonInvertingHighpassGain(NonInvertingHighpass):
+class NonInvertingHighpassGain(al.GainNetwork, NonInvertingHighpass):
     key = "non-inverting-highpass-gain"
-    sets_gain = True
-    positions = NonInvertingHighpass.positions + (
-        PositionSpec("RA", "resistor", "gain resistor to ground"),
-        PositionSpec("RB", "resistor", "gain feedback resistor"),
-    )
-
-    def _gain(self, values):
-        return 1.0 + al.value(values, "RB") / al.value(values, "RA")
+    positions = NonInvertingHighpass.positions + al.GainNetwork.GAIN_POSITIONS
 
     def synthesize(self, target, *, c=10e-9, ra=10e3):
         """Ideal values. Free choices: ``c`` = C1 (default 10 nF), ``ra`` = RA (default 10 k)."""
         gain = al.target_gain(target, self.key, above_one=True)
-        out = self._cr(target, c)
-        out.update(al.gain_network(gain, al.choice("ra", ra, self.key)))
-        return out
-
-    def netlist(self, values):
-        return (
-            self._cr_elements(values)
-            + al.gain_elements(values, "n")
-            + [Element("OA", "U1", ("p", "n", "out"))]
-        )
+        return {**self._cr(target, c), **self._gain_network(gain, ra)}
 
 
 register(NonInvertingHighpassGain())

@@ -13,34 +13,18 @@ References
 from __future__ import annotations
 
 from picker.filters import _algebra as al
-from picker.filters.base import Element, PositionSpec, register
+from picker.filters.base import register
 from picker.filters.topologies.non_inverting_lowpass import NonInvertingLowpass
 
 
-class NonInvertingLowpassGain(NonInvertingLowpass):
+class NonInvertingLowpassGain(al.GainNetwork, NonInvertingLowpass):
     key = "non-inverting-lowpass-gain"
-    sets_gain = True
-    positions = NonInvertingLowpass.positions + (
-        PositionSpec("RA", "resistor", "gain resistor to ground"),
-        PositionSpec("RB", "resistor", "gain feedback resistor"),
-    )
-
-    def _gain(self, values):
-        return 1.0 + al.value(values, "RB") / al.value(values, "RA")
+    positions = NonInvertingLowpass.positions + al.GainNetwork.GAIN_POSITIONS
 
     def synthesize(self, target, *, c=10e-9, ra=10e3):
         """Ideal values. Free choices: ``c`` = C1 (default 10 nF), ``ra`` = RA (default 10 k)."""
         gain = al.target_gain(target, self.key, above_one=True)
-        out = self._rc(target, c)
-        out.update(al.gain_network(gain, al.choice("ra", ra, self.key)))
-        return out
-
-    def netlist(self, values):
-        return (
-            self._rc_elements(values)
-            + al.gain_elements(values, "n")
-            + [Element("OA", "U1", ("p", "n", "out"))]
-        )
+        return {**self._rc(target, c), **self._gain_network(gain, ra)}
 
 
 register(NonInvertingLowpassGain())

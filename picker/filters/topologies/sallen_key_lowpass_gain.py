@@ -17,36 +17,20 @@ References
 from __future__ import annotations
 
 from picker.filters import _algebra as al
-from picker.filters.base import Element, PositionSpec, register
+from picker.filters.base import register
 from picker.filters.topologies.sallen_key_lowpass import SallenKeyLowpass
 
 
-class SallenKeyLowpassGain(SallenKeyLowpass):
+class SallenKeyLowpassGain(al.GainNetwork, SallenKeyLowpass):
     key = "sallen-key-lowpass-gain"
-    sets_gain = True
-    positions = SallenKeyLowpass.positions + (
-        PositionSpec("RA", "resistor", "gain resistor to ground"),
-        PositionSpec("RB", "resistor", "gain feedback resistor"),
-    )
-
-    def _k(self, values):
-        return 1.0 + al.value(values, "RB") / al.value(values, "RA")
+    positions = SallenKeyLowpass.positions + al.GainNetwork.GAIN_POSITIONS
 
     def synthesize(self, target, *, c=10e-9, ratio=None, ra=10e3):
         """Ideal values. Free choices: ``c`` = C2 (default 10 nF), ``ratio`` = C1/C2
         (default: the larger of 1 and the minimum 4 Q^2 / (1 + 4 Q^2 (K - 1))), ``ra`` = RA
         (default 10 k)."""
         k = al.target_gain(target, self.key, above_one=True)
-        out = self._design(target, c, ratio, k)
-        out.update(al.gain_network(k, al.choice("ra", ra, self.key)))
-        return out
-
-    def netlist(self, values):
-        return (
-            self._core(values)
-            + al.gain_elements(values, "n")
-            + [Element("OA", "U1", ("p", "n", "out"))]
-        )
+        return {**self._design(target, c, ratio, k), **self._gain_network(k, ra)}
 
 
 register(SallenKeyLowpassGain())
