@@ -82,6 +82,21 @@ def _ask(question: str) -> bool:
     return answer.strip().lower() in ("y", "yes")
 
 
+def _declined(args, console, question: str, without: str, nothing: str) -> int | None:
+    """None when the command may go on (``--yes``, or a yes to ``question``); otherwise
+    its exit code: 2 without a terminal to ask on (``without``: what --yes would do), 0
+    after a no (``nothing`` says what was left as it was)."""
+    if args.yes:
+        return None
+    if not _interactive():
+        _err(f"not a terminal: pass --yes to {without}")
+        return 2
+    if not _ask(question):
+        console.print(nothing)
+        return 0
+    return None
+
+
 def _partly_done(exc) -> int:
     """A build or undo that changed the stock but could not finish: its lines, its code."""
     for line in str(exc).splitlines():
@@ -137,13 +152,11 @@ def run_build(args) -> int:
         _say(console, f"warning: {w}")
     for c in plan.cautions:
         _say(console, f"caution: {c}")
-    if not args.yes:
-        if not _interactive():
-            _err("not a terminal: pass --yes to take the parts without asking")
-            return 2
-        if not _ask(f"Take these {plan.count} parts from {stock_path}?"):
-            console.print("Nothing taken; the stock file is unchanged.")
-            return 0
+    question = f"Take these {plan.count} parts from {stock_path}?"
+    no = _declined(args, console, question, "take the parts without asking",
+                   "Nothing taken; the stock file is unchanged.")  # fmt: skip
+    if no is not None:
+        return no
     try:
         result = do_build(stock_path, plan, again=again)
     except PartlyDoneError as exc:
@@ -210,13 +223,10 @@ def run_undo(args) -> int:
     )
     for line in record.summary:
         _say(console, f"  {line}")
-    if not args.yes:
-        if not _interactive():
-            _err("not a terminal: pass --yes to undo without asking")
-            return 2
-        if not _ask(f"Put {stock_path} back as it was before build {record.number}?"):
-            console.print("Nothing changed.")
-            return 0
+    question = f"Put {stock_path} back as it was before build {record.number}?"
+    no = _declined(args, console, question, "undo without asking", "Nothing changed.")
+    if no is not None:
+        return no
     try:
         undo_last(stock_path)
     except PartlyDoneError as exc:

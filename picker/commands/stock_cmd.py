@@ -218,7 +218,6 @@ def run_list(args) -> int:
         print()
         return 0
     from rich.console import Console
-
     from rich.table import Table
 
     from picker.report.stock_tables import fit_widths, stock_tables

@@ -133,23 +133,19 @@ def csv_text(header, rows) -> str:
     return out.getvalue()
 
 
+def rows_csv(header, rows) -> str:
+    """``rows`` (records with a field of each ``header`` name) as ``csv_text``: None is
+    an empty cell, a tuple its items joined by spaces."""
+
+    def cell(v):
+        return "" if v is None else " ".join(v) if isinstance(v, tuple) else v
+
+    return csv_text(header, ([cell(getattr(r, name)) for name in header] for r in rows))
+
+
 def bom_csv(design: SavedDesign) -> str:
     """The BOM as CSV text (RFC 4180: quoted where needed, CRLF line ends, a header row)."""
-    return csv_text(
-        CSV_HEADER,
-        (
-            (
-                r.kind,
-                r.value,
-                r.tolerance,
-                r.location or "",
-                r.count,
-                r.positions,
-                " ".join(r.measured),
-            )
-            for r in bom_rows(design)
-        ),
-    )
+    return rows_csv(CSV_HEADER, bom_rows(design))
 
 
 # --------------------------------------------------------------------------- per reference
@@ -248,20 +244,4 @@ def reference_rows(design: SavedDesign) -> list[ReferenceRow]:
 
 def reference_csv(design: SavedDesign) -> str:
     """The per-reference BOM as CSV (RFC 4180, CRLF, a header row)."""
-    return csv_text(
-        CSV_PER_REFERENCE_HEADER,
-        (
-            (
-                r.reference,
-                r.kind,
-                r.value,
-                r.tolerance,
-                r.location or "",
-                r.stage,
-                r.position,
-                r.measured,
-                r.note,
-            )
-            for r in reference_rows(design)
-        ),
-    )
+    return rows_csv(CSV_PER_REFERENCE_HEADER, reference_rows(design))
