@@ -118,11 +118,11 @@ def stage_lines(i: int, s) -> list[str]:
 
 def response_lines(r, *, width: int = PLOT_WIDTH, height: int = PLOT_HEIGHT) -> list[str]:
     """Magnitude and phase against log frequency, as character plots."""
-    from picker.ui.plotting import decades, hz_label, labelled_plot, nice_range
+    from picker.ui.plotting import decade_ticks, labelled_plot, nice_range
 
     xs = [math.log10(f) for f in r.freqs_hz]
     x_range = (xs[0], xs[-1])
-    ticks = [(math.log10(d), hz_label(d)) for d in decades(r.freqs_hz[0], r.freqs_hz[-1])]
+    ticks = decade_ticks(r.freqs_hz[0], r.freqs_hz[-1])
     mag = [float(m) for m in r.magnitude_db]
     top = max(mag)
     lo = max(min(mag), top - 80.0)

@@ -16,7 +16,7 @@ from rich.table import Table
 from rich.text import Text
 
 from picker.report.owner import owner_text, visible
-from picker.report.views import block_rows
+from picker.report.views import block_rows, count_eighths
 from stock.values import format_si
 
 HIST_ROWS = 4
@@ -132,8 +132,7 @@ class BudgetPanel:
             return None
         n = len(h.counts)
         cell = max(1, min(2, (width - 2) // n))
-        top = max(h.counts)
-        eighths = [round(c / top * HIST_ROWS * 8) for c in h.counts]
+        eighths = count_eighths(h.counts, rows=HIST_ROWS)
         rows = [Text(line) for line in block_rows(eighths, rows=HIST_ROWS, repeat=cell)]
         axis = [" "] * (n * cell)
         lo, hi = h.edges[0], h.edges[-1]

@@ -50,6 +50,13 @@ def block_rows(eighths: Sequence[int], *, rows: int, repeat: int = 1) -> list[st
     ]
 
 
+def count_eighths(counts: Sequence[int], *, rows: int) -> list[int]:
+    """Histogram bins as bar heights in eighths of a row: the tallest bin fills ``rows``
+    rows, and a bin with any count is never drawn empty."""
+    top = max(counts, default=0) or 1
+    return [max(round(c / top * rows * 8), 1) if c else 0 for c in counts]
+
+
 def _pct(x: float | None) -> str:
     return "-" if x is None else f"{x:.3g} %"
 

@@ -1,4 +1,4 @@
-"""Character plots for the terminal UI: braille curves and block histograms.
+"""Character plots for the terminal UI: braille curves, their axes, a response's marks.
 
 Plain Python over sequences of floats, no textual and no rich, so the drawing can be
 tested on its own and redrawn on every resize without side effects. A plot is a list
@@ -6,7 +6,8 @@ of equal-width strings; the widgets in ``picker.ui.widgets`` wrap them in Rich t
 
 Braille cells hold 2 x 4 dots (Unicode block "Braille Patterns", U+2800..U+28FF; the
 dot numbering is the one of the Unicode standard, chapter 21.1). Frequency runs on a
-linear axis of log10(f) with the decades labelled by hand.
+linear axis of log10(f) with the decades labelled by hand. Block bars (histograms)
+are ``picker.report.views.block_rows``.
 """
 
 from __future__ import annotations
@@ -14,20 +15,12 @@ from __future__ import annotations
 import math
 from collections.abc import Sequence
 
+from stock.values import format_si
+
 BRAILLE_BASE = 0x2800
 # bit of each dot, indexed [row][column] inside one 2x4 cell (Unicode dots 1-8)
 _DOT = ((0x01, 0x08), (0x02, 0x10), (0x04, 0x20), (0x40, 0x80))
-BLOCKS = " ▁▂▃▄▅▆▇█"
-
-
-def hz_label(f_hz: float) -> str:
-    """Short label of a decade: 1, 10, 100, 1k, 10k, 100k, 1M ..."""
-    for scale, prefix in ((1e9, "G"), (1e6, "M"), (1e3, "k"), (1.0, ""), (1e-3, "m")):
-        if f_hz >= scale * 0.999:
-            v = f_hz / scale
-            text = f"{v:.0f}" if v >= 1 else f"{v:g}"
-            return text + prefix
-    return f"{f_hz:g}"
+CLIP_MARK = "▼"  # on the x axis under columns where the curve is below the plot
 
 
 def decades(f_lo_hz: float, f_hi_hz: float) -> list[float]:
@@ -35,6 +28,11 @@ def decades(f_lo_hz: float, f_hi_hz: float) -> list[float]:
     lo = math.ceil(math.log10(f_lo_hz) - 1e-9)
     hi = math.floor(math.log10(f_hi_hz) + 1e-9)
     return [10.0**k for k in range(lo, hi + 1)]
+
+
+def decade_ticks(f_lo_hz: float, f_hi_hz: float) -> list[tuple[float, str]]:
+    """(log10 f, label) of each decade inside the span: "100 Hz", "1 kHz" ..."""
+    return [(math.log10(d), format_si(d, "Hz")) for d in decades(f_lo_hz, f_hi_hz)]
 
 
 def nice_range(lo: float, hi: float, step: float) -> tuple[float, float]:
@@ -66,8 +64,6 @@ def braille_curve(
     grid = [[0] * width for _ in range(height)]
     x0, x1 = x_range
     y0, y1 = y_range
-    sx = (cols - 1) / (x1 - x0) if x1 != x0 else 0.0
-    sy = (rows - 1) / (y1 - y0) if y1 != y0 else 0.0
 
     def dot(c: int, r: int) -> None:
         if 0 <= c < cols and 0 <= r < rows:
@@ -79,8 +75,8 @@ def braille_curve(
             prev = None
             continue
         y = min(max(y, y0), y1)
-        c = round((x - x0) * sx)
-        r = rows - 1 - round((y - y0) * sy)
+        c = _dot_column(x, x_range, cols)
+        r = _dot_row(y, y_range, rows)
         if prev is not None and abs(r - prev[1]) > 1:
             # join steep steps with a vertical run, half in each column
             pc, pr = prev
@@ -94,6 +90,37 @@ def braille_curve(
     return ["".join(chr(BRAILLE_BASE + b) for b in row) for row in grid]
 
 
+def _dot_column(x: float, x_range: tuple[float, float], cols: int) -> int:
+    x0, x1 = x_range
+    return round((x - x0) * (cols - 1) / (x1 - x0)) if x1 != x0 else 0
+
+
+def _dot_row(y: float, y_range: tuple[float, float], rows: int) -> int:
+    y0, y1 = y_range
+    return rows - 1 - round((y - y0) * (rows - 1) / (y1 - y0)) if y1 != y0 else rows - 1
+
+
+def axis_labels(
+    y_range: tuple[float, float], y_step: float, height: int, unit: str
+) -> dict[int, str]:
+    """The label of each character row: every multiple of ``y_step`` inside the range,
+    on the row where ``braille_curve`` puts the dots of that value (so a flat curve at
+    a labelled value runs through its label's row). Two values on one row: the one
+    nearer the row's middle keeps it."""
+    y0, y1 = y_range
+    rows = 4 * height
+    best: dict[int, tuple[float, str]] = {}
+    k = math.ceil(y0 / y_step - 1e-9)
+    while k * y_step <= y1 + 1e-9 * abs(y_step):
+        value = k * y_step
+        r = _dot_row(value, y_range, rows)
+        off = abs(r % 4 - 1.5)
+        if r // 4 not in best or off < best[r // 4][0]:
+            best[r // 4] = (off, f"{value + 0.0:g}{unit}")
+        k += 1
+    return {row: label for row, (_off, label) in best.items()}
+
+
 def labelled_plot(
     xs: Sequence[float],
     ys: Sequence[float],
@@ -105,22 +132,19 @@ def labelled_plot(
     y_step: float,
     y_unit: str,
     x_ticks: Sequence[tuple[float, str]],
+    marks: Sequence[tuple[float, str]] = (),
 ) -> list[str]:
     """A braille curve with a y gutter (value labels) and an x axis line of tick labels.
 
     ``width`` is the whole width in characters; 7 go to the gutter. ``x_ticks`` are
-    (x, label) pairs placed under the axis.
+    (x, label) pairs placed under the axis. The axis line itself carries ``marks``
+    ((x, one character) pairs, a later one wins a shared column) and ``CLIP_MARK``
+    under every column where the curve lies below ``y_range`` (drawn at its edge).
     """
     gutter = 7
     inner = max(width - gutter, 4)
     body = braille_curve(xs, ys, width=inner, height=height, x_range=x_range, y_range=y_range)
-    y0, y1 = y_range
-    labels: dict[int, str] = {}
-    n_steps = int(round((y1 - y0) / y_step))
-    for k in range(n_steps + 1):
-        value = y0 + k * y_step
-        row = height - 1 - round((value - y0) / (y1 - y0) * (height - 1)) if height > 1 else 0
-        labels.setdefault(row, f"{value:g}{y_unit}")
+    labels = axis_labels(y_range, y_step, height, y_unit)
     lines = [f"{labels.get(i, ''):>{gutter - 1}}│{row}" for i, row in enumerate(body)]
     axis = [" "] * inner
     x0, x1 = x_range
@@ -130,23 +154,61 @@ def labelled_plot(
         if start < 0 or any(ch != " " for ch in axis[max(start - 1, 0) : start + len(label) + 1]):
             continue  # no room: skip rather than overprint
         axis[start : start + len(label)] = list(label)
-    lines.append(" " * (gutter - 1) + "└" + "─" * inner)
+    line = ["─"] * inner
+    last = None  # the column of the previous point, when it was below the plot too
+    for x, y in zip(xs, ys, strict=False):
+        if not (x0 <= x <= x1 and math.isfinite(y) and y < y_range[0]):
+            last = None
+            continue
+        col = _dot_column(x, x_range, 2 * inner) // 2
+        for c in range(col if last is None else min(last, col), max(col, last or col) + 1):
+            line[c] = CLIP_MARK
+        last = col
+    for x, ch in marks:
+        if x0 <= x <= x1:
+            line[_dot_column(x, x_range, 2 * inner) // 2] = ch
+    lines.append(" " * (gutter - 1) + "└" + "".join(line))
     lines.append(" " * gutter + "".join(axis))
     return lines
 
 
-def count_bars(counts: Sequence[int], *, height: int, repeat: int = 1) -> list[str]:
-    """Vertical block bars of ``counts``, each bin ``repeat`` characters wide.
+# --------------------------------------------------------------------------- response
 
-    The tallest bin fills ``height`` rows; eighths of a row use the block elements
-    U+2581..U+2588; a bin with any count never looks empty.
-    """
-    if height < 1 or not counts:
-        return []
-    top = max(counts) or 1
-    eighths = [round(c / top * height * 8) for c in counts]
-    eighths = [max(e, 1) if c else e for e, c in zip(eighths, counts, strict=False)]
-    lines = []
-    for row in range(height - 1, -1, -1):
-        lines.append("".join(BLOCKS[min(max(e - row * 8, 0), 8)] * repeat for e in eighths))
-    return lines
+
+def passband_index(mag_db: Sequence[float]) -> int:
+    """Where the passband of a sampled response is: the first sample of a low-pass (the
+    low end is 20 dB above the high end), the last of a high-pass, else the peak."""
+    finite = [m if math.isfinite(m) else -math.inf for m in mag_db]
+    if finite[0] >= finite[-1] + 20.0:
+        return 0
+    if finite[-1] >= finite[0] + 20.0:
+        return len(finite) - 1
+    return max(range(len(finite)), key=finite.__getitem__)
+
+
+def passband_phase(mag_db: Sequence[float], phase_deg: Sequence[float]) -> list[float]:
+    """An unwrapped phase moved by whole turns so that it reads between -180 and 180
+    degrees in the passband: a high-pass reads 0 there (not -720), a low-pass starts at
+    0 and an 8th-order one settles at -720."""
+    i = passband_index(mag_db)
+    turns = round(phase_deg[i] / 360.0) if math.isfinite(phase_deg[i]) else 0
+    return [p - 360.0 * turns for p in phase_deg]
+
+
+def crossings(freqs: Sequence[float], mag_db: Sequence[float], drop_db: float = 3.0) -> list[float]:
+    """The frequencies, nearest the passband on each side, where the magnitude first
+    falls ``drop_db`` below its passband level; interpolated on log f."""
+    i = passband_index(mag_db)
+    level = mag_db[i] - drop_db
+    found = []
+    for step in (-1, 1):
+        j = i
+        while 0 <= j + step < len(mag_db) and mag_db[j + step] >= level:
+            j += step
+        k = j + step
+        if 0 <= k < len(mag_db) and math.isfinite(mag_db[k]):
+            a, b = mag_db[j], mag_db[k]
+            t = (a - level) / (a - b) if a != b else 0.0
+            lf = math.log10(freqs[j]) + t * (math.log10(freqs[k]) - math.log10(freqs[j]))
+            found.append(10.0**lf)
+    return sorted(found)

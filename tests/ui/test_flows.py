@@ -210,7 +210,7 @@ async def test_pick_a_candidate_then_build_and_undo(stock_copy):
         _w, h = signal.freqs([gain * w0**2], [1, w0 / q, w0**2], worN=2 * np.pi * f[keep])
         assert np.allclose(np.array(plot.mag_db)[keep], 20 * np.log10(abs(h)), atol=0.1)
         drawn = str(plot.render())
-        assert "magnitude, dB" in drawn and "1k" in drawn and "phase" in drawn
+        assert "magnitude, dB" in drawn and "1 kHz" in drawn and "phase" in drawn
         hist = pane.query_one(F0Histogram)
         assert hist.hist is not None and sum(hist.hist["counts"]) > 0
         assert "inside the window" in str(hist.render())

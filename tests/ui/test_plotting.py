@@ -6,13 +6,17 @@ import math
 
 import pytest
 
+from picker.report.views import block_rows, count_eighths
 from picker.ui.plotting import (
+    CLIP_MARK,
+    axis_labels,
     braille_curve,
-    count_bars,
+    crossings,
+    decade_ticks,
     decades,
-    hz_label,
     labelled_plot,
     nice_range,
+    passband_phase,
 )
 
 
@@ -56,7 +60,9 @@ def test_nan_breaks_the_line_and_values_clip():
 
 def test_decades_and_labels():
     assert decades(3.0, 2e5) == [10.0, 100.0, 1e3, 1e4, 1e5]
-    assert [hz_label(f) for f in (1.0, 10.0, 1e3, 1e5, 1e6)] == ["1", "10", "1k", "100k", "1M"]
+    labels = [label for _x, label in decade_ticks(1.0, 1e6)]
+    assert labels == ["1 Hz", "10 Hz", "100 Hz", "1 kHz", "10 kHz", "100 kHz", "1 MHz"]
+    assert [x for x, _label in decade_ticks(3.0, 2e3)] == [1.0, 2.0, 3.0]
     assert nice_range(-67.0, 3.0, 20.0) == (-80.0, 20.0)
 
 
@@ -80,10 +86,98 @@ def test_labelled_plot_puts_decade_labels_under_their_columns():
     assert lines[0].lstrip().startswith("0│") and lines[3].lstrip().startswith("-40│")
 
 
-def test_count_bars_scale_to_the_tallest_bin():
+def test_histogram_bars_scale_to_the_tallest_bin():
     # U+2584 LOWER HALF BLOCK is half a cell, U+2588 FULL BLOCK a whole one
-    assert count_bars([0, 4, 8], height=1) == [" \u2584\u2588"]
-    assert count_bars([1, 100], height=2, repeat=2) == [
+    assert block_rows(count_eighths([0, 4, 8], rows=1), rows=1) == [" \u2584\u2588"]
+    # a bin of 1 beside one of 100 still shows (one eighth, U+2581)
+    assert block_rows(count_eighths([1, 100], rows=2), rows=2, repeat=2) == [
         "  \u2588\u2588",
         "\u2581\u2581\u2588\u2588",
     ]
+
+
+@pytest.mark.parametrize(
+    "y_range, step, height",
+    [((-720.0, 0.0), 180.0, 5), ((-180.0, 0.0), 45.0, 5), ((-80.0, 20.0), 20.0, 8),
+     ((0.0, 720.0), 180.0, 5), ((-1080.0, 0.0), 360.0, 5), ((-100.0, 0.0), 20.0, 3)],
+)  # fmt: skip
+def test_a_flat_curve_at_a_labelled_value_runs_through_its_labels_row(y_range, step, height):
+    """Each label sits on the row where the curve's dots of that value are drawn."""
+    labels = axis_labels(y_range, step, height, "")
+    assert labels  # at least the ends
+    for row, label in labels.items():
+        value = float(label)
+        assert value % step == 0 and y_range[0] <= value <= y_range[1]
+        body = braille_curve([0.0, 1.0], [value, value], width=4, height=height,
+                             x_range=(0.0, 1.0), y_range=y_range)  # fmt: skip
+        (drawn,) = [i for i, line in enumerate(body) if line.strip("\u2800")]
+        assert drawn == row, (label, drawn, row)
+
+
+def test_the_axis_marks_clipped_columns_and_the_given_marks():
+    xs = [0.0, 1.0, 2.0, 3.0]
+    lines = labelled_plot(
+        xs, [0.0, -10.0, -100.0, -100.0], width=7 + 8, height=2, x_range=(0.0, 3.0),
+        y_range=(-40.0, 0.0), y_step=20.0, y_unit="", x_ticks=(), marks=[(1.0, "F")],
+    )  # fmt: skip
+    axis = lines[-2][7:]
+    assert axis.count("F") == 1 and axis.index("F") < axis.index(CLIP_MARK)
+    assert axis.endswith(CLIP_MARK * 3)  # the last two points, 1.5 columns each
+    assert lines[-2][:7] == "      \u2514"
+
+
+def _cascade(response_type: str, order: int, fc_hz: float):
+    """The planned sections of a Butterworth filter as s-domain polynomials."""
+    from picker.filters import plan_stages
+
+    sections = []
+    for _topology, t in plan_stages(response_type, response="butterworth", order=order,
+                                    fc_hz=fc_hz, gain=1.0):  # fmt: skip
+        w0 = 2 * math.pi * t.f0_hz
+        if t.q is None:
+            b, a = ([w0], [1, w0]) if response_type == "lowpass" else ([1, 0], [1, w0])
+        else:
+            b = [w0**2] if response_type == "lowpass" else [1, 0, 0]
+            a = [1, w0 / t.q, w0**2]
+        sections.append((b, a))
+    return sections
+
+
+@pytest.mark.parametrize("response_type, order", [("lowpass", 8), ("highpass", 8), ("highpass", 3)])
+def test_the_plotted_phase_is_the_continuous_phase_of_scipy_signal_freqs(response_type, order):
+    """Phase of the whole cascade from one np.unwrap, moved by whole turns, against the
+    sum of each section's own phase from scipy.signal.freqs (a section's phase stays
+    inside (-180, 180] degrees, so the sum is the continuous phase with no unwrap).
+    An nth-order low-pass settles at -90 n degrees, a high-pass passband reads 0
+    (handbook: each pole adds -90 degrees above its corner)."""
+    import numpy as np
+    from scipy import signal
+
+    f = np.logspace(1, 5, 400)
+    total = np.ones_like(f, dtype=complex)
+    reference = np.zeros_like(f)
+    for b, a in _cascade(response_type, order, 1000.0):
+        _w, h = signal.freqs(b, a, worN=2 * np.pi * f)
+        total *= h
+        reference += np.degrees(np.angle(h))
+    mag = 20 * np.log10(abs(total))
+    drawn = passband_phase(list(mag), list(np.degrees(np.unwrap(np.angle(total)))))
+    assert np.allclose(drawn, reference, atol=1e-6)
+    if response_type == "lowpass":
+        assert abs(drawn[0]) < 5 and abs(drawn[-1] + 90 * order) < 5
+    else:
+        assert abs(drawn[-1]) < 5 and abs(drawn[0] - 90 * order) < 5
+
+
+@pytest.mark.parametrize("response_type", ["lowpass", "highpass"])
+def test_the_minus_3_db_point_of_a_butterworth_is_its_corner(response_type):
+    """A Butterworth filter is 3.01 dB down at its corner frequency (handbook)."""
+    import numpy as np
+    from scipy import signal
+
+    f = np.logspace(1, 5, 400)
+    total = np.ones_like(f, dtype=complex)
+    for b, a in _cascade(response_type, 4, 1000.0):
+        total *= signal.freqs(b, a, worN=2 * np.pi * f)[1]
+    (f3,) = crossings(list(f), list(20 * np.log10(abs(total))), 3.0103)
+    assert f3 == pytest.approx(1000.0, rel=2e-3)

@@ -84,13 +84,13 @@ def step_plot(step, width: int) -> list[str]:
 
 def delay_plot(delay, width: int) -> list[str]:
     """The group delay against log frequency."""
-    from picker.ui.plotting import decades, hz_label, labelled_plot, nice_range
+    from picker.ui.plotting import decade_ticks, labelled_plot, nice_range
 
     f, tau = list(delay.f_hz), list(delay.delay_s)
     scale, unit = time_unit(max(tau))
     ys = [d / scale for d in tau]
     xs = [math.log10(x) for x in f]
-    ticks = [(math.log10(d), hz_label(d)) for d in decades(f[0], f[-1])]
+    ticks = decade_ticks(f[0], f[-1])
     top = max(ys)
     y_step = nice_step(top)
     lines = [f"group delay, {unit}, against frequency, Hz"]

@@ -134,7 +134,9 @@ class ChosenPane(VerticalScroll):
             return
         plot = self.query_one(ResponsePlot)
         if "plot" in out:
-            plot.set_curve(*out["plot"])
+            fc = self.targets.fc_hz if self.targets is not None else None
+            freqs, mag_db, phase_deg = out["plot"]
+            plot.set_curve(freqs, mag_db, phase_deg, fc_hz=fc)
         else:
             plot.set_note(out.get("plot_note", ""))
         budget_static = self.query_one("#c-budget", Static)

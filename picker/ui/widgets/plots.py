@@ -11,11 +11,28 @@ import math
 from rich.text import Text
 from textual.widget import Widget
 
-from picker.ui.plotting import count_bars, decades, hz_label, labelled_plot, nice_range
+from picker.report.views import block_rows, count_eighths
+from picker.ui.plotting import (
+    CLIP_MARK,
+    crossings,
+    decade_ticks,
+    labelled_plot,
+    nice_range,
+    passband_phase,
+)
+from stock.values import format_si
+
+PHASE_STEPS = (45.0, 90.0, 180.0, 360.0)
+FC_MARK, DROP_MARK = "F", "3"
 
 
 class ResponsePlot(Widget):
-    """|H| in dB and phase in degrees over frequency; ``set_curve`` gives the data."""
+    """|H| in dB and phase in degrees over frequency; ``set_curve`` gives the data.
+
+    The phase is moved by whole turns to read between -180 and 180 degrees in the
+    passband. The magnitude's axis line marks the corner frequency (``F``, when given),
+    the -3 dB point(s) (``3``) and, with ``▼``, where the curve is below the plot.
+    """
 
     DEFAULT_CSS = """
     ResponsePlot { height: 19; width: 1fr; }
@@ -26,10 +43,13 @@ class ResponsePlot(Widget):
         self.freqs: list[float] = []
         self.mag_db: list[float] = []
         self.phase_deg: list[float] = []
+        self.fc_hz: float | None = None
         self.note = "no candidate chosen"
 
-    def set_curve(self, freqs, mag_db, phase_deg) -> None:
-        self.freqs, self.mag_db, self.phase_deg = list(freqs), list(mag_db), list(phase_deg)
+    def set_curve(self, freqs, mag_db, phase_deg, fc_hz: float | None = None) -> None:
+        self.freqs, self.mag_db = list(freqs), list(mag_db)
+        self.phase_deg = passband_phase(self.mag_db, list(phase_deg))
+        self.fc_hz = fc_hz
         self.note = ""
         self.refresh()
 
@@ -43,38 +63,39 @@ class ResponsePlot(Widget):
         width = max(self.size.width, 20)
         xs = [math.log10(f) for f in self.freqs]
         x_range = (xs[0], xs[-1])
-        ticks = [(math.log10(d), hz_label(d)) for d in decades(self.freqs[0], self.freqs[-1])]
+        ticks = decade_ticks(self.freqs[0], self.freqs[-1])
         finite = [m for m in self.mag_db if math.isfinite(m)]
         top = max(finite) if finite else 0.0
         m_lo, m_hi = nice_range(max(min(finite, default=-60.0), top - 80.0), top + 1.0, 20.0)
-        finite_p = [p for p in self.phase_deg if math.isfinite(p)]
-        p_lo, p_hi = nice_range(min(finite_p, default=-90.0), max(finite_p, default=90.0), 90.0)
-        p_step = 90.0 if p_hi - p_lo <= 360 else 180.0
+        legend, marks = [], []
+        drops = crossings(self.freqs, self.mag_db)
+        marks += [(math.log10(f), DROP_MARK) for f in drops]
+        if drops:
+            legend.append(f"{DROP_MARK} -3 dB " + ", ".join(format_si(f, "Hz") for f in drops))
+        if self.fc_hz:
+            marks.append((math.log10(self.fc_hz), FC_MARK))  # wins a shared column
+            legend.insert(0, f"{FC_MARK} fc {format_si(self.fc_hz, 'Hz')}")
+        if min(finite, default=m_lo) < m_lo:
+            legend.append(f"{CLIP_MARK} below {m_lo:g} dB")
         mag = labelled_plot(
-            xs,
-            self.mag_db,
-            width=width,
-            height=8,
-            x_range=x_range,
-            y_range=(m_lo, m_hi),
-            y_step=20.0,
-            y_unit="",
-            x_ticks=ticks,
-        )
+            xs, self.mag_db, width=width, height=8, x_range=x_range, y_range=(m_lo, m_hi),
+            y_step=20.0, y_unit="", x_ticks=ticks, marks=marks,
+        )  # fmt: skip
+        finite_p = [p for p in self.phase_deg if math.isfinite(p)]
+        p_min, p_max = min(finite_p, default=-90.0), max(finite_p, default=90.0)
+        height = 5
+        for p_step in PHASE_STEPS:  # the finest step whose labels get a row each
+            p_lo, p_hi = nice_range(p_min, p_max, p_step)
+            if (p_hi - p_lo) / p_step <= height - 1:
+                break
         phase = labelled_plot(
-            xs,
-            self.phase_deg,
-            width=width,
-            height=5,
-            x_range=x_range,
-            y_range=(p_lo, p_hi),
-            y_step=p_step,
-            y_unit="°",
-            x_ticks=ticks,
-        )
+            xs, self.phase_deg, width=width, height=height, x_range=x_range,
+            y_range=(p_lo, p_hi), y_step=p_step, y_unit="°", x_ticks=ticks,
+        )  # fmt: skip
         text = Text()
-        text.append("magnitude, dB, against frequency, Hz\n", style="bold")
-        text.append("\n".join(mag) + "\n")
+        text.append("magnitude, dB", style="bold")
+        text.append(("   " + "   ".join(legend)) if legend else ", against frequency")
+        text.append("\n" + "\n".join(mag) + "\n")
         text.append("phase, degrees\n", style="bold")
         text.append("\n".join(phase))
         return text
@@ -113,7 +134,7 @@ class F0Histogram(Widget):
         counts, edges = list(h["counts"]), list(h["edges"])
         repeat = max((self.size.width - 1) // len(counts), 1)
         width = repeat * len(counts)
-        bars = count_bars(counts, height=6, repeat=repeat)
+        bars = block_rows(count_eighths(counts, rows=6), rows=6, repeat=repeat)
         lo, hi = edges[0], edges[-1]
 
         def col(f_hz: float) -> int | None:
@@ -133,7 +154,7 @@ class F0Histogram(Widget):
             if c is not None:
                 axis[c] = ch
         labels = [" "] * width
-        left, right = hz_text(lo), hz_text(hi)
+        left, right = format_si(lo, "Hz", digits=4), format_si(hi, "Hz", digits=4)
         labels[: len(left)] = left
         labels[width - len(right) :] = right
         text = Text()
@@ -141,16 +162,9 @@ class F0Histogram(Widget):
         text.append(f", {h['yield'] * 100:.1f}% inside the window ±{window * 100:g}%\n")
         text.append("\n".join(bars) + "\n" + "".join(axis) + "\n" + "".join(labels) + "\n")
         text.append(
-            f"^ target {hz_text(target)}   o nominal parts {hz_text(h['nominal'])}   [ ] window"
+            f"^ target {format_si(target, 'Hz', digits=4)}   "
+            f"o nominal parts {format_si(h['nominal'], 'Hz', digits=4)}   [ ] window"
         )
         if h.get("outside"):
             text.append(f"\n{h['outside']} trial(s) had no such frequency and are not shown")
         return text
-
-
-def hz_text(f_hz: float) -> str:
-    """Frequency with 4 significant digits and an SI prefix, for axis ends."""
-    for scale, prefix in ((1e9, "G"), (1e6, "M"), (1e3, "k"), (1.0, "")):
-        if abs(f_hz) >= scale:
-            return f"{f_hz / scale:.4g} {prefix}Hz"
-    return f"{f_hz:.4g} Hz"

@@ -86,7 +86,7 @@ def test_analyze_spelling_and_json(capsys):
 def test_report_carries_the_cautions_and_a_plot(capsys):
     code, out, _ = run(capsys, "analyse", *SK)
     assert code == 0
-    assert "magnitude, dB" in out and "phase, degrees" in out and "1k" in out
+    assert "magnitude, dB" in out and "phase, degrees" in out and "1 kHz" in out
     for words in ("Unplug", "Discharge", "meter", "voltage rating", "polarized", "Local codes"):
         assert words in out
     assert "tolerance assumed for R1, R2, C1, C2" in out
