@@ -42,8 +42,11 @@ def pick_count(groups) -> int:
     return sum(g.count for g in groups)
 
 
-def pick_list_lines(groups) -> list[str]:
-    """Plain-text pick list, one drawer header and one line per stock line."""
+def pick_list_lines(groups, note=None) -> list[str]:
+    """Plain-text pick list, one drawer header and one line per stock line.
+
+    ``note(row)``, when given, may return a line of words to put under the row's line.
+    """
     lines = []
     for g in groups:
         lines.append(f"{g.label}:")
@@ -51,6 +54,9 @@ def pick_list_lines(groups) -> list[str]:
             what = r.value if r.kind == "opamp" else f"{r.kind} {r.value} {r.tolerance}".strip()
             extra = f"  measured {', '.join(r.measured)}" if r.measured else ""
             lines.append(f"  take {r.count} x {what}  for {r.positions}{extra}")
+            words = note(r) if note is not None else None
+            if words:
+                lines.append(f"    {words}")
     return lines
 
 

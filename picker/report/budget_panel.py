@@ -44,6 +44,22 @@ def _num(x: float | None, unit: str = "") -> str:
     return format_si(x, unit) if unit else f"{x:.4g}"
 
 
+def yield_line(budget) -> Text:
+    """The budget's headline: the Monte Carlo yield inside the window, in one sentence."""
+    mc = budget.monte_carlo
+    w = dict(mc.window)
+    text = Text()
+    text.append("Yield ", style="bold")
+    text.append(f"{mc.yield_ * 100:.1f} %", style="bold")
+    text.append(
+        f" (standard error {mc.std_error * 100:.1f} %) of {mc.trials:,} trials, "
+        f"{mc.distribution}; "
+        f"inside f0 +/-{w['f0'] * 100:g} %, Q +/-{w['q'] * 100:g} %, "
+        f"gain +/-{w['gain'] * 100:g} % of the targets"
+    )
+    return text
+
+
 class BudgetPanel:
     """One panel: Monte Carlo yield, a table per stage, the f0 histogram, the warnings.
 
@@ -59,20 +75,6 @@ class BudgetPanel:
         self.compact = compact
 
     # pieces ---------------------------------------------------------------------
-    def _yield_line(self) -> Text:
-        mc = self.budget.monte_carlo
-        w = dict(mc.window)
-        text = Text()
-        text.append("Yield ", style="bold")
-        text.append(f"{mc.yield_ * 100:.1f} %", style="bold")
-        text.append(
-            f" (standard error {mc.std_error * 100:.1f} %) of {mc.trials:,} trials, "
-            f"{mc.distribution}; "
-            f"inside f0 +/-{w['f0'] * 100:g} %, Q +/-{w['q'] * 100:g} %, "
-            f"gain +/-{w['gain'] * 100:g} % of the targets"
-        )
-        return text
-
     def _stage_table(self, s) -> Table:
         title = f"Stage {s.index + 1}: {s.topology}, order {s.order}"
         table = Table(
@@ -161,7 +163,7 @@ class BudgetPanel:
     # rich protocol -----------------------------------------------------------------
     def __rich_console__(self, console: Console, options: ConsoleOptions) -> RenderResult:
         width = min(options.max_width, 80)
-        parts: list[RenderableType] = [self._yield_line()]
+        parts: list[RenderableType] = [yield_line(self.budget)]
         for s in self.budget.stages:
             parts += [Text(""), self._stage_table(s), self._notes(s)]
         if not self.compact:

@@ -15,14 +15,49 @@ from picker.report.schematic import arrangement_text, schematic
 from stock.values import format_si
 
 
-def pct(score: float) -> str:
-    """A relative error as percent with sensible digits: 0.0123 % , 1.2 %."""
+def pct(score: float, digits: int = 2) -> str:
+    """A relative error as percent with sensible digits: 0.0123 % , 1.2 %; ``digits``
+    significant digits below 1 % (3 tells the rows of a list apart: 0.133 %, 0.135 %)."""
     p = 100.0 * score
     if p == 0:
         return "0 %"
     if p >= 1:
         return f"{p:.2f} %"
-    return f"{p:.2g} %" if p >= 1e-4 else f"{p:.1e} %"
+    return f"{p:.{digits}g} %" if p >= 1e-4 else f"{p:.1e} %"
+
+
+def tradeoff_table(tradeoff, *, rank1_pieces: int | None = None) -> Table | None:
+    """Parts against precision, one row per piece count: its best worst error and a bar
+    whose length grows with the log of that error (CLI report and TUI matches pane).
+    None when there is no trade-off to show."""
+    import math
+
+    from rich import box
+
+    rows = [(int(p), float(s)) for p, s in tradeoff or ()]
+    if not rows:
+        return None
+    table = Table(
+        title="parts vs precision: best for each piece count",
+        title_justify="left",
+        box=box.SIMPLE_HEAD,
+        pad_edge=False,
+    )
+    table.add_column("pieces", justify="right")
+    table.add_column("worst error", justify="right")
+    table.add_column("(longer bar: less precise)", no_wrap=True)
+    table.add_column("", no_wrap=True)
+    scores = [s for _, s in rows if s > 0 and math.isfinite(s)]
+    hi = math.log10(max(scores)) if scores else 0.0
+    lo = math.log10(min(scores)) if scores else 0.0
+    for pieces, score in rows:
+        if score > 0 and math.isfinite(score) and hi > lo:
+            n = 1 + round(29 * (math.log10(score) - lo) / (hi - lo))
+        else:
+            n = 30
+        mark = "< rank 1" if pieces == rank1_pieces else ""
+        table.add_row(str(pieces), pct(score), "#" * n, mark)
+    return table
 
 
 class DesignReport:
@@ -71,36 +106,6 @@ class DesignReport:
             table.add_row(str(rank), pct(cand.score), str(cand.pieces), Text("\n".join(parts)))
         return table
 
-    def _tradeoff(self) -> Table | None:
-        if not self.result.tradeoff:
-            return None
-        import math
-
-        from rich import box
-
-        table = Table(
-            title="parts vs precision: best for each piece count",
-            title_justify="left",
-            box=box.SIMPLE_HEAD,
-            pad_edge=False,
-        )
-        table.add_column("pieces", justify="right")
-        table.add_column("worst error", justify="right")
-        table.add_column("(longer bar: less precise)", no_wrap=True)
-        table.add_column("", no_wrap=True)
-        first = self.result.candidates[0].pieces if self.result.candidates else None
-        scores = [s for _, s in self.result.tradeoff if s > 0 and math.isfinite(s)]
-        hi = math.log10(max(scores)) if scores else 0.0
-        lo = math.log10(min(scores)) if scores else 0.0
-        for pieces, score in self.result.tradeoff:
-            if score > 0 and math.isfinite(score) and hi > lo:
-                n = 1 + round(29 * (math.log10(score) - lo) / (hi - lo))
-            else:
-                n = 30
-            mark = "< rank 1" if pieces == first else ""
-            table.add_row(str(pieces), pct(score), "#" * n, mark)
-        return table
-
     def __rich_console__(self, console: Console, options: ConsoleOptions) -> RenderResult:
         parts: list[RenderableType] = []
         if self.title:
@@ -112,7 +117,8 @@ class DesignReport:
         best = self.result.candidates[0]
         parts.append(Text(ranking_line(self.result)))
         parts.append(self._candidates())
-        trade = self._tradeoff()
+        first = self.result.candidates[0].pieces
+        trade = tradeoff_table(self.result.tradeoff, rank1_pieces=first)
         if trade is not None:
             parts.append(trade)
         parts.append(Text("best candidate (rank 1):", style="bold"))

@@ -171,16 +171,12 @@ def plan_build(candidate, stock, targets: Targets | None):
     return building.plan_build(design, stock)
 
 
-def build_listing(plan) -> str:
-    """What the confirmation shows: the parts by drawer, cautions, the safety note."""
-    picklist = need("picker.export.picklist", "pick_list_lines")
-    building = need("picker.building", "SAFETY_NOTE")
-    lines = [f"{plan.count} item(s) to take, by drawer:"]
-    lines += picklist.pick_list_lines(plan.picks)
-    lines += [f"caution: {c}" for c in plan.cautions]
-    lines += [f"warning: {w}" for w in plan.warnings]
-    lines += ["", building.SAFETY_NOTE]
-    return "\n".join(lines)
+def build_listing(plan, stock=None) -> str:
+    """What the confirmation shows (``picker.ui.build_text.build_listing``): the parts by
+    drawer, the exact stock line where a drawer holds look-alikes, cautions, safety."""
+    from picker.ui.build_text import build_listing as listing
+
+    return listing(plan, stock)
 
 
 def do_build(plan, stock_path: Path) -> str:

@@ -1,8 +1,11 @@
 """The chosen pane: one candidate up close, and building it.
 
-Shows the text schematic (reference designators, values, drawers), the error budget,
-the magnitude/phase plot and the Monte Carlo histogram of f0. The budget and the
-response are computed in a worker thread. Build and undo ask first, then go through
+Shows, from the top: what the pick answers, the budget's headline (the yield), the
+text schematic (reference designators, values, drawers), then the warnings, the whole
+error budget, the magnitude/phase plot and the Monte Carlo histogram of f0. At 80x24
+the first three are on screen without scrolling; the rest is reached with space or
+page down, j/k or the arrows, and each new pick starts at the top. The budget and the
+response are computed in a child process. Build and undo ask first, then go through
 the building API (``picker.building``) and post ``ChosenPane.StockChanged``.
 """
 
@@ -17,19 +20,25 @@ from textual.message import Message
 from textual.widgets import Static
 from textual.worker import Worker, WorkerState, get_current_worker
 
+from picker.report.design import pct
 from picker.ui import backend
+from picker.ui.build_text import build_listing
 from picker.ui.offload import Cancelled, Lane
 from picker.ui.pick_targets import answers, differences
 from picker.ui.widgets.common import say
-from picker.ui.widgets.matches import pct
 from picker.ui.widgets.plots import F0Histogram, ResponsePlot
 from stock.errors import PickerError
+
+BUSY = "[busy] computing …"
 
 
 class ChosenPane(VerticalScroll):
     BINDINGS = [
         Binding("b", "build", "build"),
         Binding("u", "undo", "undo build"),
+        Binding("j", "scroll_down", "down", show=False),
+        Binding("k", "scroll_up", "up", show=False),
+        Binding("space", "page_down", "page down", show=False),
     ]
 
     class StockChanged(Message):
@@ -51,13 +60,24 @@ class ChosenPane(VerticalScroll):
             "no candidate chosen yet: pick one in pane 3 (matches)", id="c-title", markup=False
         )
         yield Static("", id="c-stale", markup=False)
+        yield Static("", id="c-status", markup=False)
+        yield Static("", id="c-headline")
         with Vertical(id="c-body"):
             yield Static("", id="c-schematic", markup=False)
             yield Static("", id="c-warnings", markup=False)
             yield Static("", id="c-budget", markup=False)
             yield ResponsePlot(id="c-plot")
             yield F0Histogram(id="c-hist")
-        yield Static("", id="c-status", markup=False)
+
+    def on_mount(self) -> None:
+        for name in ("#c-stale", "#c-status", "#c-headline", "#c-warnings"):
+            self.query_one(name).display = False
+
+    def _line(self, name: str, text) -> None:
+        """Show ``text`` in the static ``name``; an empty one takes no row."""
+        static = self.query_one(name, Static)
+        static.update(text)
+        static.display = bool(str(text))
 
     def on_unmount(self) -> None:
         self.lane.cancel()
@@ -67,26 +87,25 @@ class ChosenPane(VerticalScroll):
 
     # showing ---------------------------------------------------------------------
     def show(self, candidate, rank: int, targets=None) -> None:
+        from picker.report.schematic import schematic
+
         self.candidate, self.rank, self.targets = candidate, rank, targets
         self.current_targets = targets
         warn = f"; {len(candidate.warnings)} warning(s) below" if candidate.warnings else ""
         what = f" for {answers(targets)}" if targets is not None else ""
         self.query_one("#c-title", Static).update(
-            f"candidate {rank}{what}\nworst error {pct(candidate.score)}, "
+            f"candidate {rank}{what}\nworst error {pct(candidate.score, 3)}, "
             f"{candidate.pieces} pieces{warn}   (b: build it, u: undo the last build)"
         )
         self._show_stale()
-        try:
-            schematic = backend.schematic(candidate)
-        except backend.Unavailable as exc:
-            schematic = Text(f"schematic: not available yet ({exc})")
-        self.query_one("#c-schematic", Static).update(schematic)
-        self.query_one("#c-warnings", Static).update(
-            "\n".join(f"warning: {w}" for w in candidate.warnings)
-        )
-        self.query_one("#c-budget", Static).update("error budget: [busy] computing …")
-        self.query_one(ResponsePlot).set_note("[busy] computing …")
-        self.query_one(F0Histogram).set_note("[busy] computing …")
+        self._line("#c-status", "")
+        self._line("#c-headline", f"error budget: {BUSY}")
+        self.query_one("#c-schematic", Static).update(schematic(candidate))
+        self._line("#c-warnings", "\n".join(f"warning: {w}" for w in candidate.warnings))
+        self.query_one("#c-budget", Static).update(f"error budget: {BUSY}")
+        self.query_one(ResponsePlot).set_note(BUSY)
+        self.query_one(F0Histogram).set_note(BUSY)
+        self.scroll_home(animate=False)  # a new pick starts at the top
         self._detail(candidate)
 
     def set_current(self, targets) -> None:
@@ -109,7 +128,7 @@ class ChosenPane(VerticalScroll):
             if diff
             else ""
         )
-        self.query_one("#c-stale", Static).update(text)
+        self._line("#c-stale", text)
 
     @work(thread=True, exclusive=True, group="detail", exit_on_error=False)
     def _detail(self, candidate) -> None:
@@ -121,11 +140,6 @@ class ChosenPane(VerticalScroll):
             return
         except PickerError as exc:
             out = {"plot_note": f"error: {exc}", "budget_note": f"error: {exc}"}
-        if "budget" in out:
-            try:
-                out["panel"] = backend.budget_panel(out["budget"])
-            except backend.Unavailable as exc:
-                out["panel"] = Text(f"error budget panel: not available yet ({exc})")
         if not worker.is_cancelled:
             self.app.call_from_thread(self._detail_done, candidate, out)
 
@@ -141,25 +155,33 @@ class ChosenPane(VerticalScroll):
             plot.set_note(out.get("plot_note", ""))
         budget_static = self.query_one("#c-budget", Static)
         hist = self.query_one(F0Histogram)
-        if "panel" in out:
-            budget_static.update(out["panel"])
-        elif "budget_note" not in out:
-            budget_static.update(Text("error budget: none"))
-        else:
-            budget_static.update(Text(f"error budget: {out.get('budget_note', '')}"))
         if "budget" in out:
-            hist.set_histogram(backend.f0_histogram(out["budget"]))
+            from picker.report.budget_panel import BudgetPanel, yield_line
+
+            budget = out["budget"]
+            head = Text("error budget: ")
+            head.append_text(yield_line(budget))
+            warned = f"; {len(budget.warnings)} budget warning(s)" if budget.warnings else ""
+            head.append(f"{warned}; the whole budget below (space / page down)")
+            self._line("#c-headline", head)
+            budget_static.update(BudgetPanel(budget, compact=True))
+            hist.set_histogram(backend.f0_histogram(budget))
         else:
-            hist.set_note(out.get("budget_note", ""))
+            note = out.get("budget_note", "none")
+            self._line("#c-headline", Text(f"error budget: {note}"))
+            budget_static.update(Text(f"error budget: {note}"))
+            hist.set_note(note)
 
     @on(Worker.StateChanged)
     def _worker_failed(self, event: Worker.StateChanged) -> None:
         if event.state == WorkerState.ERROR:
-            self.query_one("#c-status", Static).update(say("error", f"{event.worker.error}"))
+            self._status(say("error", f"{event.worker.error}"))
 
     # building --------------------------------------------------------------------
     def _status(self, text: str) -> None:
-        self.query_one("#c-status", Static).update(text)
+        """A line under the title (seen without scrolling: the view goes to the top)."""
+        self._line("#c-status", text)
+        self.scroll_home(animate=False)
 
     def action_build(self) -> None:
         if self.candidate is None:
@@ -170,10 +192,7 @@ class ChosenPane(VerticalScroll):
             return
         try:
             plan = backend.plan_build(self.candidate, self.stock, self.targets)
-            body = backend.build_listing(plan)
-        except backend.Unavailable as exc:
-            self._status(f"build: not available yet ({exc})")
-            return
+            body = build_listing(plan, self.stock)
         except PickerError as exc:
             self._status(say("refused", str(exc)))
             return
@@ -213,9 +232,6 @@ class ChosenPane(VerticalScroll):
             return
         try:
             last = backend.last_build(self.stock.path)
-        except backend.Unavailable as exc:
-            self._status(f"undo: not available yet ({exc})")
-            return
         except PickerError as exc:
             self._status(say("refused", str(exc)))
             return

@@ -6,24 +6,15 @@ row posts ``MatchesPane.Chosen`` with the candidate.
 
 from __future__ import annotations
 
-import math
-
-from rich.text import Text
 from textual import on
 from textual.app import ComposeResult
 from textual.containers import Vertical
 from textual.message import Message
 from textual.widgets import DataTable, Static
 
+from picker.report.design import pct, tradeoff_table
+
 COLUMNS = ("rank", "worst error", "pieces", "values (stages split by |)", "notes")
-
-
-def pct(score: float) -> str:
-    """Relative error as percent text, enough digits to tell candidates apart."""
-    p = score * 100
-    if p == 0:
-        return "0%"
-    return f"{p:.2g}%" if p < 0.1 else f"{p:.3g}%"
 
 
 def parts_text(candidate) -> str:
@@ -40,26 +31,6 @@ def parts_text(candidate) -> str:
         " ".join(f"{name} {shown(arr)}" for name, arr in stage.positions)
         for stage in candidate.stages
     )
-
-
-def tradeoff_text(tradeoff, *, width: int = 40) -> Text:
-    """One line per piece count: a bar whose length grows with the log of the error."""
-    text = Text()
-    rows = [(int(p), float(s)) for p, s in tradeoff]
-    if not rows:
-        return Text("no trade-off reported")
-    finite = [s for _p, s in rows if s > 0 and math.isfinite(s)]
-    lo = math.log10(min(finite)) if finite else 0.0
-    hi = math.log10(max(finite)) if finite else 1.0
-    span = max(hi - lo, 1e-9)
-    text.append("pieces  best worst error (longer bar: less precise)\n", style="bold")
-    for pieces, score in rows:
-        if score > 0 and math.isfinite(score):
-            n = 1 + round((math.log10(score) - lo) / span * (width - 1))
-        else:
-            n = 0
-        text.append(f"{pieces:>6}  {'█' * n:<{width}} {pct(score)}\n")
-    return text
 
 
 class MatchesPane(Vertical):
@@ -113,7 +84,7 @@ class MatchesPane(Vertical):
                 notes.append(f"as {seen[values]}, other drawers")
             seen.setdefault(values, rank)
             table.add_row(
-                str(rank), pct(c.score), str(c.pieces), values, "; ".join(notes), key=str(rank)
+                str(rank), pct(c.score, 3), str(c.pieces), values, "; ".join(notes), key=str(rank)
             )
         n = len(self.candidates)
         head = "stopped" if stopped else "done"
@@ -132,7 +103,11 @@ class MatchesPane(Vertical):
             + ("; enter on a row: look closer" if n else "")
         )
         self.outcome = f"{head}: {n} candidate(s) for {what}{note}"  # no time: see pane 3
-        self.query_one("#m-tradeoff", Static).update(tradeoff_text(result.tradeoff))
+        first = self.candidates[0].pieces if self.candidates else None
+        trade = tradeoff_table(result.tradeoff, rank1_pieces=first)
+        self.query_one("#m-tradeoff", Static).update(
+            trade if trade is not None else "no trade-off reported"
+        )
 
     @on(DataTable.RowSelected, "#m-table")
     def _chosen(self, event: DataTable.RowSelected) -> None:
