@@ -247,7 +247,16 @@ def _preview(path: Path) -> UndoPreview:
     notes = tuple(settle(path, current))
     record = ledger.last_build(path)
     if record is None:
-        raise StockEditError(f"{path}: no build to undo (no records in {ledger.ledger_dir(path)})")
+        undone = [r.number for r in ledger.records(path)]
+        if not undone:
+            raise StockEditError(
+                f"{path}: no build to undo (no records in {ledger.ledger_dir(path)})"
+            )
+        which = f"build {undone[0]}" if len(undone) == 1 else f"all {len(undone)} builds"
+        raise StockEditError(
+            f"{path}: no build to undo ({which} recorded in {ledger.ledger_dir(path)} "
+            "already undone)"
+        )
     if record.state == "pending":
         raise StockEditError(
             f"{path}: build {record.number} ({record.time}) was interrupted and the file "

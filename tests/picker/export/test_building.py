@@ -239,7 +239,10 @@ def test_cli_build_and_undo_with_yes(tmp_path, stock_file, capsys):
     assert "number 1" in capsys.readouterr().out
     assert stock_file.read_bytes() == before
     assert main(["undo", "--stock", str(stock_file), "--yes"]) == 2
-    assert "no build to undo" in capsys.readouterr().err
+    err = capsys.readouterr().err
+    # the folder still holds the undone record: the message must not say it holds none
+    assert "no build to undo (build 1 recorded in" in err and "already undone" in err
+    assert "no records" not in err
 
 
 def test_cli_build_short_stock_exit_1(tmp_path, stock_file, capsys):
