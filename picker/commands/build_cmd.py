@@ -121,6 +121,7 @@ def run_build(args) -> int:
         if design.stock_path is None:
             raise DesignError(f"{args.design}: the design names no stock file; pass --stock FILE")
         stock_path = design.stock_path
+        _refuse_sample(stock_path, args.design)
         if args.yes or not _interactive():
             raise DesignError(
                 f"{args.design} was saved from {stock_path}; name the stock file to take "
@@ -168,14 +169,18 @@ def run_build(args) -> int:
     return 0
 
 
-def _refuse_sample(stock_path) -> None:
-    from picker.commands.common import is_bundled_sample
+def _refuse_sample(stock_path, design=None) -> None:
+    """DesignError for the sample stock (``stock.edit.is_sample``: the bundled copy or the
+    one at a source tree's root), which no command changes; ``design`` names the design
+    file that was saved from it."""
     from picker.errors import DesignError
+    from stock.edit import is_sample
 
-    if is_bundled_sample(stock_path):
+    if is_sample(stock_path):
+        saved = f"{design} was saved from " if design else ""
         raise DesignError(
-            f"{stock_path} is the bundled sample, which picker does not change; "
-            "copy it to ./inventory.toml (or your own file) and pass --stock"
+            f"{saved}{stock_path}: it is the bundled sample, which picker does not change; "
+            "copy it to ./inventory.toml (or your own file) and pass --stock with the copy"
         )
 
 

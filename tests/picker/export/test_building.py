@@ -391,3 +391,21 @@ def test_cli_stock_before_the_subcommand(tmp_path, stock_file):
     assert load(stock_file).resistors[2].qty == 2
     assert main(["--stock", str(stock_file), "undo", "--yes"]) == 0
     assert load(stock_file).resistors[2].qty == 3
+
+
+def test_cli_build_from_a_design_saved_from_the_sample_says_so_at_once(tmp_path, capsys):
+    """A design saved from the sample at the source tree's root (the README's run command
+    opens it): without --stock, the refusal names the sample instead of suggesting
+    --stock with it, a command that would be refused in turn."""
+    from tests.helpers import SAMPLE
+
+    design = tmp_path / "d.toml"
+    save = ["design", "lowpass", "--fc", "1k", "--order", "1", "--stock", str(SAMPLE)]
+    assert main([*save, "--save", str(design)]) == 0
+    capsys.readouterr()
+    before = SAMPLE.read_bytes()
+    assert main(["build", str(design), "--yes"]) == 2
+    err = capsys.readouterr().err
+    assert "is the bundled sample, which picker does not change" in err
+    assert "--stock with the copy" in err
+    assert SAMPLE.read_bytes() == before
