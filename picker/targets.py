@@ -29,6 +29,7 @@ TRIALS_MAX = 1_000_000
 RIPPLE_MAX_DB = 10.0
 WINDOW_MAX = 1.0  # a yield window of +/-100 % of the target is the widest that means anything
 TEMP_FLOOR_C = -273.15
+ATTENUATION_MAX_DB = 300.0  # past this no filter of picker's orders gets near
 
 
 def _finite_positive(x: float, label: str, text: str, unit: str = "") -> float:
@@ -214,6 +215,75 @@ def read_voltage(text: str, label: str) -> float:
     return _finite_positive(v, label, s, " V")
 
 
+def read_attenuation(text, label: str = "--attenuation") -> float:
+    """Loss wanted at the stopband in dB below the passband peak: above 0, at most 300."""
+    s = str(text).strip()
+    try:
+        a = float(s.removesuffix("dB").removesuffix("db").strip())
+    except ValueError:
+        raise ValueParseError(f"{label} '{s}': not a number of dB; write e.g. 40") from None
+    if not (math.isfinite(a) and 0 < a <= ATTENUATION_MAX_DB):
+        raise ValueParseError(
+            f"{label} '{s}': give the loss wanted in dB, above 0 and at most "
+            f"{ATTENUATION_MAX_DB:g}"
+        )
+    return a
+
+
+# the command line's name of each field the joint rules speak of
+CLI_NAMES = {
+    "order": "--order",
+    "fc": "--fc",
+    "q": "--q",
+    "r_min": "--r-min",
+    "r_max": "--r-max",
+    "c_min": "--c-min",
+    "c_max": "--c-max",
+    "stopband": "--stopband",
+    "attenuation": "--attenuation",
+}
+
+
+def check_spec(
+    *,
+    order_given: bool,
+    q_given: bool,
+    stopband_given: bool,
+    attenuation_given: bool,
+    labels: dict[str, str] | None = None,
+) -> dict[str, str]:
+    """The rules of an order from a specification; ``{field: message}``, empty if they hold.
+
+    The stopband frequency and the attenuation go together, and they set the order (a
+    band-pass: its Q), so neither the order nor Q may be given as well.
+    """
+    name = {**CLI_NAMES, **(labels or {})}
+    if not (stopband_given or attenuation_given):
+        return {}
+    spec = f"{name['stopband']}/{name['attenuation']}"
+    if not (stopband_given and attenuation_given):
+        missing = "attenuation" if stopband_given else "stopband"
+        return {
+            missing: f"{name['stopband']} and {name['attenuation']} go together: give the "
+            f"frequency and the loss wanted there (e.g. {name['stopband']} 10k "
+            f"{name['attenuation']} 40)"
+        }
+    if order_given:
+        return {"order": f"{name['order']} and {spec} both set the order; give one of them"}
+    if q_given:
+        return {"q": f"{name['q']} and {spec} both shape the one stage; give one of them"}
+    return {}
+
+
+def relabel(message: str, labels: dict[str, str]) -> str:
+    """``message`` with each command-line option named as a shell names the field
+    (``labels``: field -> label, fields as in ``CLI_NAMES``)."""
+    for field, flag in sorted(CLI_NAMES.items(), key=lambda kv: -len(kv[1])):
+        if field in labels:
+            message = message.replace(flag, labels[field])
+    return message
+
+
 def check_targets(
     *,
     response_type: str,
@@ -223,15 +293,15 @@ def check_targets(
     c_min: float,
     c_max: float,
     labels: dict[str, str] | None = None,
+    q_from_spec: bool = False,
 ) -> dict[str, str]:
     """The rules that join fields; returns ``{field: message}``, empty when all hold.
 
     Fields: ``q``, ``r_max``, ``c_max``. ``labels`` maps a field to the name a shell
-    shows (default: the command-line option).
+    shows (default: the command-line option). ``q_from_spec``: a stopband and an
+    attenuation are given, which set a band-pass's Q.
     """
-    name = {"r_min": "--r-min", "r_max": "--r-max", "c_min": "--c-min", "c_max": "--c-max"}
-    name.update({"q": "--q"})
-    name.update(labels or {})
+    name = {**CLI_NAMES, **(labels or {})}
     from stock.values import format_rkm
 
     errors = {}
@@ -245,22 +315,31 @@ def check_targets(
             f"{name['c_max']} {format_rkm(c_max, 'capacitor')} is below "
             f"{name['c_min']} {format_rkm(c_min, 'capacitor')}"
         )
-    if response_type == "bandpass" and q is None:
-        errors["q"] = f"a band-pass needs {name['q']} (centre / bandwidth), e.g. 5"
+    if response_type == "bandpass" and q is None and not q_from_spec:
+        errors["q"] = (
+            f"a band-pass needs {name['q']} (centre / bandwidth), e.g. 5, or "
+            f"{name['stopband']} and {name['attenuation']}"
+        )
     return errors
 
 
 __all__ = [
+    "CLI_NAMES",
+    "check_spec",
     "check_targets",
+    "read_attenuation",
     "read_bound",
     "read_count",
     "read_frequency",
     "read_gain",
+    "read_max_error",
     "read_number",
     "read_order",
     "read_q",
     "read_ripple",
     "read_temp",
+    "read_time_limit",
     "read_voltage",
     "read_window",
+    "relabel",
 ]

@@ -167,7 +167,8 @@ def parse_request(args) -> dict:
         "time_limit_s": read_time_limit(args.time_limit),
     }
     b = req["bounds"]
-    errors = check_targets(response_type=args.type, q=req["q"], **b)
+    given = getattr(args, "stopband", None) is not None
+    errors = check_targets(response_type=args.type, q=req["q"], q_from_spec=given, **b)
     if errors:
         raise DesignError("; ".join(errors.values()))
     read_count(args.top, "--top", 1, TOP_MAX)

@@ -61,32 +61,24 @@ def apply_spec(args, request: dict) -> Any:
     if stop is None and att is None:
         return None
     from picker.errors import DesignError
-
-    if stop is None or att is None:
-        raise DesignError(
-            "--stopband and --attenuation go together: give the frequency and the loss "
-            "wanted there (e.g. --stopband 10k --attenuation 40)"
-        )
-    if request.get("order") is not None:
-        raise DesignError(
-            "--order and --stopband/--attenuation both set the order; give one of them"
-        )
-    if request.get("q") is not None:
-        raise DesignError(
-            "--q and --stopband/--attenuation both shape the one stage; give one of them"
-        )
     from picker.filters.spec_order import order_from_spec
-    from stock.values import parse_frequency
+    from picker.targets import check_spec, read_attenuation, read_frequency
 
-    try:
-        asked = float(att)
-    except ValueError:
-        raise DesignError(f"--attenuation {att!r}: not a number of dB") from None
+    errors = check_spec(
+        order_given=request.get("order") is not None,
+        q_given=request.get("q") is not None,
+        stopband_given=stop is not None,
+        attenuation_given=att is not None,
+    )
+    if errors:
+        raise DesignError("; ".join(errors.values()))
+    stopband_hz = read_frequency(stop, "--stopband")
+    asked = read_attenuation(att)
     spec = order_from_spec(
         request["type"],
         response=request["response"],
         fc_hz=request["fc_hz"],
-        stopband_hz=parse_frequency(stop),
+        stopband_hz=stopband_hz,
         attenuation_db=asked,
         ripple_db=request["ripple_db"],
     )
