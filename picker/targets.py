@@ -224,8 +224,7 @@ def read_attenuation(text, label: str = "--attenuation") -> float:
         raise ValueParseError(f"{label} '{s}': not a number of dB; write e.g. 40") from None
     if not (math.isfinite(a) and 0 < a <= ATTENUATION_MAX_DB):
         raise ValueParseError(
-            f"{label} '{s}': give the loss wanted in dB, above 0 and at most "
-            f"{ATTENUATION_MAX_DB:g}"
+            f"{label} '{s}': give the loss wanted in dB, above 0 and at most {ATTENUATION_MAX_DB:g}"
         )
     return a
 

@@ -13,6 +13,9 @@ from pathlib import Path
 
 from picker.ui.targets_form import Targets
 
+TRIALS = 10000  # Monte Carlo trials, as the CLI's --trials default
+PROGRESS_EVERY_S = 0.25  # at most this often a progress line goes to the screen
+
 
 class Unavailable(Exception):
     """A part of the core this pane needs is not there (yet)."""
@@ -93,30 +96,36 @@ def plan(targets: Targets):
     )
 
 
-def search(stock, stages, targets: Targets, *, top: int = 8, should_stop=None):
+def search(stock, stages, targets: Targets, *, top: int = 8, should_stop=None, progress=None):
+    """The search the CLI runs for these targets: ``rank`` pieces or error through
+    ``picker.search.search``, yield through ``picker.search.yieldrank.search`` with the
+    budget's Monte Carlo settings (the CLI's defaults, the form's window)."""
     import inspect
 
     mod = need("picker.search", "search", "Bounds")
     bounds = mod.Bounds(
         r_min=targets.r_min, r_max=targets.r_max, c_min=targets.c_min, c_max=targets.c_max
     )
-    extra = {
-        "rank": targets.rank,
-        "max_error": targets.max_error,
-        "time_limit": targets.time_limit,
-        "should_stop": should_stop,
-    }
-    takes = inspect.signature(mod.search).parameters  # only what this search knows
-    return mod.search(
-        stock,
-        stages,
+    common = dict(
         singles=targets.singles,
         allow_polarized=targets.allow_polarized,
         bounds=bounds,
         top=top,
         for_people=True,
-        **{k: v for k, v in extra.items() if k in takes},
     )
+    extra = {
+        "max_error": targets.max_error,
+        "time_limit": targets.time_limit,
+        "should_stop": should_stop,
+        "progress": progress,
+    }
+    if targets.rank == "yield":
+        by_yield = need("picker.search.yieldrank", "search").search
+        mc = {"window": targets.window, "trials": TRIALS, "distribution": "uniform", "seed": 0}
+        return by_yield(stock, stages, **mc, **common, **extra)
+    takes = inspect.signature(mod.search).parameters  # only what this search knows
+    extra["rank"] = targets.rank
+    return mod.search(stock, stages, **common, **{k: v for k, v in extra.items() if k in takes})
 
 
 def response(candidate, freqs_hz):
@@ -128,8 +137,11 @@ def response(candidate, freqs_hz):
     return analysis.cascade_response(nets, freqs_hz, gbw_hz=gbw)
 
 
-def budget(candidate):
-    return need("picker.budget", "budget").budget(candidate)
+def budget(candidate, targets: Targets | None = None):
+    """The error budget; the targets' window, temperature, supply and peak output go in
+    as the CLI's --window, --temp, --supply and --vout-peak do (None: their defaults)."""
+    options = targets.budget_options() if targets is not None else {}
+    return need("picker.budget", "budget").budget(candidate, trials=TRIALS, **options)
 
 
 def schematic(candidate):
@@ -201,20 +213,37 @@ def undo_last(stock_path: Path) -> str:
 
 
 # jobs for a child process (picker.ui.offload): plain arguments in, plain data out ----
-def search_job(stock, targets: Targets, stop=None, top: int = 8):
+def search_job(stock, targets: Targets, stop=None, top: int = 8, progress=None):
     """("done", SearchResult) or ("unavailable", message); PickerError propagates.
 
     ``stop``: an event shared with the UI; once set the search returns its best so far.
+    ``progress``: called with one line of words per progress report of the search (the
+    CLI's status line, ``picker.commands.design_progress.describe``).
     """
     should_stop = stop.is_set if stop is not None else None
+    report = None
+    if progress is not None:
+        from picker.commands.design_progress import DELAY, describe
+
+        sent = [-PROGRESS_EVERY_S]
+
+        def report(record) -> None:  # as the CLI: nothing for a quick search
+            if record.elapsed_s >= DELAY and record.elapsed_s - sent[0] >= PROGRESS_EVERY_S:
+                sent[0] = record.elapsed_s
+                progress(describe(record))
+
     try:
-        return "done", search(stock, plan(targets), targets, top=top, should_stop=should_stop)
+        found = search(
+            stock, plan(targets), targets, top=top, should_stop=should_stop, progress=report
+        )
     except Unavailable as exc:
         return "unavailable", f"search not available yet ({exc})"
+    return "done", found
 
 
-def detail_job(candidate, points: int = 400) -> dict:
-    """The response curve and the error budget of ``candidate``, each or its reason.
+def detail_job(candidate, targets: Targets | None = None, points: int = 400) -> dict:
+    """The response curve and the error budget of ``candidate``, each or its reason;
+    the budget with the inputs of ``targets`` (the targets the pick answers).
 
     Keys: "plot" (freqs, mag_db, phase_deg lists) or "plot_note"; "budget" (the
     Budget) or "budget_note".
@@ -235,7 +264,7 @@ def detail_job(candidate, points: int = 400) -> dict:
     except Exception as exc:  # shown in the pane as text
         out["plot_note"] = f"error: {type(exc).__name__}: {exc}"
     try:
-        out["budget"] = budget(candidate)
+        out["budget"] = budget(candidate, targets)
     except Unavailable as exc:
         out["budget_note"] = f"not available yet ({exc})"
     except Exception as exc:

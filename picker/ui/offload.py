@@ -74,9 +74,15 @@ class JobError(PickerError):
     """The job raised; the message is the child's, with the type name when unexpected."""
 
 
-def _child(conn, fn: Callable, args: tuple) -> None:
+def _child(conn, fn: Callable, args: tuple, reports: bool = False) -> None:
+    """Run ``fn(*args)`` and send back its result; with ``reports``, ``fn`` also gets
+    ``progress=`` a callback that sends each record ahead of the result."""
+
+    def progress(record) -> None:
+        conn.send(("progress", record))
+
     try:
-        result = ("ok", fn(*args))
+        result = ("ok", fn(*args, progress=progress) if reports else fn(*args))
     except PickerError as exc:
         result = ("picker", str(exc))
     except BaseException as exc:  # reported to the UI as text, never a traceback
@@ -96,13 +102,21 @@ class Lane:
         self._lock = threading.Lock()
         self._proc = None
 
-    def run(self, fn: Callable, *args):
+    def run(self, fn: Callable, *args, on_progress: Callable | None = None):
+        """``fn(*args)`` in a child process; its result, or JobError / Cancelled.
+
+        ``on_progress``: ``fn`` takes ``progress=`` and each record it reports is
+        handed to ``on_progress`` here, in the calling thread, in the order sent.
+        """
         if not _started.wait(START_WAIT_S):
             raise JobError("the helper process for searches was not started")
         ctx = context()
         receive, send = ctx.Pipe(duplex=False)
         proc = ctx.Process(
-            target=_child, args=(send, fn, args), daemon=True, name=f"picker-{self.name}"
+            target=_child,
+            args=(send, fn, args, on_progress is not None),
+            daemon=True,
+            name=f"picker-{self.name}",
         )
         with self._lock:
             self._kill(self._proc)
@@ -116,6 +130,10 @@ class Lane:
                         kind, payload = receive.recv()
                     except EOFError:
                         raise Cancelled(self.name) from None
+                    if kind == "progress":
+                        if on_progress is not None:
+                            on_progress(payload)
+                        continue
                     break
                 if not proc.is_alive() and not receive.poll(0):
                     raise Cancelled(self.name)

@@ -1,25 +1,33 @@
 """What the targets form holds, read from its text fields (no textual here).
 
 Each field is read on its own so the form can show a message beside the field that
-is wrong while the others stay valid. ``read_targets`` gathers every field and raises
-``FormError`` carrying one message per bad field.
+is wrong while the others stay valid. The readers and the rules joining fields are
+those of the command line (``picker.targets``), called with the form's labels, so a
+value the CLI refuses the form refuses for the same reason, naming the form's field
+("R min", not "--r-min"). A blank field means what leaving the option out means on
+the command line; only the time limit differs (blank: no limit).
+``read_targets`` gathers every field and raises ``FormError`` carrying one message per
+bad field.
 """
 
 from __future__ import annotations
 
 from dataclasses import dataclass
 
-from stock.errors import PickerError, ValueParseError
+from stock.errors import PickerError
 
 RESPONSE_TYPES = ("lowpass", "highpass", "bandpass")
 RESPONSES = ("butterworth", "bessel", "chebyshev")
 FAMILIES = ("any", "inverting", "non-inverting", "sallen-key", "mfb")
-RANKS = ("pieces", "error")  # fewest pieces within the goal, or smallest error
+# fewest pieces within the goal, smallest worst error, highest Monte Carlo yield
+RANKS = ("pieces", "error", "yield")
 
-# field name -> (label shown, default text)
+# field name -> (label shown, default text); the labels are the names in messages
 TEXT_FIELDS = {
     "order": ("order", "2"),
     "fc": ("fc", "1k"),
+    "stopband": ("stopband", ""),
+    "attenuation": ("atten dB", ""),
     "gain": ("gain", "1"),
     "q": ("Q", ""),
     "ripple": ("ripple dB", "1"),
@@ -27,9 +35,22 @@ TEXT_FIELDS = {
     "r_max": ("R max", "1M"),
     "c_min": ("C min", "100p"),
     "c_max": ("C max", "10u"),
-    "goal": ("goal %", "0.5"),
+    "goal": ("goal", "0.5%"),
     "time": ("time s", "10"),
+    "window": ("window", "5%"),
+    "temp": ("temp C", "0..70"),
+    "supply": ("supply V", ""),
+    "vout": ("out peak V", ""),
 }
+# blank means the command line's default (the option left out)
+BLANK_MEANS = {
+    "gain": "1",
+    "ripple": "1",
+    "goal": "0.5%",
+    "window": "5%",
+    "temp": "0..70",
+}
+LABELS = {name: label for name, (label, _default) in TEXT_FIELDS.items()}
 
 
 @dataclass(frozen=True)
@@ -53,6 +74,24 @@ class Targets:
     rank: str = "pieces"
     max_error: float = 0.005  # the precision goal, a fraction
     time_limit: float | None = 10.0  # seconds, as the CLI; None (field blank): to the end
+    # order from a specification (both or neither); ``spec`` says what it gives
+    stopband_hz: float | None = None
+    attenuation_db: float | None = None
+    spec: str = ""
+    # the error budget's own inputs, as the CLI's --window, --temp, --supply, --vout-peak
+    window: float = 0.05
+    temp: tuple[float, float] = (0.0, 70.0)
+    supply: float | None = None
+    vout_peak: float | None = None
+
+    def budget_options(self) -> dict:
+        """The keywords of ``picker.budget.budget`` these targets set."""
+        return {
+            "window": self.window,
+            "temp": self.temp,
+            "supply": self.supply,
+            "vout_peak": self.vout_peak,
+        }
 
 
 class FormError(PickerError):
@@ -63,66 +102,57 @@ class FormError(PickerError):
         super().__init__("; ".join(f"{k}: {v}" for k, v in self.errors.items()))
 
 
-def _number(text: str, what: str) -> float:
-    try:
-        return float(text)
-    except ValueError:
-        raise ValueParseError(f"{what} '{text}' is not a number") from None
-
-
 def read_field(name: str, text: str):
-    """The value of one text field, or raise ``ValueParseError`` quoting the text."""
-    text = text.strip()
+    """The value of one text field (None: blank and optional), or raise
+    ``ValueParseError`` quoting the text, from the reader the CLI uses."""
+    from picker import targets as rules
+
+    label = LABELS[name]  # KeyError: no such field
+    text = text.strip() or BLANK_MEANS.get(name, "")
+    if name in ("order", "q", "stopband", "attenuation", "time", "supply", "vout") and not text:
+        return None
     if name == "order":
-        if not text.isdigit() or not 1 <= int(text) <= 8:
-            raise ValueParseError(f"order '{text}': write a whole number from 1 to 8")
-        return int(text)
-    if name == "fc":
-        from stock.values import parse_frequency
-
-        if not text:
-            raise ValueParseError("fc is empty: write e.g. 1k or 2.5 kHz")
-        f = parse_frequency(text)
-        if not f > 0:
-            raise ValueParseError(f"fc '{text}' must be above 0 Hz")
-        return f
+        return rules.read_order(text, label)
+    if name in ("fc", "stopband"):
+        return rules.read_frequency(text, label)
+    if name == "attenuation":
+        return rules.read_attenuation(text, label)
     if name == "gain":
-        g = _number(text or "1", "gain")
-        if g <= 0:
-            raise ValueParseError(f"gain '{text}' is a magnitude: write a number above 0")
-        return g
+        return rules.read_gain(text, label)
     if name == "q":
-        if not text:
-            return None
-        q = _number(text, "Q")
-        if q <= 0:
-            raise ValueParseError(f"Q '{text}' must be above 0 (blank: from the response)")
-        return q
+        return rules.read_q(text, label)
     if name == "ripple":
-        r = _number(text or "1", "ripple")
-        if not 0 < r <= 10:
-            raise ValueParseError(f"ripple '{text}' dB: write a number above 0, at most 10")
-        return r
+        return rules.read_ripple(text, label)
     if name in ("r_min", "r_max", "c_min", "c_max"):
-        from stock.values import parse_value
-
-        kind = "resistor" if name.startswith("r") else "capacitor"
-        if not text:
-            raise ValueParseError(f"{TEXT_FIELDS[name][0]} is empty")
-        return parse_value(text, kind=kind)
+        return rules.read_bound(text, "resistor" if name[0] == "r" else "capacitor", label)
     if name == "goal":
-        g = _number(text or "0.5", "goal")
-        if not 0 < g <= 100:
-            raise ValueParseError(f"goal '{text}' %: write a number above 0, at most 100")
-        return g / 100
+        return rules.read_max_error(text, label)
     if name == "time":
-        if not text:
-            return None
-        t = _number(text, "time")
-        if t <= 0:
-            raise ValueParseError(f"time '{text}' s must be above 0 (blank: no limit)")
-        return t
-    raise KeyError(name)
+        return rules.read_time_limit(text, label)
+    if name == "window":
+        return rules.read_window(text, label)
+    if name == "temp":
+        return rules.read_temp(text, label)
+    return rules.read_voltage(text, label)  # supply, vout
+
+
+def order_from_spec(values: dict, response_type: str, response: str):
+    """The CLI's ``order_from_spec`` for the form's values; DesignError naming fields."""
+    from picker.filters.spec_order import order_from_spec as choose
+    from picker.targets import relabel
+    from stock.errors import PickerError as Refused
+
+    try:
+        return choose(
+            response_type,
+            response=response,
+            fc_hz=values["fc"],
+            stopband_hz=values["stopband"],
+            attenuation_db=values["attenuation"],
+            ripple_db=values["ripple"],
+        )
+    except Refused as exc:
+        raise type(exc)(relabel(str(exc), LABELS)) from None
 
 
 def read_targets(
@@ -136,28 +166,53 @@ def read_targets(
     rank: str = "pieces",
 ) -> Targets:
     """All fields at once; raise ``FormError`` with every bad field."""
+    from picker.targets import check_spec, check_targets
+
     values, errors = {}, {}
     for name in TEXT_FIELDS:
         try:
             values[name] = read_field(name, texts.get(name, TEXT_FIELDS[name][1]))
         except PickerError as exc:
             errors[name] = str(exc)
+    spec = None
     if not errors:
-        if values["r_min"] >= values["r_max"]:
-            errors["r_max"] = "R max must be above R min"
-        if values["c_min"] >= values["c_max"]:
-            errors["c_max"] = "C max must be above C min"
-        if response_type == "bandpass" and values["q"] is None:
-            errors["q"] = "band-pass needs a Q (centre / bandwidth), e.g. 5"
+        given = {k: values[k] is not None for k in ("order", "q", "stopband", "attenuation")}
+        errors.update(
+            check_spec(
+                order_given=given["order"],
+                q_given=given["q"],
+                stopband_given=given["stopband"],
+                attenuation_given=given["attenuation"],
+                labels=LABELS,
+            )
+        )
+        bounds = {k: values[k] for k in ("r_min", "r_max", "c_min", "c_max")}
+        errors.update(
+            check_targets(
+                response_type=response_type,
+                q=values["q"],
+                labels=LABELS,
+                q_from_spec=given["stopband"],
+                **bounds,
+            )
+        )
+    if not errors and values["stopband"] is not None:
+        try:
+            spec = order_from_spec(values, response_type, response)
+        except PickerError as exc:
+            errors["stopband"] = str(exc)
     if errors:
         raise FormError(errors)
+    order, q = values["order"] or 2, values["q"]  # the CLI's order when none is given
+    if spec is not None:
+        order, q = (order, spec.q) if spec.q is not None else (spec.order, q)
     return Targets(
         response_type=response_type,
         response=response,
-        order=values["order"],
+        order=order,
         fc_hz=values["fc"],
         gain=values["gain"],
-        q=values["q"],
+        q=q,
         ripple_db=values["ripple"],
         family=None if family == "any" else family,
         r_min=values["r_min"],
@@ -169,4 +224,11 @@ def read_targets(
         rank=rank,
         max_error=values["goal"],
         time_limit=values["time"],
+        stopband_hz=values["stopband"],
+        attenuation_db=values["attenuation"],
+        spec=spec.line() if spec is not None else "",
+        window=values["window"],
+        temp=values["temp"],
+        supply=values["supply"],
+        vout_peak=values["vout"],
     )

@@ -16,9 +16,10 @@ from stock.errors import ValueParseError
 
 @pytest.mark.parametrize(
     "name, text, value",
-    [("goal", "0.5", 0.005), ("goal", "2", 0.02), ("goal", "", 0.005), ("time", "", None)],
+    # as the CLI's --max-error (docs/cli.md): a percentage or a fraction; blank: its default
+    [("goal", "0.5%", 0.005), ("goal", "0.02", 0.02), ("goal", "", 0.005), ("time", "", None)],
 )
-def test_goal_is_a_percentage_and_time_blank_means_no_limit(name, text, value):
+def test_goal_reads_as_the_cli_and_time_blank_means_no_limit(name, text, value):
     got = read_field(name, text)
     assert got is None if value is None else got == pytest.approx(value)
 

@@ -270,6 +270,8 @@ class MainScreen(FocusRows, TypingAware, Screen):
         self._bar()
         what = describe(self.targets)
         matches.show_busy(what + " (s: stop, keep the best so far)")
+        for targets_pane in self.query(TargetsPane):
+            targets_pane.show_progress(f"searching: {what}")
         self._stop = offload.context().Event()
         self._search(self.stock, self.targets, self.generation, what, self._stop)
         self._searching = self.targets
@@ -280,7 +282,15 @@ class MainScreen(FocusRows, TypingAware, Screen):
         worker = get_current_worker()
         t0 = time.perf_counter()
         try:
-            kind, payload = self.lane.run(backend.search_job, stock, targets, stop)
+            kind, payload = self.lane.run(
+                backend.search_job,
+                stock,
+                targets,
+                stop,
+                on_progress=lambda line: self.app.call_from_thread(
+                    self._progress, generation, line
+                ),
+            )
             outcome = (kind if kind == "done" else "message", payload)
         except Cancelled:
             return
@@ -289,6 +299,17 @@ class MainScreen(FocusRows, TypingAware, Screen):
         seconds = time.perf_counter() - t0
         if not worker.is_cancelled:
             self.app.call_from_thread(self._searched, generation, outcome, seconds, what)
+
+    def _progress(self, generation: int, line: str) -> None:
+        """The running search's stage, phase, time and best so far, in panes 2 and 3."""
+        if generation != self.generation or not self.busy:
+            return
+        if self._stop is not None and self._stop.is_set():
+            line = "stopping: " + line
+        what = line.removeprefix("searching: ")
+        self.query_one(MatchesPane).show_busy(what + " (s: stop, keep the best so far)")
+        for targets_pane in self.query(TargetsPane):
+            targets_pane.show_progress(line)
 
     def action_stop_search(self) -> None:
         """s: the running search stops and shows the best it found so far."""

@@ -135,7 +135,7 @@ class ChosenPane(VerticalScroll):
         """Response and budget of ``candidate``, computed in a child process."""
         worker = get_current_worker()
         try:
-            out = self.lane.run(backend.detail_job, candidate)
+            out = self.lane.run(backend.detail_job, candidate, self.targets)  # its budget inputs
         except Cancelled:
             return
         except PickerError as exc:

@@ -13,6 +13,7 @@ from textual.message import Message
 from textual.widgets import DataTable, Static
 
 from picker.report.design import pct, tradeoff_table
+from picker.report.yields import yield_text
 
 COLUMNS = ("rank", "worst error", "pieces", "values (stages split by |)", "notes")
 
@@ -77,9 +78,11 @@ class MatchesPane(Vertical):
         table = self.query_one(DataTable)
         table.clear()
         seen: dict[str, int] = {}
+        yields = list(getattr(result, "yields", ()))  # rank yield: each one's, where computed
         for rank, c in enumerate(self.candidates, 1):
             values = parts_text(c)
-            notes = [f"{len(c.warnings)} warning(s)"] if c.warnings else []
+            notes = [f"yield {yield_text(yields[rank - 1])}"] if rank <= len(yields) else []
+            notes += [f"{len(c.warnings)} warning(s)"] if c.warnings else []
             if values in seen:
                 notes.append(f"as {seen[values]}, other drawers")
             seen.setdefault(values, rank)

@@ -1,15 +1,18 @@
-"""The targets pane: what the filter must do and the limits of the search.
+"""The targets pane: what the filter must do, the limits of the search, the budget's inputs.
 
-Each field is read as it is typed (``picker.ui.targets_form``); a field that cannot be
-read shows why beside it. Whenever every field reads, the pane posts
-``TargetsPane.Changed`` with the new ``Targets``; the screen debounces and searches.
+Each field is read as it is typed (``picker.ui.targets_form``, the CLI's readers); a
+field that cannot be read shows why beside it. Whenever every field reads, the pane
+posts ``TargetsPane.Changed`` with the new ``Targets``; the screen debounces and
+searches. The fields scroll (the focused one stays in view); under them, always in
+view, two lines: the form's state and the search's (progress while it runs, then its
+outcome or why there is no design).
 """
 
 from __future__ import annotations
 
 from textual import on
 from textual.app import ComposeResult
-from textual.containers import Horizontal, VerticalScroll
+from textual.containers import Horizontal, Vertical, VerticalScroll
 from textual.message import Message
 from textual.widgets import Checkbox, Input, Label, Select, Static
 
@@ -21,15 +24,15 @@ from picker.ui.targets_form import (
     TEXT_FIELDS,
     FormError,
     Targets,
-    read_field,
     read_targets,
 )
 from picker.ui.widgets.common import Tick, put, say
-from stock.errors import PickerError
 
 HINTS = {
-    "order": "1 to 8",
+    "order": "1 to 8; blank: 2, or set by stopband",
     "fc": "corner (band-pass: centre): 1k, 2.5 kHz",
+    "stopband": "frequency to attenuate; with atten dB it sets the order (band-pass: Q)",
+    "attenuation": "loss wanted at the stopband, dB below the passband",
     "gain": "passband gain, a magnitude",
     "q": "blank: from response; number: one stage",
     "ripple": "Chebyshev only",
@@ -37,12 +40,17 @@ HINTS = {
     "r_max": "largest resistance",
     "c_min": "smallest capacitance",
     "c_max": "largest capacitance",
-    "goal": "precision goal: worst error of f0, Q, gain",
+    "goal": "precision goal: worst error of f0, Q, gain (0.5% or 0.005)",
     "time": "time limit; blank: search to the end",
+    "window": "yield window around each target f0, Q, gain",
+    "temp": "temperature span LO..HI in degrees C",
+    "supply": "total supply; blank: ratings and swing not checked",
+    "vout": "peak output; blank: slew rate not checked",
 }
+RANK_HINT = "pieces: fewest within the goal; error: smallest; yield: best inside the window"
 
 
-class TargetsPane(VerticalScroll):
+class TargetsPane(Vertical):
     """The form. ``targets`` holds the last complete reading, or None."""
 
     class Changed(Message):
@@ -70,31 +78,27 @@ class TargetsPane(VerticalScroll):
                 )
                 yield Static(hint, classes="field-message", markup=False)
 
-        yield from choice("type", "type", RESPONSE_TYPES, "what passes")
-        yield from choice("response", "response", RESPONSES, "shape of the passband")
-        for name, (label, default) in TEXT_FIELDS.items():
-            if name == "r_min":
-                yield from choice(
-                    "family", "circuit", FAMILIES, "topology family; any: the search picks"
-                )
-            if name == "goal":
-                yield from choice(
-                    "rank", "rank by", RANKS, "pieces: fewest within the goal; error: smallest"
-                )
-            with Horizontal(classes="field-row"):
-                yield Label(label, classes="field-label")
-                yield Input(default, id=f"t-{name}", compact=True)
-                yield Static(HINTS[name], id=f"m-{name}", classes="field-message", markup=False)
-        with Horizontal(classes="field-row"):
-            yield Tick(
-                "single pieces only (no series/parallel pairs)", id="t-singles", compact=True
-            )
-        with Horizontal(classes="field-row"):
-            yield Tick(
-                "allow polarized capacitors (mind polarity and bias)",
-                id="t-polarized",
-                compact=True,
-            )
+        with VerticalScroll(id="t-fields"):
+            yield from choice("type", "type", RESPONSE_TYPES, "what passes")
+            yield from choice("response", "response", RESPONSES, "shape of the passband")
+            for name, (label, default) in TEXT_FIELDS.items():
+                if name == "r_min":
+                    yield from choice(
+                        "family", "circuit", FAMILIES, "topology family; any: the search picks"
+                    )
+                if name == "goal":
+                    yield from choice("rank", "rank by", RANKS, RANK_HINT)
+                with Horizontal(classes="field-row"):
+                    yield Label(label, classes="field-label")
+                    yield Input(default, id=f"t-{name}", compact=True)
+                    yield Static(HINTS[name], id=f"m-{name}", classes="field-message", markup=False)
+                if name == "time":
+                    for tick_id, text in (
+                        ("t-singles", "single pieces only (no series/parallel pairs)"),
+                        ("t-polarized", "allow polarized capacitors (mind polarity and bias)"),
+                    ):
+                        with Horizontal(classes="field-row"):
+                            yield Tick(text, id=tick_id, compact=True)
         yield Static("", id="t-status", markup=False)
         yield Static("", id="t-outcome", markup=False)
 
@@ -105,7 +109,10 @@ class TargetsPane(VerticalScroll):
         return {name: self.query_one(f"#t-{name}", Input).value for name in TEXT_FIELDS}
 
     def _read_all(self) -> None:
+        """Read every field; beside each, its error or its hint; post what changed."""
         status = self.query_one("#t-status", Static)
+        errors: dict[str, str] = {}
+        targets = None
         try:
             targets = read_targets(
                 self._texts(),
@@ -117,15 +124,22 @@ class TargetsPane(VerticalScroll):
                 rank=str(self.query_one("#t-rank", Select).value),
             )
         except FormError as exc:
-            for name, text in exc.errors.items():
-                put(self.query_one(f"#m-{name}", Static), say("error", text))
+            errors = exc.errors
+        except Exception as exc:  # a reader of the core missing or broken
+            put(status, say("error", f"cannot read the form: {type(exc).__name__}: {exc}"))
+            return
+        hints = dict(HINTS)
+        if targets is not None and targets.spec:
+            where = "q" if targets.response_type == "bandpass" else "order"
+            hints[where] = f"from the stopband: {targets.spec}"
+        for name in TEXT_FIELDS:
+            text = say("error", errors[name]) if name in errors else hints[name]
+            put(self.query_one(f"#m-{name}", Static), text)
+        if targets is None:
             put(status, say("waiting", "fix the fields marked error"))
             if self.targets is not None:
                 self.targets = None
                 self.post_message(self.Invalid())
-            return
-        except Exception as exc:  # a parser of the core missing or broken
-            put(status, say("error", f"cannot read the form: {exc}"))
             return
         put(status, "")
         if targets != self.targets:
@@ -133,24 +147,23 @@ class TargetsPane(VerticalScroll):
             self.post_message(self.Changed(targets))
 
     def show_outcome(self, text: str) -> None:
-        """The search's outcome (or why there is no design), under the form."""
-        put(self.query_one("#t-outcome", Static), f"search: {text}" if text else "")
+        """The search's outcome (or why there is no design), under the form; the
+        command line's option names in it become the form's labels."""
+        from picker.targets import relabel
+        from picker.ui.targets_form import LABELS
+
+        shown = f"search: {relabel(text, LABELS)}" if text else ""
+        put(self.query_one("#t-outcome", Static), shown)
+
+    def show_progress(self, text: str) -> None:
+        """While a search runs: its stage, phase, time and best so far (s stops it)."""
+        shown = f"{text} (s outside a text field: stop)" if text else ""
+        put(self.query_one("#t-outcome", Static), shown)
 
     @on(Input.Changed)
     def _typed(self, event: Input.Changed) -> None:
-        name = (event.input.id or "").removeprefix("t-")
-        if name not in TEXT_FIELDS:
-            return
-        message = self.query_one(f"#m-{name}", Static)
-        try:
-            read_field(name, event.value)
-        except PickerError as exc:
-            put(message, say("error", str(exc)))
-        except Exception as exc:
-            put(message, say("error", f"cannot check: {exc}"))
-        else:
-            put(message, HINTS[name])
-        self._read_all()
+        if (event.input.id or "").removeprefix("t-") in TEXT_FIELDS:
+            self._read_all()
 
     @on(Select.Changed)
     @on(Checkbox.Changed)
