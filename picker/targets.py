@@ -229,17 +229,25 @@ def read_attenuation(text, label: str = "--attenuation") -> float:
     return a
 
 
-# the command line's name of each field the joint rules speak of
+# the command line's name of each field of the targets (the form's names as keys)
 CLI_NAMES = {
     "order": "--order",
     "fc": "--fc",
+    "stopband": "--stopband",
+    "attenuation": "--attenuation",
+    "gain": "--gain",
     "q": "--q",
+    "ripple": "--ripple",
     "r_min": "--r-min",
     "r_max": "--r-max",
     "c_min": "--c-min",
     "c_max": "--c-max",
-    "stopband": "--stopband",
-    "attenuation": "--attenuation",
+    "goal": "--max-error",
+    "time": "--time-limit",
+    "window": "--window",
+    "temp": "--temp",
+    "supply": "--supply",
+    "vout": "--vout-peak",
 }
 
 

@@ -26,11 +26,11 @@ RANKS = ("pieces", "error", "yield")
 TEXT_FIELDS = {
     "order": ("order", "2"),
     "fc": ("fc", "1k"),
+    "gain": ("gain", "1"),
     "stopband": ("stopband", ""),
     "attenuation": ("atten dB", ""),
-    "gain": ("gain", "1"),
     "q": ("Q", ""),
-    "ripple": ("ripple dB", "1"),
+    "ripple": ("ripple", "1"),
     "r_min": ("R min", "1k"),
     "r_max": ("R max", "1M"),
     "c_min": ("C min", "100p"),

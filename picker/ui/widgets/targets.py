@@ -35,7 +35,7 @@ HINTS = {
     "attenuation": "loss wanted at the stopband, dB below the passband",
     "gain": "passband gain, a magnitude",
     "q": "blank: from response; number: one stage",
-    "ripple": "Chebyshev only",
+    "ripple": "passband ripple in dB, Chebyshev only",
     "r_min": "smallest resistance of a position",
     "r_max": "largest resistance",
     "c_min": "smallest capacitance",
