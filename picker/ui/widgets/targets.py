@@ -29,10 +29,10 @@ from picker.ui.targets_form import (
 from picker.ui.widgets.common import Tick, put, say
 
 HINTS = {
-    "order": "1 to 8; blank: 2, or set by stopband",
+    "order": "1 to 8; blank: 2 or from the stopband",
     "fc": "corner (band-pass: centre): 1k, 2.5 kHz",
-    "stopband": "frequency to attenuate; with atten dB it sets the order (band-pass: Q)",
-    "attenuation": "loss wanted at the stopband, dB below the passband",
+    "stopband": "attenuate here; with atten dB: the order",
+    "attenuation": "loss wanted at the stopband, in dB",
     "gain": "passband gain, a magnitude",
     "q": "blank: from response; number: one stage",
     "ripple": "passband ripple in dB, Chebyshev only",
@@ -40,14 +40,14 @@ HINTS = {
     "r_max": "largest resistance",
     "c_min": "smallest capacitance",
     "c_max": "largest capacitance",
-    "goal": "precision goal: worst error of f0, Q, gain (0.5% or 0.005)",
+    "goal": "worst error allowed: 0.5% or 0.005",
     "time": "time limit; blank: search to the end",
-    "window": "yield window around each target f0, Q, gain",
-    "temp": "temperature span LO..HI in degrees C",
-    "supply": "total supply; blank: ratings and swing not checked",
-    "vout": "peak output; blank: slew rate not checked",
+    "window": "yield window around f0, Q and gain",
+    "temp": "temperature span LO..HI, degrees C",
+    "supply": "total supply; blank: ratings unchecked",
+    "vout": "peak output; blank: slew unchecked",
 }
-RANK_HINT = "pieces: fewest within the goal; error: smallest; yield: best inside the window"
+RANK_HINT = "fewest pieces in goal, least error, yield"
 
 
 class TargetsPane(Vertical):
@@ -78,7 +78,9 @@ class TargetsPane(Vertical):
                 )
                 yield Static(hint, classes="field-message", markup=False)
 
-        with VerticalScroll(id="t-fields"):
+        fields = VerticalScroll(id="t-fields")
+        fields.can_focus = False  # the focus goes to the fields; the focused one scrolls in
+        with fields:
             yield from choice("type", "type", RESPONSE_TYPES, "what passes")
             yield from choice("response", "response", RESPONSES, "shape of the passband")
             for name, (label, default) in TEXT_FIELDS.items():
