@@ -30,6 +30,18 @@ def _farad(value: float) -> str:
     return format_rkm(value, kind="capacitor")
 
 
+def _hz_or_blank(value: float | None) -> str:
+    return "blank" if value is None else _hz(value)
+
+
+def _percent(value: float) -> str:
+    return f"{value * 100:g}%"
+
+
+def _span(value: tuple[float, float]) -> str:
+    return f"{value[0]:g}..{value[1]:g}"
+
+
 def _tick(value: bool) -> str:
     return "ticked" if value else "not ticked"
 
@@ -50,6 +62,14 @@ FIELDS: dict[str, tuple[str, Callable]] = {
     "c_max": (TEXT_FIELDS["c_max"][0], _farad),
     "singles": ("single pieces only", _tick),
     "allow_polarized": ("allow polarized", _tick),
+    # the order from a specification, and the error budget's inputs (its budget was
+    # computed with those of the pick)
+    "stopband_hz": (TEXT_FIELDS["stopband"][0], _hz_or_blank),
+    "attenuation_db": (TEXT_FIELDS["attenuation"][0], _plain),
+    "window": (TEXT_FIELDS["window"][0], _percent),
+    "temp": (TEXT_FIELDS["temp"][0], _span),
+    "supply": (TEXT_FIELDS["supply"][0], _plain),
+    "vout_peak": (TEXT_FIELDS["vout"][0], _plain),
 }
 
 

@@ -51,7 +51,7 @@ async def test_s_stops_the_running_search_and_the_targets_pane_shows_the_outcome
 ):
     from picker.ui.offload import Lane
 
-    def held_run(self, fn, stock, targets, stop):  # the search waits for the stop key
+    def held_run(self, fn, stock, targets, stop, on_progress=None):  # waits for the stop key
         assert stop.wait(30)
         return fn(stock, targets, stop)
 

@@ -80,3 +80,17 @@ async def test_enter_on_rows_of_earlier_targets_does_not_open_them(stock_copy, m
         assert app.screen.query_one("#chosen").candidate is opened  # not replaced
         status = str(app.screen.query_one("#m-status").render())
         assert status.startswith("[old]") and "1200 Hz" in status
+
+
+def test_a_changed_budget_input_or_stopband_is_named_by_its_field():
+    from picker.ui.pick_targets import differences
+    from picker.ui.targets_form import Targets
+
+    was = Targets()
+    now = Targets(supply=12.0, temp=(-20.0, 85.0), stopband_hz=4000.0, attenuation_db=40.0)
+    assert differences(was, now) == [
+        "stopband blank -> 4000 Hz",
+        "atten dB blank -> 40",
+        "temp C 0..70 -> -20..85",
+        "supply V blank -> 12",
+    ]
