@@ -65,9 +65,7 @@ async def test_stopband_and_attenuation_set_the_order_and_the_pane_says_what_it_
         await settle(pilot, app, 0.5)
         # Butterworth at 4 fc: 10 log10(1 + 4^(2n)) >= 40 dB first at n = 4 (48.2 dB);
         # scipy.signal.buttord(1, 4, 3.0103, 40, analog=True) also gives 4
-        assert "from the stopband: order 4: 48.2 dB at 4 kHz, 40 dB asked" in shown(
-            app, "#m-order"
-        )
+        assert "from the stopband: order 4: 48.2 dB at 4 kHz, 40 dB asked" in shown(app, "#m-order")
         assert app.screen.targets.order == 4
         assert "order 4" in shown(app, "#m-status")  # the search ran for order 4
         # 90 dB at 2 fc takes order 15 (scipy.signal.buttord(1, 2, 3.0103, 90,

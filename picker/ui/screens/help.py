@@ -35,8 +35,12 @@ Anywhere
   lists       (type, response, circuit) enter opens, up/down, enter
   space       ticks or unticks a box
 
-  rank by     pieces: fewest pieces within the goal %; error: smallest
+  rank by     pieces: fewest pieces within the goal; error: smallest;
+              yield: highest Monte Carlo yield inside the window
+  stopband    with atten dB (order blank): the order that gives it
   time s      a time limit: the best found by then (blank: no limit)
+  window ..   the error budget's inputs: window, temp C, supply V,
+              out peak V (as the CLI's --window, --temp, --supply ..)
 3 matches     up/down, then enter: look closer (opens pane 4)
   s           stop the running search: its best so far is shown
 4 chosen      b: build it (asks first); u: undo the last build
