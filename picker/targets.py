@@ -110,18 +110,28 @@ def read_order(text, label: str = "--order") -> int:
     return int(s)
 
 
-def read_ripple(text: str, label: str = "--ripple") -> float:
-    """Chebyshev passband ripple in dB: above 0, at most 10."""
+def _decibels(text, label: str, top: float, bad: str, out_of_range: str) -> float:
+    """A number of dB (``1``, ``0.5 dB``) above 0 and at most ``top``; the messages
+    after the quoted text are ``bad`` (not a number) and ``out_of_range``."""
     s = str(text).strip()
     try:
-        r = float(s.removesuffix("dB").removesuffix("db").strip())
+        x = float(s.removesuffix("dB").removesuffix("db").strip())
     except ValueError:
-        raise ValueParseError(f"{label} '{s}': write the ripple in dB, e.g. 0.5 or 1") from None
-    if not (math.isfinite(r) and 0 < r <= RIPPLE_MAX_DB):
-        raise ValueParseError(
-            f"{label} '{s}' dB: write a number above 0, at most {RIPPLE_MAX_DB:g}"
-        )
-    return r
+        raise ValueParseError(f"{label} '{s}': {bad}") from None
+    if not (math.isfinite(x) and 0 < x <= top):
+        raise ValueParseError(f"{label} '{s}'{out_of_range}")
+    return x
+
+
+def read_ripple(text: str, label: str = "--ripple") -> float:
+    """Chebyshev passband ripple in dB: above 0, at most 10."""
+    return _decibels(
+        text,
+        label,
+        RIPPLE_MAX_DB,
+        "write the ripple in dB, e.g. 0.5 or 1",
+        f" dB: write a number above 0, at most {RIPPLE_MAX_DB:g}",
+    )
 
 
 def read_bound(text: str, kind: str, label: str) -> float:
@@ -217,16 +227,13 @@ def read_voltage(text: str, label: str) -> float:
 
 def read_attenuation(text, label: str = "--attenuation") -> float:
     """Loss wanted at the stopband in dB below the passband peak: above 0, at most 300."""
-    s = str(text).strip()
-    try:
-        a = float(s.removesuffix("dB").removesuffix("db").strip())
-    except ValueError:
-        raise ValueParseError(f"{label} '{s}': not a number of dB; write e.g. 40") from None
-    if not (math.isfinite(a) and 0 < a <= ATTENUATION_MAX_DB):
-        raise ValueParseError(
-            f"{label} '{s}': give the loss wanted in dB, above 0 and at most {ATTENUATION_MAX_DB:g}"
-        )
-    return a
+    return _decibels(
+        text,
+        label,
+        ATTENUATION_MAX_DB,
+        "not a number of dB; write e.g. 40",
+        f": give the loss wanted in dB, above 0 and at most {ATTENUATION_MAX_DB:g}",
+    )
 
 
 # the command line's name of each field of the targets (the form's names as keys)
