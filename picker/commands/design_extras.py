@@ -72,7 +72,7 @@ def apply_spec(args, request: dict) -> Any:
     )
     if errors:
         raise DesignError("; ".join(errors.values()))
-    stopband_hz = read_frequency(stop, "--stopband")
+    stopband_hz = read_frequency(str(stop), "--stopband")  # both given: checked above
     asked = read_attenuation(att)
     spec = order_from_spec(
         request["type"],
