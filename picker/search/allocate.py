@@ -224,6 +224,68 @@ def combine(
             if len(entries) < 8:
                 entries.append((score, pieces, tmax, tsum, bound0))
 
+    arrays: dict[tuple[int, int], tuple] = {}
+
+    def _last(s, j, p, score, tmax, tsum):
+        """The last stage's rows of class ``j`` at once (vectorised): the same entries
+        the row loop would insert, since ``found`` keeps the ``top`` smallest keys of
+        every completion it is offered, in whatever order they come."""
+        if (s, j) not in arrays:
+            rows = loaded[(s, j)]
+            u = np.asarray(rows.units)
+            mult = np.stack([(u == u[:, c : c + 1]).sum(axis=1) for c in range(u.shape[1])], 1)
+            arrays[(s, j)] = (rows.score, rows.tol_max, rows.tol_sum, u, mult)
+        sc, tm, ts, u, mult = arrays[(s, j)]
+        bound = found[-1][0] if len(found) >= top else None
+        stop = sc.size
+        if bound is not None:
+            stop = 0 if score > bound[0] else int(np.searchsorted(sc, bound[0], side="right"))
+        tried[0] += stop
+        over = steps is not None and tried[0] > steps
+        if over:
+            stop -= tried[0] - steps
+        if clock is not None:
+            clock.check()
+        if stop > 0:
+            fits = np.all((u[:stop] < 0) | (avail[np.maximum(u[:stop], 0)] >= mult[:stop]), 1)
+            idx = np.flatnonzero(fits)
+            k0 = np.maximum(score, sc[idx])
+            k2 = np.maximum(tmax, tm[idx])
+            k3 = tsum + ts[idx]
+            order = np.lexsort((idx, k3, k2, k0))[:top]
+            prefix = tuple(chosen)
+            for o in order.tolist():
+                i = int(idx[o])
+                ch = prefix + ((j, i),)
+                entry = ((float(k0[o]), p, float(k2[o]), float(k3[o]), ch), ch)
+                at = bisect.bisect(found, entry)
+                if at >= top:
+                    break
+                found.insert(at, entry)
+                del found[top:]
+                inserted[0] += 1
+        if over:
+            raise Incomplete
+
+    def _open_rows(s, j, score, p_lb, tmax, tsum, rest_tm, rest_ts):
+        """Row indices of class ``j`` of stage ``s`` whose lower-bound key can still
+        beat the ``top``-th key found (every row, before ``top`` are found). The bound
+        only falls during the loop, so a row cut here would be cut there too."""
+        rows = loaded[(s, j)]
+        if len(found) < top:
+            return range(len(rows))
+        b0, b1, b2, b3 = found[-1][0][:4]
+        lb = np.maximum(max(score, rest_score[s + 1]), rows.score)
+        stop = int(np.searchsorted(lb, b0, side="right"))
+        lb = lb[:stop]
+        k2 = np.maximum(max(tmax, rest_tm), rows.tol_max[:stop])
+        k3 = tsum + rows.tol_sum[:stop] + rest_ts
+        if p_lb != b1:
+            ok = (lb < b0) | (p_lb < b1)
+        else:
+            ok = (lb < b0) | ((k2 < b2) | ((k2 == b2) & (k3 < b3)))
+        return np.flatnonzero(ok).tolist()
+
     def _visit(s, score, pieces, tmax, tsum):
         for j, b, loader in stages[s]:
             p = pieces + j
@@ -238,12 +300,17 @@ def combine(
             ):
                 continue
             sc, tm, ts = rows_of(s, j, loader)
+            if s + 1 == n:
+                _last(s, j, p, score, tmax, tsum)
+                continue
             rest_tm, rest_ts = rest_tol(s + 1)
-            for i in range(len(sc)):
-                tried[0] += 1
+            last = -1
+            for i in _open_rows(s, j, score, p + rest_min[s + 1], tmax, tsum, rest_tm, rest_ts):
+                step, last = i - last, i
+                tried[0] += step  # the rows skipped count as tried, as in a plain loop
                 if steps is not None and tried[0] > steps:
                     raise Incomplete
-                if clock is not None and not tried[0] % CHECK_EVERY:
+                if clock is not None and tried[0] % CHECK_EVERY < step:
                     clock.check()
                 bound = found[-1][0] if len(found) >= top else None
                 lb = max(score, sc[i], rest_score[s + 1])

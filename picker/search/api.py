@@ -55,6 +55,7 @@ class SearchResult:
 
 TIES = 200  # rows of one stage made into candidates at most (equal scores can be many)
 SPARE = 4  # combinations asked for per candidate shown, so that look-alikes can go
+TRADEOFF_SHARE = 0.1  # the trade-off's own budget, a share of the time limit (docs/search.md)
 
 
 def signature(candidate: Candidate) -> tuple:
@@ -135,8 +136,9 @@ def search(
         :func:`picker.search.yieldrank.search`.
     max_error : the precision goal of "pieces", a fraction (0.005 = 0.5 %)
     time_limit : seconds (None: no limit); past it the best found so far is returned
-        with ``proven`` False and ``bound`` (the trade-off gets what is left of the
-        limit, at least a quarter of it)
+        with ``proven`` False and ``bound`` (the trade-off has a budget of its own after
+        the search, ``TRADEOFF_SHARE`` of the limit; piece counts it does not reach are
+        listed in a note)
     progress : called with :class:`picker.search.progress.Progress` records
     should_stop : called often; once it returns true the search stops as at the limit
 
@@ -219,7 +221,7 @@ def search(
     candidates = candidates[:top]
     curve: list[tuple[int, float]] = []
     if tradeoff:
-        limit = None if time_limit is None else max(clock.remaining(), 0.25 * time_limit)
+        limit = None if time_limit is None else TRADEOFF_SHARE * time_limit
         tclock = Clock(limit, progress=progress, should_stop=should_stop)
         tclock.stage, tclock.phase = 0, "trade-off"
         curve, skipped = trade(classes, space.counts, tclock)

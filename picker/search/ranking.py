@@ -44,7 +44,7 @@ from dataclasses import dataclass, field
 
 from picker.search.allocate import combine
 from picker.search.progress import Clock, Stopped
-from picker.search.tradeoff import LOOK_AHEAD, TRUNCATE
+from picker.search.tradeoff import LOOK_AHEAD, TRUNCATE, lower_bounds
 
 RANKS = ("pieces", "error")
 DEFAULT_MAX_ERROR = 0.005  # the precision goal of ``pieces``: 0.5 %
@@ -247,40 +247,43 @@ def _error(classes, counts, top, clock, build, out: Ranked) -> None:
 
 
 def _pieces(classes, counts, top, goal, clock, build, out: Ranked) -> None:
-    """``pieces``: totals in increasing order (see the module text)."""
-    fewest = [len(c.topology.positions) for c in classes]  # a position takes >= 1 piece
+    """``pieces``: totals in increasing order (see the module text). Classes are
+    searched lazily, fewest pieces first: for a total ``k`` only the classes that can
+    take part in it (``j_s <= m_s + k - k_0``, ``m_s`` the stage's fewest pieces
+    within the goal, ``k_0`` their sum) are searched, and each only as far as the goal
+    (:meth:`StageClasses.within`), so a request met by single pieces never searches a
+    pair space."""
+    fewest = [min(c.by_j, default=len(c.topology.positions)) for c in classes]
     out.bound, out.bound_of = float(sum(fewest)), "pieces"
-    within = []
+    if any(not c.by_j for c in classes):
+        out.proven = True  # a stage has no assignment at all: no candidate
+        return
     for s, c in enumerate(classes):
         clock.at(s + 1, "stage values")
-        best = c.best()
-        if not best:
-            out.proven = True
-            return
-        ok = {j: b for j, b in best.items() if b <= goal}
-        within.append(ok)
-        if ok:
-            fewest[s] = min(ok)
+        for j in sorted(c.by_j):
+            fewest[s] = j  # every class below j holds nothing within the goal
             out.bound = float(sum(fewest))
-    if any(not ok for ok in within):
-        _error(classes, counts, top, clock, build, out)
-        return
-    lowest = {0: 0.0}  # total -> lower bound of its best score (max over the stages)
-    for ok in within:
-        nxt: dict[int, float] = {}
-        for k, v in lowest.items():
-            for j, b in ok.items():
-                nxt[k + j] = min(nxt.get(k + j, math.inf), max(v, b))
-        lowest = nxt
-    totals = set(lowest)
+            if c.best_of(j, cap=goal) <= goal:
+                break
+        else:
+            _error(classes, counts, top, clock, build, out)  # this stage misses the goal
+            return
+    first = sum(fewest)
+    last = sum(max(c.by_j) for c in classes)
     key = lambda c: rank_key("pieces", goal, c)  # noqa: E731
     have = 0
     unsure = False  # a smaller total was cut short by the step limit
-    order = sorted(totals)
-    for n, k in enumerate(order):
+    for k in range(first, last + 1):
+        upto = [m + k - first for m in fewest]
+        clock.at(0, f"stage values, {k} pieces")
+        lowest = lower_bounds([c.within(goal, up) for c, up in zip(classes, upto, strict=True)])
+        if k not in lowest:  # no choice of classes within the goal has k pieces
+            if not have and not unsure:
+                out.bound = float(k + 1)
+            continue
         clock.at(0, f"joint allocation, {k} pieces")
         if not have:  # rank 1 first: proving one is far cheaper than proving a list
-            got, complete = exact_at(classes, counts, k, goal, 1, clock, build)
+            got, complete = exact_at(classes, counts, k, goal, 1, clock, build, upto)
             out.add(got, clock, key)
             if clock.stopped:
                 raise Stopped
@@ -292,11 +295,11 @@ def _pieces(classes, counts, top, goal, clock, build, out: Ranked) -> None:
                 out.step_limited = unsure = True
             elif got and not unsure:
                 out.proven = True
-            if not got and not unsure and n + 1 < len(order):
-                out.bound = float(order[n + 1])  # every total up to k holds none within the goal
+            if not got and not unsure:
+                out.bound = float(k + 1)  # every total up to k holds none within the goal
             if not got:
                 continue
-        got, complete = exact_at(classes, counts, k, goal, top - have, clock, build)
+        got, complete = exact_at(classes, counts, k, goal, top - have, clock, build, upto)
         out.add(got, clock, key)
         if clock.stopped:
             raise Stopped
@@ -315,18 +318,22 @@ def _pieces(classes, counts, top, goal, clock, build, out: Ranked) -> None:
     out.add([c for c in fill.candidates if c.score > goal], clock, key)
 
 
-def exact_at(classes, counts, k: int, t: float, top: int, clock, build):
+def exact_at(classes, counts, k: int, t: float, top: int, clock, build, upto=None):
     """(the best ``top`` candidates with exactly ``k`` pieces scoring ``<= t``, complete).
 
     Classes are first cut to their best ``TRUNCATE`` rows; the list is accepted when
     nothing was cut, or when ``top`` were found and the worst of them scores below
     every cut class's last row (a row left out scores at least that, so any
-    combination using one is worse); otherwise eight times as many rows are loaded."""
+    combination using one is worse); otherwise eight times as many rows are loaded.
+    ``upto``: per stage the largest class that can take part in a total of ``k``."""
     keep = TRUNCATE
     while True:
         tails: dict[int, dict] = {}
         stage_classes = [
-            c.classes(t, keep=keep, tails=tails.setdefault(s, {})) for s, c in enumerate(classes)
+            c.classes(
+                t, keep=keep, tails=tails.setdefault(s, {}), upto=None if upto is None else upto[s]
+            )
+            for s, c in enumerate(classes)
         ]
         found, loaded, complete = combine(
             stage_classes,

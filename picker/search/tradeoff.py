@@ -41,38 +41,79 @@ class StageClasses:
             problem = StageProblem(topo, target, space, arrays, label=label)
             if not problem.empty():
                 self.by_j.setdefault(sum(pat), []).append((problem, back))
-        self._best: dict[int, float] | None = None
+        self._best_j: dict[int, float] = {}  # j -> exact best of class j (inf: no row)
+        self._above: dict[int, float] = {}  # j -> a score class j has no row at or below
 
-    def best(self) -> dict[int, float]:
-        """``{j: best score with exactly j pieces}`` over the reachable classes."""
-        if self._best is None:
-            best: dict[int, float] = {}
-            for j, problems in self.by_j.items():
-                b = math.inf
-                # densest patterns (most pairs on the resistor side) first: their best
-                # caps the search of the others in the class
-                for problem, _ in sorted(problems, key=lambda pb: -_density(pb[0])):
-                    if self.clock is not None:
-                        self.clock.check()
-                    problem.clock = self.clock  # checked inside the stage's work too
-                    rows, _ = problem.best(1, cap=b)
-                    if len(rows):
-                        b = min(b, float(rows.score[0]))
-                if math.isfinite(b):
-                    best[j] = b
-            self._best = best  # only once complete: a stopped call leaves no partial answer
-        return self._best
+    def best_of(self, j: int, cap: float = math.inf) -> float:
+        """The exact best score of class ``j`` when it is ``<= cap``, else inf (class
+        ``j`` then has no row ``<= cap``). Classes are searched only when asked for,
+        so a search that needs the few-piece classes never touches the pair spaces.
 
-    def classes(self, t: float, *, keep: int | None = None, tails: dict | None = None):
-        """``[(j, b_j, loader)]`` for the classes that have an assignment ``<= t``.
+        Exact: each pattern's ``best(1, cap=c)`` returns its best row when that scores
+        ``<= c`` (:meth:`StageProblem.best`); ``c`` is the smaller of ``cap`` and the
+        best of the patterns before, so the least of the answers is the class's best
+        whenever that is ``<= cap``. A stopped call caches nothing."""
+        if j in self._best_j:
+            b = self._best_j[j]
+            return b if b <= cap else math.inf
+        if j not in self.by_j or self._above.get(j, -math.inf) >= cap:
+            return math.inf
+        b = math.inf
+        # densest patterns (most pairs on the resistor side) first: their best caps the
+        # search of the others in the class
+        for problem, _ in sorted(self.by_j[j], key=lambda pb: -_density(pb[0])):
+            if self.clock is not None:
+                self.clock.check()
+            problem.clock = self.clock  # checked inside the stage's work too
+            rows, _ = problem.best(1, cap=min(b, cap))
+            if len(rows):
+                b = min(b, float(rows.score[0]))
+        if b <= cap:
+            self._best_j[j] = b  # exact (inf: the class has no row at all)
+        else:
+            self._above[j] = cap
+        return b if b <= cap else math.inf
+
+    def best(self, upto: int | None = None) -> dict[int, float]:
+        """``{j: best score with exactly j pieces}`` over the reachable classes (those
+        with ``j <= upto`` when given), each exact; computed in increasing ``j``."""
+        out = {}
+        for j in sorted(self.by_j):
+            if upto is not None and j > upto:
+                break
+            b = self.best_of(j)
+            if math.isfinite(b):
+                out[j] = b
+        return out
+
+    def within(self, t: float, upto: int | None = None) -> dict[int, float]:
+        """``{j: exact best}`` of the classes (``j <= upto``) whose best is ``<= t``;
+        a class above ``t`` is searched only as far as ``t``."""
+        out = {}
+        for j in sorted(self.by_j):
+            if upto is not None and j > upto:
+                break
+            b = self.best_of(j, cap=t)
+            if b <= t:
+                out[j] = b
+        return out
+
+    def classes(
+        self,
+        t: float,
+        *,
+        keep: int | None = None,
+        tails: dict | None = None,
+        upto: int | None = None,
+    ):
+        """``[(j, b_j, loader)]`` for the classes (``j <= upto``) with an assignment ``<= t``.
 
         ``keep``: a loader returns only the best ``keep`` rows of its class within ``t``;
         when it cuts, ``tails[j]`` receives the score of the last row kept (every row
         left out scores at least that)."""
         out = []
-        for j, b in sorted(self.best().items()):
-            if b <= t:
-                out.append((j, b, lambda j=j: self.rows(j, t, keep=keep, tails=tails)))
+        for j, b in self.within(t, upto).items():
+            out.append((j, b, lambda j=j: self.rows(j, t, keep=keep, tails=tails)))
         return out
 
     def rows(
@@ -126,31 +167,52 @@ def merge(parts: list[StageRows]) -> StageRows:
 
 def tradeoff(classes: list[StageClasses], counts, clock=None):
     """([(total pieces, best score)] for every reachable piece count, fewest pieces first,
-    [piece counts left out because the joint allocation hit its step limit]).
+    [piece counts left out: the joint allocation hit its step limit there, or the clock
+    ran out before them]).
 
-    ``clock``: when it runs out, the curve found so far (every point on it exact) and
-    the piece counts not reached are returned; ``clock.stopped`` tells the caller."""
+    Piece counts are done in increasing order, so when ``clock`` runs out the curve
+    holds the fewest-piece counts (every point on it exact); ``clock.stopped`` tells
+    the caller."""
     from picker.search.progress import Stopped
-
-    try:
-        return _tradeoff(classes, counts, clock)
-    except Stopped:
-        return [], []
-
-
-def _tradeoff(classes: list[StageClasses], counts, clock):
-    from picker.search.api import grow
 
     for c in classes:  # the trade-off's own clock (its budget), in the stages' work too
         c.clock = clock
+    curve: list[tuple[int, float]] = []
+    skipped: list[int] = []
+    lowest = [min(c.by_j, default=0) for c in classes]
+    highest = sum(max(c.by_j, default=0) for c in classes)
+    if any(not c.by_j for c in classes):
+        return curve, skipped
+    first = sum(lowest)
+    for k in range(first, highest + 1):
+        try:
+            point = _point(classes, counts, k, [m + k - first for m in lowest], clock)
+        except Stopped:
+            point = "stopped"
+        if point == "stopped" or (clock is not None and clock.stopped):
+            skipped += [k for k in range(k, highest + 1) if _reachable(classes, k)]
+            break
+        if point is None:
+            continue
+        if point == "limit":
+            skipped.append(k)
+        else:
+            curve.append(point)
+    return curve, skipped
 
-    best = [c.best() for c in classes]
-    if any(not b for b in best):
-        return [], []
-    if len(classes) == 1:
-        return sorted((j, s) for j, s in best[0].items() if math.isfinite(s)), []
+
+def _reachable(classes, k: int) -> bool:
+    """Some choice of one class per stage (searched or not) has ``k`` pieces in all."""
+    sums = {0}
+    for c in classes:
+        sums = {s + j for s in sums for j in c.by_j}
+    return k in sums
+
+
+def lower_bounds(bests: list[dict[int, float]]) -> dict[int, float]:
+    """``LB(k) = min over splits j_1 + ... = k of max_s b_s(j_s)`` (dynamic programming)."""
     lb = {0: 0.0}
-    for b in best:  # LB(k) by dynamic programming over the stages
+    for b in bests:
         nxt: dict[int, float] = {}
         for k, s in lb.items():
             for j, sj in b.items():
@@ -158,47 +220,53 @@ def _tradeoff(classes: list[StageClasses], counts, clock):
                 if v < nxt.get(k + j, math.inf):
                     nxt[k + j] = v
         lb = nxt
-    curve: list[tuple[int, float]] = []
-    skipped: list[int] = []
-    for k in sorted(lb):
-        if clock is not None and clock.stopped:
-            skipped.append(k)
+    return lb
+
+
+def _point(classes, counts, k: int, upto: list[int], clock):
+    """(k, exact best score with ``k`` pieces), None when no class choice has ``k``
+    pieces, "limit" when the joint allocation hit its step limit. ``upto[s]``: the
+    largest class of stage ``s`` that can take part in a total of ``k``."""
+    from picker.search.api import grow
+
+    bests = [c.best(up) for c, up in zip(classes, upto, strict=True)]
+    if len(classes) == 1:
+        return (k, bests[0][k]) if k in bests[0] else None
+    lb = lower_bounds(bests)
+    if k not in lb:
+        return None
+    t, keep = lb[k], TRUNCATE
+    while True:
+        tails: dict = {}
+        stage_classes = [
+            c.classes(t, keep=keep, tails=tails.setdefault(s, {}), upto=upto[s])
+            for s, c in enumerate(classes)
+        ]
+        # no suffix memo here: with the total fixed it costs more than it saves
+        # (measured: 8th order on the sample, 20 s without, 86 s with)
+        found, loaded, complete = combine(
+            stage_classes,
+            counts,
+            top=1,
+            pieces_total=k,
+            memo=False,
+            look_ahead=LOOK_AHEAD,
+            clock=clock,
+        )
+        if not complete:
+            return "stopped" if clock is not None and clock.stopped else "limit"
+        # a class cut to its best `keep` rows is exact when nothing it left out
+        # could beat the score found: every left-out row scores >= its tail
+        cut = [tails[s][j] for (s, j) in loaded if j in tails[s]]
+        if not found and cut:
+            keep *= 8  # the cut rows may hold the feasible ones
             continue
-        t, keep = lb[k], TRUNCATE
-        while True:
-            tails: dict = {}
-            stage_classes = [
-                c.classes(t, keep=keep, tails=tails.setdefault(s, {}))
-                for s, c in enumerate(classes)
-            ]
-            # no suffix memo here: with the total fixed it costs more than it saves
-            # (measured: 8th order on the sample, 20 s without, 86 s with)
-            found, loaded, complete = combine(
-                stage_classes,
-                counts,
-                top=1,
-                pieces_total=k,
-                memo=False,
-                look_ahead=LOOK_AHEAD,
-                clock=clock,
-            )
-            if not complete:
-                skipped.append(k)
-                break
-            # a class cut to its best `keep` rows is exact when nothing it left out
-            # could beat the score found: every left-out row scores >= its tail
-            cut = [tails[s][j] for (s, j) in loaded if j in tails[s]]
-            if not found and cut:
-                keep *= 8  # the cut rows may hold the feasible ones
-                continue
-            if found:
-                score = float(found[0][0][0])
-                if all(score <= tail for tail in cut):
-                    curve.append((k, score))
-                    break
-                keep *= 8
-                continue
-            if math.isinf(t):
-                break
-            t = grow(t)
-    return curve, skipped
+        if found:
+            score = float(found[0][0][0])
+            if all(score <= tail for tail in cut):
+                return (k, score)
+            keep *= 8
+            continue
+        if math.isinf(t):
+            return None
+        t = grow(t)
