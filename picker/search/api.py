@@ -55,7 +55,10 @@ class SearchResult:
 
 TIES = 200  # rows of one stage made into candidates at most (equal scores can be many)
 SPARE = 4  # combinations asked for per candidate shown, so that look-alikes can go
-TRADEOFF_SHARE = 0.1  # the trade-off's own budget, a share of the time limit (docs/search.md)
+# The trade-off's own budget after the search (docs/search.md): as long as the search
+# took, at least TRADEOFF_MIN_S, at most TRADEOFF_SHARE of the time limit
+TRADEOFF_SHARE = 0.1
+TRADEOFF_MIN_S = 0.5
 
 
 def signature(candidate: Candidate) -> tuple:
@@ -137,8 +140,8 @@ def search(
     max_error : the precision goal of "pieces", a fraction (0.005 = 0.5 %)
     time_limit : seconds (None: no limit); past it the best found so far is returned
         with ``proven`` False and ``bound`` (the trade-off has a budget of its own after
-        the search, ``TRADEOFF_SHARE`` of the limit; piece counts it does not reach are
-        listed in a note)
+        the search, see ``TRADEOFF_SHARE``; piece counts it does not reach are listed in
+        a note)
     progress : called with :class:`picker.search.progress.Progress` records
     should_stop : called often; once it returns true the search stops as at the limit
 
@@ -176,7 +179,9 @@ def search(
     opamp, warnings = choose_opamp(stock.opamps, stages)
     notes: list[str] = []
     proven, bound, goal_met, bound_of = True, None, True, None
-    if len(stages) == 1 and rank == "error":
+    if len(stages) == 1 and rank == "error" and time_limit is None and should_stop is None:
+        # one search over the whole space; under a limit the classes go fewest pieces
+        # first instead, so that a stopped search has the best of what it finished
         topo, target = stages[0]
         problem = StageProblem(
             topo, target, space, {p.name: space.values[p.kind] for p in topo.positions}
@@ -221,7 +226,9 @@ def search(
     candidates = candidates[:top]
     curve: list[tuple[int, float]] = []
     if tradeoff:
-        limit = None if time_limit is None else TRADEOFF_SHARE * time_limit
+        limit = None
+        if time_limit is not None:  # as long as the search took, within its bounds
+            limit = min(TRADEOFF_SHARE * time_limit, max(TRADEOFF_MIN_S, clock.elapsed()))
         tclock = Clock(limit, progress=progress, should_stop=should_stop)
         tclock.stage, tclock.phase = 0, "trade-off"
         curve, skipped = trade(classes, space.counts, tclock)

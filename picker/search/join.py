@@ -23,7 +23,14 @@ LIMIT = 4_000_000  # rows a group may hold before the search gives up
 
 
 def group_rows(
-    group, arrays: dict, ctx, *, neighbors: bool = False, block: int = BLOCK, outer=None
+    group,
+    arrays: dict,
+    ctx,
+    *,
+    neighbors: bool = False,
+    block: int = BLOCK,
+    outer=None,
+    tick=None,
 ) -> Iterator[dict[str, np.ndarray]]:
     """Blocks of complete rows of ``group`` (position -> index array).
 
@@ -33,7 +40,8 @@ def group_rows(
     so a caller can tighten the threshold as it finds better rows: branch and bound).
     ``neighbors``: also keep the nearest value just outside each non-empty window (the
     cheap probe that finds a first feasible score). ``outer``: indices of the first
-    position to use (default all), taken in blocks of growing size.
+    position to use (default all), taken in blocks of growing size. ``tick``: called
+    before each block at every level (a clock's check, which may raise to stop).
     """
     first = group.steps[0].position
     if outer is None:
@@ -42,12 +50,14 @@ def group_rows(
     while start < outer.size:
         rows = {first: outer[start : start + size]}
         current = ctx() if callable(ctx) else ctx
-        yield from _expand(group.steps, 1, rows, arrays, current, neighbors, block)
+        yield from _expand(group.steps, 1, rows, arrays, current, neighbors, block, tick)
         start += size
         size = min(2 * size, block)
 
 
-def _expand(steps, level, rows, arrays, ctx, neighbors, block):
+def _expand(steps, level, rows, arrays, ctx, neighbors, block, tick=None):
+    if tick is not None:
+        tick()
     nrows = next(iter(rows.values())).size
     if nrows == 0:
         return
@@ -67,7 +77,7 @@ def _expand(steps, level, rows, arrays, ctx, neighbors, block):
         stop = max(stop, start + 1)
         sub = slice(start, stop)
         new_rows = _materialize(rows, sub, lo[sub], counts[sub], step.position)
-        yield from _expand(steps, level + 1, new_rows, arrays, ctx, neighbors, block)
+        yield from _expand(steps, level + 1, new_rows, arrays, ctx, neighbors, block, tick)
         start = stop
 
 

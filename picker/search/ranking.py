@@ -31,14 +31,14 @@ of rank 1's key: for ``error``, the worst error no candidate goes below (the lar
 best score of a stage alone, or a threshold searched completely without a find); for
 ``pieces``, the fewest pieces a candidate within the goal can have (every smaller
 total searched completely, or each stage's fewest pieces within the goal). When the
-limit passes before any candidate is found, :func:`quick` takes one (unproven) from
-each stage's best rows, and only if those block each other does the ``error`` search
-go on without the limit until it has one (a shell always gets a candidate to show, or
-a clear "no design").
+limit passes before any candidate is found, the ``error`` search goes on with a clock
+of its own, fewest-piece classes first, until it has one (a shell always gets a
+candidate to show, or a clear "no design").
 """
 
 from __future__ import annotations
 
+import contextlib
 import math
 from dataclasses import dataclass, field
 
@@ -103,6 +103,10 @@ def ranked(classes, counts, *, rank: str, max_error: float, top: int, clock: Clo
             _error(classes, counts, top, clock, build, out)
     except Stopped:
         stopped = True
+    if stopped and rank == "error" and not out.proven:
+        # each stage's best is at least the floor of its classes: no candidate goes below
+        floor = max((c.floor() for c in classes), default=0.0)
+        out.bound, out.bound_of = max(out.bound or 0.0, floor), "error"
     if stopped and not out.candidates:
         # One more span as long as the time limit (at least RESCUE_S) to find a
         # first candidate; past it the search ends with none and says so (api.search).
@@ -112,20 +116,19 @@ def ranked(classes, counts, *, rank: str, max_error: float, top: int, clock: Clo
             progress=clock.progress,
         )
         for c in classes:
-            c.clock = None
-        try:
-            out.candidates, floor = quick(classes, counts, build, rescue)
-            if rank == "error" or out.bound_of is None:
-                # each stage's best over its whole space is exact: no candidate goes below
-                out.bound, out.bound_of = max(out.bound or 0.0, floor), "error"
-            if not out.candidates:  # the stages block each other: the full search finds one
-                sub = Ranked()
-                _error(classes, counts, 1, rescue, build, sub)
-                out.candidates = sub.candidates
-                if rank == "error" and sub.proven:
-                    out.proven = True
-        except Stopped:
-            out.candidates = []
+            c.clock = rescue
+        sub = Ranked()
+        with contextlib.suppress(Stopped):
+            # fewest-piece classes first (_error under a clock): a first candidate soon
+            _error(classes, counts, 1, rescue, build, sub, first=True)
+        out.candidates = sub.candidates
+        if rank == "error" and sub.proven:
+            out.proven = True
+        if rank == "error" or out.bound_of is None:
+            # each stage's best is at least the floor of its classes: none goes below
+            floor = max((c.floor() for c in classes), default=0.0)
+            out.bound, out.bound_of = max(out.bound or 0.0, floor), "error"
+        if not out.candidates:
             out.timed_out = True
             return out
         out.notes.append(
@@ -167,41 +170,13 @@ def ranked(classes, counts, *, rank: str, max_error: float, top: int, clock: Clo
 
 
 RESCUE_S = 5.0  # at least this long for a first candidate after a very short limit
-QUICK = (8, 64)  # rows per stage the quick first candidate tries
-
-
-def quick(classes, counts, build, clock: Clock | None = None) -> tuple[list, float]:
-    """(a first candidate, fast and unproven, or none; a proved lower bound of the worst
-    error). The candidate: each stage's best rows over its whole space (one search per
-    stage, not one per class), joined with quantities shared by a short depth-first
-    search; none when these rows block each other. The bound: the largest of the
-    stages' best scores, each exact for its stage alone (:meth:`StageProblem.best`)."""
-    from picker.search.stage import StageProblem
-
-    floor = 0.0
-    for need in QUICK:
-        stage_rows = []
-        for c in classes:
-            arrays = {p.name: c.space.values[p.kind] for p in c.topology.positions}
-            problem = StageProblem(c.topology, c.target, c.space, arrays)
-            problem.clock = clock
-            rows, _ = problem.best(need)
-            if not len(rows):
-                return [], floor
-            floor = max(floor, float(rows.score[0]))
-            stage_rows.append(rows)
-        offered = [[(0, float(r.score[0]), lambda r=r: r)] for r in stage_rows]
-        found, loaded, _ = combine(offered, counts, top=1, steps=20_000)
-        if found:
-            return [build(key, rows, loaded) for key, rows in found], floor
-    return [], floor
 
 
 def _stop_note(rank: str, out: Ranked, clock: Clock) -> str:
     head = f"stopped after {clock.elapsed():.1f} s"
     if out.proven:
         return f"{head}: rank 1 is proven; the later ranks are the best found"
-    if out.bound is None:
+    if out.bound is None or out.bound <= 0.0:
         return f"{head}: rank 1 is the best found, not proven"
     if out.bound_of == "pieces":
         proof = f"no candidate within the goal uses fewer than {int(out.bound)} pieces"
@@ -210,24 +185,55 @@ def _stop_note(rank: str, out: Ranked, clock: Clock) -> str:
     return f"{head}: rank 1 is the best found, not proven; proved so far: {proof}"
 
 
-def _error(classes, counts, top, clock, build, out: Ranked) -> None:
-    """``error``: the threshold loop of :mod:`picker.search.api` with the clock."""
+def _error(classes, counts, top, clock, build, out: Ranked, *, first: bool = False) -> None:
+    """``error``: the threshold loop of :mod:`picker.search.api` with the clock.
+
+    Under a time limit (or a stop key) the loop first runs on the few-piece classes
+    alone, one more class per stage each time (:func:`_error_upto`): each such pass is
+    exact among those classes only, so its candidates are real but unproven, and a
+    search stopped before the whole space is done still has the best of what it
+    finished. The last pass, over every class, is the proof. ``first``: return after
+    the first pass that finds a candidate (the search for a first candidate)."""
+    if math.isfinite(clock.deadline) or clock.should_stop is not None:
+        fewest = [min(c.by_j, default=0) for c in classes]
+        most = max(
+            (max(c.by_j, default=0) - m for c, m in zip(classes, fewest, strict=True)), default=0
+        )
+        key = lambda c: rank_key("error", 0.0, c)  # noqa: E731
+        for extra in range(most):
+            part = Ranked()
+            _error_upto(classes, counts, top, clock, build, part, [m + extra for m in fewest])
+            out.add(part.candidates, clock, key)
+            if first and out.candidates:
+                return
+    _error_upto(classes, counts, top, clock, build, out, None)
+
+
+def _error_upto(classes, counts, top, clock, build, out: Ranked, upto) -> None:
+    """The threshold loop over the classes ``j <= upto[s]`` (every class: None). Only
+    the loop over every class sets ``proven`` and ``bound``."""
     from picker.search.api import grow
 
+    whole = upto is None
+    ups = [None] * len(classes) if upto is None else upto
     t = 0.0
-    for s, c in enumerate(classes):
+    for s, (c, up) in enumerate(zip(classes, ups, strict=True)):
         clock.at(s + 1, "stage values")
-        best = c.best()
+        best = c.best(up)
         if not best:
-            out.proven = True  # a stage has no assignment at all: no candidate
+            out.proven = whole  # a stage has no assignment at all: no candidate
             return
         t = max(t, min(best.values()))
-        out.bound, out.bound_of = t, "error"
+        if whole:
+            out.bound, out.bound_of = t, "error"
     clock.at(0, "joint allocation")
     key = lambda c: rank_key("error", 0.0, c)  # noqa: E731
     while True:
         found, loaded, complete = combine(
-            [c.classes(t) for c in classes], counts, top=top, clock=clock
+            [c.classes(t, upto=up) for c, up in zip(classes, ups, strict=True)],
+            counts,
+            top=top,
+            clock=clock,
         )
         out.add([build(k, rows, loaded) for k, rows in found], clock, key)
         if clock.stopped:
@@ -235,6 +241,11 @@ def _error(classes, counts, top, clock, build, out: Ranked) -> None:
         if not complete:
             out.step_limited = True
             return
+        if not whole:
+            if found or math.isinf(t):
+                return
+            t = grow(t)
+            continue
         if found:
             out.proven = True
         else:

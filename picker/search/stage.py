@@ -157,6 +157,7 @@ class StageProblem:
                 lambda: self._ctx(state["t"], probe),
                 neighbors=probe,
                 outer=outer,
+                tick=self._tick,
             ):
                 self._tick()
                 self._keep(self._filter(rows, state["t"], probe), kept, state, shrink)
@@ -171,7 +172,7 @@ class StageProblem:
         for group in groups:
             self._tick()
             rows = join.collect(
-                join.group_rows(group, self.arrays, ctx, neighbors=probe),
+                join.group_rows(group, self.arrays, ctx, neighbors=probe, tick=self._tick),
                 f"{self.label} ({self.topology.key})",
             )
             if not rows:
@@ -201,7 +202,10 @@ class StageProblem:
         none = {n: np.zeros(0, np.int64) for n in self.names}
         label = f"{self.label} ({self.topology.key})"
         rows2 = join.collect(
-            join.group_rows(second, self.arrays, self._ctx(t, probe), neighbors=probe), label
+            join.group_rows(
+                second, self.arrays, self._ctx(t, probe), neighbors=probe, tick=self._tick
+            ),
+            label,
         )
         if not rows2:
             return self._finish(none, t, probe)
@@ -218,7 +222,12 @@ class StageProblem:
             outer = np.arange(0, n, max(1, n // PROBE_OUTER), dtype=np.int64)
         kept: list[tuple] = []
         for rows1 in join.group_rows(
-            first, self.arrays, lambda: self._ctx(state["t"], probe), neighbors=probe, outer=outer
+            first,
+            self.arrays,
+            lambda: self._ctx(state["t"], probe),
+            neighbors=probe,
+            outer=outer,
+            tick=self._tick,
         ):
             self._tick()
             v1 = self._values(rows1)

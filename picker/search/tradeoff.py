@@ -74,6 +74,12 @@ class StageClasses:
             self._above[j] = cap
         return b if b <= cap else math.inf
 
+    def floor(self) -> float:
+        """A proved lower bound of the stage's best score over every class: the least
+        over the classes of the exact best where known, of a score the class was
+        searched up to without a row, else 0 (nothing known)."""
+        return min((self._best_j.get(j, self._above.get(j, 0.0)) for j in self.by_j), default=0.0)
+
     def best(self, upto: int | None = None) -> dict[int, float]:
         """``{j: best score with exactly j pieces}`` over the reachable classes (those
         with ``j <= upto`` when given), each exact; computed in increasing ``j``."""
