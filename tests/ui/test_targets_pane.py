@@ -192,3 +192,18 @@ async def test_the_form_scrolls_and_the_focused_field_stays_in_view(stock_copy):
         assert app.screen.get_widget_at(region.x + 1, region.y)[0] is field
         for line in ("#t-status", "#t-outcome"):  # the state lines stay in view
             assert app.screen.query_one(line).region.bottom <= SIZE[1] - 1
+
+
+async def test_a_yield_search_names_rank_1s_yield_under_the_form(stock_copy):
+    app = PickerApp(stock_copy)
+    async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
+        await pilot.press("2")
+        app.screen.query_one("#t-rank", Select).focus()
+        await pilot.press("enter")
+        await pilot.pause()
+        await pilot.press("down", "down", "enter")
+        await settle(pilot, app, 0.5)
+        outcome = shown(app, "#t-outcome")
+        assert "; rank 1 yield " in outcome and "%" in outcome, outcome
+        assert not app.screen.query_one("#t-status").display  # no empty row when all read

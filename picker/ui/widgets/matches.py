@@ -101,6 +101,8 @@ class MatchesPane(Vertical):
             )
         if not getattr(result, "goal_met", True):
             note += "; none within the precision goal"
+        if yields:  # the yield ranking: rank 1's yield in the status lines too
+            note += f"; rank 1 yield {yield_text(yields[0])}"
         self._show_status(
             f"{head}: {n} candidate(s) for {what} in {seconds:.2f} s{note}"
             + ("; enter on a row: look closer" if n else "")

@@ -129,6 +129,7 @@ class TargetsPane(Vertical):
             errors = exc.errors
         except Exception as exc:  # a reader of the core missing or broken
             put(status, say("error", f"cannot read the form: {type(exc).__name__}: {exc}"))
+            status.display = True
             return
         hints = dict(HINTS)
         if targets is not None and targets.spec:
@@ -139,11 +140,13 @@ class TargetsPane(Vertical):
             put(self.query_one(f"#m-{name}", Static), text)
         if targets is None:
             put(status, say("waiting", "fix the fields marked error"))
+            status.display = True
             if self.targets is not None:
                 self.targets = None
                 self.post_message(self.Invalid())
             return
         put(status, "")
+        status.display = False  # no empty row under the form
         if targets != self.targets:
             self.targets = targets
             self.post_message(self.Changed(targets))
