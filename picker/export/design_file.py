@@ -207,10 +207,28 @@ def check_save_target(path: Path, stock) -> None:
     ``stock.durable.read_bounded``."""
     hint = "pick another name, e.g. d.toml; nothing was written"
     path = Path(path)
+    if not check_output_target(path, stock, what="the design", hint=hint):
+        return
+    try:
+        old = tomlread.parse(decode(read_bounded(path), str(path)))
+    except (OSError, StockFileError, tomlread.TomlProblem):
+        old = None
+    if not (isinstance(old, dict) and "candidate" in old and "format" in old):
+        raise DesignError(
+            f"{path}: exists and is not a design saved by picker, so it is not replaced; {hint}"
+        )
+
+
+def check_output_target(path: Path, stock, *, what: str = "the design", hint: str) -> bool:
+    """Refuse (DesignError naming the path, the reason and ``hint``) to write ``what``
+    over a folder, a FIFO, a device or socket, or the stock file ``stock`` was read
+    from. True when a regular file is there already (the caller decides about it),
+    False when nothing is."""
+    path = Path(path)
     try:
         st = os.stat(path)
     except FileNotFoundError:
-        return
+        return False
     except OSError as exc:
         raise DesignError(f"{path}: cannot check it: {describe_os_error(exc)}; {hint}") from None
     if stat.S_ISDIR(st.st_mode):
@@ -225,17 +243,10 @@ def check_save_target(path: Path, stock) -> None:
         same = False
     if same:
         raise DesignError(
-            f"{path}: is the stock file the design came from; saving there "
+            f"{path}: is the stock file the design came from; writing {what} there "
             f"would replace your stock; {hint}"
         )
-    try:
-        old = tomlread.parse(decode(read_bounded(path), str(path)))
-    except (OSError, StockFileError, tomlread.TomlProblem):
-        old = None
-    if not (isinstance(old, dict) and "candidate" in old and "format" in old):
-        raise DesignError(
-            f"{path}: exists and is not a design saved by picker, so it is not replaced; {hint}"
-        )
+    return True
 
 
 def design_document(*, candidate: Candidate, request: dict, stock) -> dict:
@@ -354,12 +365,12 @@ def _plain(value):
     return str(value)
 
 
-def write_atomic(path: Path, data: bytes) -> None:
+def write_atomic(path: Path, data: bytes, what: str = "the design") -> None:
     """Write ``data`` to ``path`` whole (``stock.durable.write_atomic``); DesignError if not."""
     try:
         durable.write_atomic(Path(path), data)
     except OSError as exc:
-        raise DesignError(f"{path}: cannot write the design: {describe_os_error(exc)}") from exc
+        raise DesignError(f"{path}: cannot write {what}: {describe_os_error(exc)}") from exc
 
 
 # loading: picker/export/design_load.py (re-exported here)

@@ -45,6 +45,8 @@ Anywhere
   s           stop the running search: its best so far is shown
 4 chosen      b: build it (asks first); u: undo the last build
               v: its step response and group delay
+              w: write it to files: saved design, BOM CSV, netlist
+              space/page down, j/k or up/down: the rest of the pane
 Dialogs       y yes, n no; a form: ctrl+g cancels (escape too)
 
 Every write to the stock file is locked and atomic, and refused

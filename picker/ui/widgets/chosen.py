@@ -36,6 +36,7 @@ class ChosenPane(VerticalScroll):
     BINDINGS = [
         Binding("b", "build", "build"),
         Binding("u", "undo", "undo build"),
+        Binding("w", "write_files", "write files"),
         Binding("j", "scroll_down", "down", show=False),
         Binding("k", "scroll_up", "up", show=False),
         Binding("space", "page_down", "page down", show=False),
@@ -95,7 +96,7 @@ class ChosenPane(VerticalScroll):
         what = f" for {answers(targets)}" if targets is not None else ""
         self.query_one("#c-title", Static).update(
             f"candidate {rank}{what}\nworst error {pct(candidate.score, 3)}, "
-            f"{candidate.pieces} pieces{warn}   (b: build it, u: undo the last build)"
+            f"{candidate.pieces} pieces{warn}   (b: build it, w: write files)"
         )
         self._show_stale()
         self._line("#c-status", "")
@@ -224,6 +225,23 @@ class ChosenPane(VerticalScroll):
         self.app.push_screen(
             ConfirmScreen(question, body, yes=yes, no="n: no, leave the stock as it is"),
             answered,
+        )
+
+    def action_write_files(self) -> None:
+        """w: the saved design, BOM CSV and netlist, through a short form of names."""
+        if self.candidate is None:
+            self._status(say("error", "choose a candidate first (pane 3)"))
+            return
+        from picker.ui.screens.write_files import WriteFilesScreen
+
+        def answered(done: list[str] | None) -> None:
+            if done:
+                self._status("wrote: " + "; ".join(done))
+            else:
+                self._status("nothing written")
+
+        self.app.push_screen(
+            WriteFilesScreen(self.candidate, self.rank, self.targets, self.stock), answered
         )
 
     def action_undo(self) -> None:
