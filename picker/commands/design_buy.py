@@ -178,29 +178,37 @@ def side(pq) -> str:
     return "no design" if pq is None else f"{pq[0]} pieces, {pct(pq[1])}"
 
 
-def print_section(buy, *, file=None, width: int | None = None) -> None:
-    """The "What to buy" section of the report."""
-    from rich.console import Console
+def buy_section(buy) -> list:
+    """The "What to buy" section as rich renderables (the CLI report, the TUI's matches)."""
     from rich.table import Table
     from rich.text import Text
 
-    console = Console(file=file or sys.stdout, width=width or min(Console().width, 100))
-    table = Table(title="What to buy", title_justify="left", show_lines=False)
-    for col in ("buy", "how many", "rank 1 before", "rank 1 after"):
-        table.add_column(col)
-    for s in buy.suggestions:
-        what = " + ".join(describe(p) for p in s.purchases)
-        many = " + ".join(str(p.qty) for p in s.purchases)
-        table.add_row(Text(what), many, side(s.before), side(s.after))
+    parts: list = []
     if buy.suggestions:
-        console.print(table)
+        table = Table(title="What to buy", title_justify="left", show_lines=False)
+        for col in ("buy", "how many", "rank 1 before", "rank 1 after"):
+            table.add_column(col)
+        for s in buy.suggestions:
+            what = " + ".join(describe(p) for p in s.purchases)
+            many = " + ".join(str(p.qty) for p in s.purchases)
+            table.add_row(Text(what), many, side(s.before), side(s.after))
+        parts.append(table)
     else:
-        console.print(
+        parts.append(
             Text(f"What to buy: no purchase of the {len(buy.tried)} values tried improves rank 1")
         )
     tried = f"{len(buy.tried)} values tried, {buy.searched} searches"
     if buy.ruled_out:
         tried += f", {buy.ruled_out} purchases ruled out by searches of single stages"
-    console.print(Text(f"  ({tried})"))
-    for note in buy.notes:
-        console.print(Text(f"  note: {note}"))
+    parts.append(Text(f"  ({tried})"))
+    parts += [Text(f"  note: {note}") for note in buy.notes]
+    return parts
+
+
+def print_section(buy, *, file=None, width: int | None = None) -> None:
+    """The "What to buy" section of the report."""
+    from rich.console import Console
+
+    console = Console(file=file or sys.stdout, width=width or min(Console().width, 100))
+    for part in buy_section(buy):
+        console.print(part)

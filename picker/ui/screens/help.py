@@ -43,6 +43,8 @@ Anywhere
               out peak V (as the CLI's --window, --temp, --supply ..)
 3 matches     up/down, then enter: look closer (opens pane 4)
   s           stop the running search: its best so far is shown
+  p           what to buy to improve these matches (as --suggest 3);
+              s stops it
 4 chosen      b: build it (asks first); u: undo the last build
               v: its step response and group delay
               w: write it to files: saved design, BOM CSV, netlist

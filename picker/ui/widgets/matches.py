@@ -1,19 +1,28 @@
-"""The matches pane: ranked candidates and the parts-versus-precision trade-off.
+"""The matches pane: ranked candidates, what to buy, the parts-versus-precision trade-off.
 
 The screen feeds it (``show_busy``, ``show_result``, ``show_message``); choosing a
-row posts ``MatchesPane.Chosen`` with the candidate.
+row posts ``MatchesPane.Chosen`` with the candidate. ``p`` runs the suggestion search
+of ``picker design --suggest`` (``picker.ui.buying``) for the targets of the rows shown,
+in a child process; ``s`` stops it (and, when none runs, the screen's search). The
+suggestions show under the rows: what to buy, rank 1 before and after.
 """
 
 from __future__ import annotations
 
-from textual import on
+from rich.console import Group
+from textual import on, work
 from textual.app import ComposeResult
+from textual.binding import Binding
 from textual.containers import Vertical
 from textual.message import Message
 from textual.widgets import DataTable, Static
+from textual.worker import get_current_worker
 
 from picker.report.design import pct, tradeoff_table
 from picker.report.yields import yield_text
+from picker.ui.offload import Cancelled, Lane
+from picker.ui.widgets.common import say
+from stock.errors import PickerError
 
 COLUMNS = ("rank", "worst error", "pieces", "values (stages split by |)", "notes")
 
@@ -35,6 +44,11 @@ def parts_text(candidate) -> str:
 
 
 class MatchesPane(Vertical):
+    BINDINGS = [
+        Binding("p", "buy", "what to buy"),
+        Binding("s", "stop", "stop", show=False),
+    ]
+
     class Chosen(Message):
         def __init__(self, candidate, rank: int) -> None:
             self.candidate = candidate
@@ -46,14 +60,23 @@ class MatchesPane(Vertical):
         self.candidates: list = []
         self.last_status = ""
         self.outcome = ""  # what the search gave, for the targets pane
+        self.buy_lane = Lane("buy")
+        self.buying = False  # a suggestion search runs
+        self.buy = None  # its BuyResult, once shown (for tests)
+        self._buy_for = None  # the (stock, targets) of the rows shown
 
     def compose(self) -> ComposeResult:
         yield Static("no search yet: fill in the targets (pane 2)", id="m-status", markup=False)
         yield DataTable(id="m-table", cursor_type="row")
+        yield Static("", id="m-buy", markup=False)
         yield Static("", id="m-tradeoff")
 
     def on_mount(self) -> None:
         self.query_one(DataTable).add_columns(*COLUMNS)
+        self.query_one("#m-buy").display = False
+
+    def on_unmount(self) -> None:
+        self.buy_lane.cancel()
 
     def show_stale(self, text: str) -> None:
         """Keep the rows, but say first that they answer other targets."""
@@ -67,6 +90,7 @@ class MatchesPane(Vertical):
         self._show_status(f"[busy] searching: {what} …")
 
     def show_message(self, text: str) -> None:
+        self._clear_buy()
         self.outcome = text
         self.candidates = []
         self.query_one(DataTable).clear()
@@ -74,6 +98,7 @@ class MatchesPane(Vertical):
         self._show_status(text)
 
     def show_result(self, result, *, seconds: float, what: str, stopped: bool = False) -> None:
+        self._clear_buy()
         self.candidates = list(result.candidates)
         table = self.query_one(DataTable)
         table.clear()
@@ -119,3 +144,75 @@ class MatchesPane(Vertical):
         rank = event.cursor_row + 1
         if 1 <= rank <= len(self.candidates):
             self.post_message(self.Chosen(self.candidates[rank - 1], rank))
+
+    # what to buy -----------------------------------------------------------------
+    def _buy_line(self, content) -> None:
+        static = self.query_one("#m-buy", Static)
+        static.update(content)
+        static.display = bool(content)
+
+    def _clear_buy(self) -> None:
+        """New rows: suggestions for the old ones no longer apply."""
+        self.buy_lane.cancel()
+        self.buying, self.buy = False, None
+        self._buy_line("")
+
+    def action_buy(self) -> None:
+        """p: what to buy for the targets of the rows shown (as ``--suggest 3``)."""
+        screen = self.screen
+        stock = getattr(screen, "stock", None)
+        targets = getattr(screen, "result_targets", None)
+        if getattr(screen, "busy", False) or targets is None or stock is None:
+            self._buy_line(say("error", "what to buy: wait for the search's rows first"))
+            return
+        if targets != getattr(screen, "targets", None):
+            self._buy_line(
+                say("error", "what to buy: these rows answer earlier targets; wait for the search")
+            )
+            return
+        before = self.candidates[0] if self.candidates else None
+        self.buying, self.buy = True, None
+        self._buy_line(
+            "[busy] what to buy: trying purchases of E24 values against this stock … (s: stop)"
+        )
+        self._buy(stock, targets, before)
+
+    @work(thread=True, exclusive=True, group="buy", exit_on_error=False)
+    def _buy(self, stock, targets, before) -> None:
+        from picker.ui.buying import buy_job
+
+        worker = get_current_worker()
+        try:
+            outcome = ("done", self.buy_lane.run(buy_job, stock, targets, before))
+        except Cancelled:
+            outcome = ("stopped", None)
+        except PickerError as exc:
+            outcome = ("error", str(exc))
+        if not worker.is_cancelled:
+            self.app.call_from_thread(self._bought, outcome)
+
+    def _bought(self, outcome) -> None:
+        if not self.buying:
+            return  # cleared meanwhile (new rows)
+        self.buying = False
+        kind, payload = outcome
+        if kind == "done":
+            from picker.commands.design_buy import buy_section
+
+            self.buy = payload
+            self._buy_line(Group(*buy_section(payload)))
+        elif kind == "stopped":  # the helper process ended without an answer
+            self._buy_line("what to buy: the helper process ended, no suggestion (p: again)")
+        else:
+            self._buy_line(say("error", f"what to buy: {payload}"))
+
+    def action_stop(self) -> None:
+        """s: stop the suggestion search; with none running, the screen's search."""
+        if self.buying:  # stopped now: a result that still comes is not shown
+            self.buying = False
+            self.buy_lane.cancel()
+            self._buy_line("what to buy: stopped, no suggestion (p: try again)")
+            return
+        stop = getattr(self.screen, "action_stop_search", None)
+        if stop is not None:
+            stop()
