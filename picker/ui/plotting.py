@@ -133,13 +133,15 @@ def labelled_plot(
     y_unit: str,
     x_ticks: Sequence[tuple[float, str]],
     marks: Sequence[tuple[float, str]] = (),
+    clip_marks: bool = True,
 ) -> list[str]:
     """A braille curve with a y gutter (value labels) and an x axis line of tick labels.
 
     ``width`` is the whole width in characters; 7 go to the gutter. ``x_ticks`` are
     (x, label) pairs placed under the axis. The axis line itself carries ``marks``
     ((x, one character) pairs, a later one wins a shared column) and ``CLIP_MARK``
-    under every column where the curve lies below ``y_range`` (drawn at its edge).
+    under every column where the curve lies below ``y_range`` (drawn at its edge),
+    unless ``clip_marks`` is False.
     """
     gutter = 7
     inner = max(width - gutter, 4)
@@ -157,7 +159,7 @@ def labelled_plot(
     line = ["─"] * inner
     last = None  # the column of the previous point, when it was below the plot too
     for x, y in zip(xs, ys, strict=False):
-        if not (x0 <= x <= x1 and math.isfinite(y) and y < y_range[0]):
+        if not (clip_marks and x0 <= x <= x1 and math.isfinite(y) and y < y_range[0]):
             last = None
             continue
         col = _dot_column(x, x_range, 2 * inner) // 2
@@ -173,6 +175,24 @@ def labelled_plot(
 
 
 # --------------------------------------------------------------------------- response
+
+
+PHASE_STEPS = (45.0, 90.0, 180.0, 360.0)
+
+
+def phase_axis(p_min: float, p_max: float, height: int) -> tuple[float, float, float]:
+    """(lo, hi, step) of a phase axis ``height`` rows high: the finest step of
+    ``PHASE_STEPS`` whose labels get a row each. An end a hair past a multiple of the
+    step (within 2 % of the span, less than a dot row) is drawn at that multiple, so an
+    8th-order low-pass whose op amps add a few degrees still reads 0 to -720."""
+    slack = 0.02 * max(p_max - p_min, 1e-9)
+    for step in PHASE_STEPS:
+        lo = math.ceil(p_min / step) * step if p_min % step > step - slack else p_min
+        hi = math.floor(p_max / step) * step if p_max % step < slack else p_max
+        lo, hi = nice_range(lo, max(hi, lo), step)
+        if (hi - lo) / step <= height - 1:
+            break
+    return lo, hi, step
 
 
 def passband_index(mag_db: Sequence[float]) -> int:

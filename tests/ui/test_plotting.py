@@ -17,6 +17,7 @@ from picker.ui.plotting import (
     labelled_plot,
     nice_range,
     passband_phase,
+    phase_axis,
 )
 
 
@@ -124,6 +125,11 @@ def test_the_axis_marks_clipped_columns_and_the_given_marks():
     assert axis.count("F") == 1 and axis.index("F") < axis.index(CLIP_MARK)
     assert axis.endswith(CLIP_MARK * 3)  # the last two points, 1.5 columns each
     assert lines[-2][:7] == "      \u2514"
+    quiet = labelled_plot(
+        xs, [0.0, -10.0, -100.0, -100.0], width=7 + 8, height=2, x_range=(0.0, 3.0),
+        y_range=(-40.0, 0.0), y_step=20.0, y_unit="", x_ticks=(), clip_marks=False,
+    )  # fmt: skip
+    assert CLIP_MARK not in quiet[-2]
 
 
 def _cascade(response_type: str, order: int, fc_hz: float):
@@ -181,3 +187,21 @@ def test_the_minus_3_db_point_of_a_butterworth_is_its_corner(response_type):
         total *= signal.freqs(b, a, worN=2 * np.pi * f)[1]
     (f3,) = crossings(list(f), list(20 * np.log10(abs(total))), 3.0103)
     assert f3 == pytest.approx(1000.0, rel=2e-3)
+
+
+@pytest.mark.parametrize(
+    "p_min, p_max, expected",
+    [
+        (-180.0, 0.0, (-180.0, 0.0, 45.0)),  # a second-order low-pass
+        (-725.0, -2.9, (-720.0, 0.0, 180.0)),  # 8th order, op amps add 5 degrees
+        (-3.0, 716.0, (0.0, 720.0, 180.0)),  # 8th-order high-pass
+        (-800.0, 0.0, (-1080.0, 0.0, 360.0)),  # well past -720: the next step
+    ],
+)
+def test_the_phase_axis_reads_whole_steps(p_min, p_max, expected):
+    """Each pole adds -90 degrees above its corner (handbook): an nth-order low-pass runs
+    0 to -90 n; a few degrees more are drawn at the edge, not a wider axis."""
+    lo, hi, step = phase_axis(p_min, p_max, 5)
+    assert (lo, hi, step) == expected
+    labels = axis_labels((lo, hi), step, 5, "")
+    assert float(labels[4]) == lo and float(labels[0]) == hi

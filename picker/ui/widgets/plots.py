@@ -19,10 +19,10 @@ from picker.ui.plotting import (
     labelled_plot,
     nice_range,
     passband_phase,
+    phase_axis,
 )
 from stock.values import format_si
 
-PHASE_STEPS = (45.0, 90.0, 180.0, 360.0)
 FC_MARK, DROP_MARK = "F", "3"
 
 
@@ -84,13 +84,11 @@ class ResponsePlot(Widget):
         finite_p = [p for p in self.phase_deg if math.isfinite(p)]
         p_min, p_max = min(finite_p, default=-90.0), max(finite_p, default=90.0)
         height = 5
-        for p_step in PHASE_STEPS:  # the finest step whose labels get a row each
-            p_lo, p_hi = nice_range(p_min, p_max, p_step)
-            if (p_hi - p_lo) / p_step <= height - 1:
-                break
+        p_lo, p_hi, p_step = phase_axis(p_min, p_max, height)
         phase = labelled_plot(
             xs, self.phase_deg, width=width, height=height, x_range=x_range,
             y_range=(p_lo, p_hi), y_step=p_step, y_unit="°", x_ticks=ticks,
+            clip_marks=False,  # phase_axis clips by less than a dot row, on purpose
         )  # fmt: skip
         text = Text()
         text.append("magnitude, dB", style="bold")
