@@ -210,3 +210,29 @@ async def test_another_circuit_brings_its_positions(stock_copy):
         assert screen.query("#r-pos-R3") and not screen.query("#r-pos-RA")
         failed = screen.query_one("#r-failed", Select)
         assert [str(v) for _, v in failed._options if v is not Select.NULL] == form.names
+
+
+async def test_opened_before_the_file_is_read_it_gets_the_stock(stock_copy):
+    """m pressed in the first moment, before the main screen has read the stock file:
+    once the file is read the repair screen has the stock and lists substitutes (it
+    used to keep "no stock loaded" for good)."""
+    app = PickerApp(stock_copy)
+    async with app.run_test(size=SIZE) as pilot:
+        main = app.screen
+        main.stock = None
+        screen = RepairScreen(main.stock_path, None)  # as open_repair does before the read
+        await app.push_screen(screen)
+        await pilot.pause()
+        await pilot.press("y")  # the cautions
+        await pilot.pause()
+        await type_marked(pilot, screen)
+        screen.query_one("#r-failed", Select).value = "C1"
+        await wait_idle(pilot, screen)
+        table = screen.query_one("#r-options", DataTable)
+        if screen.stock is None:
+            assert table.row_count == 0
+            assert "not read" in str(screen.query_one("#r-sub-status").render())
+        main.read_stock()
+        await wait_idle(pilot, screen)
+        assert screen.stock is not None
+        assert [str(c) for c in table.get_row_at(0)][-1] == "C1 22n [C2]"

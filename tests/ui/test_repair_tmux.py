@@ -21,7 +21,9 @@ def test_enter_values_and_see_substitutes(terminal, stock_copy):  # noqa: F811
     # the test waits for before it types into a field
     terminal.start(picker_command(stock_copy), {"TERM": "screen-256color", "NO_COLOR": "1"})
     terminal.wait_for("^q quit")
-    terminal.wait_for("4k7")  # the stock is read
+    # the stock is read: the count beside the find field (the field's own hint also
+    # shows "4k7", so that would not tell)
+    terminal.wait_for("8 of 8 lines")
     terminal.keys("m")
     terminal.wait_for("read these cautions first")
     terminal.wait_for("Discharge capacitors")

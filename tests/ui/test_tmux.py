@@ -81,7 +81,8 @@ def picker_command(stock) -> str:
 def test_type_a_target_and_quit(terminal, stock_copy):
     # 16 colours, as a plain TERM=screen terminal gets them (TERMINAL.md)
     terminal.start(picker_command(stock_copy), {"TEXTUAL_COLOR_SYSTEM": "standard"})
-    for text in ("e quantity", "4k7", "A3", "[1 drawers]"):  # frames paint in pieces
+    # frames paint in pieces; the line count shows only once the file is read
+    for text in ("e quantity", "8 of 8 lines", "[1 drawers]"):
         terminal.wait_for(text)
     painted = terminal.screen(escapes=True)
     assert "38;5;" not in painted and "38;2;" not in painted  # no 256 or true colour

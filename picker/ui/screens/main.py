@@ -210,20 +210,25 @@ class MainScreen(FocusRows, TypingAware, Screen):
         try:
             self.stock = backend.load_stock(self.stock_path)
         except backend.Unavailable as exc:
+            self.stock = None
             drawers.show_error(f"reading stock files is not available yet ({exc})")
-            return
         except StockFileError as exc:
             self.stock = None
             drawers.show_error("\n".join(exc.problems))
-            return
         except PickerError as exc:
             self.stock = None
             drawers.show_error(str(exc))
-            return
-        drawers.show_stock(self.stock, note)
+        else:
+            drawers.show_stock(self.stock, note)
         for chosen in self.query(ChosenPane):  # absent until the lazy mount is done
             chosen.set_stock(self.stock)
-        self.schedule_search()
+        # a screen opened over this one before the file was read (m pressed in the
+        # first moment) gets the stock now, not never
+        for screen in self.app.screen_stack:
+            if screen is not self and hasattr(screen, "stock_read"):
+                screen.stock_read(self.stock)
+        if self.stock is not None:
+            self.schedule_search()
 
     @on(DrawersPane.StockChanged)
     @on(ChosenPane.StockChanged)

@@ -157,7 +157,11 @@ class RepairScreen(TypingAware, Screen):
         if r.failed is None:
             self._clear_options("choose the failed part to see substitutes from the stock")
         elif self.stock is None:
-            self._clear_options("no stock loaded: start picker with --stock FILE")
+            self._clear_options(
+                "no stock loaded: start picker with --stock FILE"
+                if self.stock_path is None
+                else "the stock file is not read (yet, or it has a fault: see pane 1)"
+            )
         elif r.errors:
             self._clear_options(say("waiting", "; ".join(r.errors)))
         else:
@@ -299,19 +303,25 @@ class RepairScreen(TypingAware, Screen):
         )
 
     def _stock_changed(self, note: str) -> None:
-        """Read the stock again here and on the main screen, then search again."""
+        """Read the stock again on the main screen (which hands it here), then search again."""
         from picker.ui.screens.main import MainScreen
 
-        try:
-            assert self.stock_path is not None  # a build needs the stock file
-            self.stock = backend.load_stock(self.stock_path)
-        except PickerError as exc:
-            self.stock = None
-            self._status(say("error", f"cannot read the stock file again: {exc}"))
-        for screen in self.app.screen_stack:
-            if isinstance(screen, MainScreen):
-                screen.read_stock(note)
-        self._start()
+        mains = [s for s in self.app.screen_stack if isinstance(s, MainScreen)]
+        for screen in mains:
+            screen.read_stock(note)  # calls stock_read below
+        if not mains:
+            try:
+                assert self.stock_path is not None  # a build needs the stock file
+                self.stock_read(backend.load_stock(self.stock_path))
+            except PickerError as exc:
+                self.stock_read(None)
+                self._status(say("error", f"cannot read the stock file again: {exc}"))
+
+    def stock_read(self, stock) -> None:
+        """The stock as the main screen read it (None: it could not be read)."""
+        self.stock = stock
+        if self.is_mounted and self.reading is not None:
+            self._start()
 
 
 def open_repair(main) -> None:
