@@ -65,6 +65,42 @@ class Parser(argparse.ArgumentParser):
         super().__init__(*args, **kwargs)
         # argparse's own pattern takes only plain negative numbers (-2, -0.5)
         self._negative_number_matcher = re.compile(r"^-\.?[0-9]")
+        self.register("action", None, _Store)
+        self.register("action", "store", _Store)
+
+
+GIVEN = "_stock_given_"  # namespace keys: every --stock value, per option (see stock_given)
+
+
+class _Store(argparse._StoreAction):
+    """argparse's store, except that each ``--stock`` value is also kept, so that a stock
+    file named twice (``picker --stock a.toml design ... --stock b.toml``) is seen: the
+    last one would win without a word otherwise."""
+
+    def __call__(self, parser, namespace, values, option_string=None) -> None:
+        super().__call__(parser, namespace, values, option_string)
+        if self.dest == "stock":
+            key = f"{GIVEN}{id(self)}"  # one key per option: a subcommand's namespace
+            seen = getattr(namespace, key, [])  # is copied over its parent's key by key
+            setattr(namespace, key, [*seen, values])
+
+
+def stock_given(args: argparse.Namespace) -> list[str]:
+    """Every --stock value on the command line, in order; the record keys are removed."""
+    given: list[str] = []
+    for key in [k for k in vars(args) if k.startswith(GIVEN)]:
+        given += getattr(args, key)
+        delattr(args, key)
+    return given
+
+
+def _same_file(a: str, b: str) -> bool:
+    import os
+
+    try:
+        return os.path.samefile(a, b)
+    except OSError:
+        return os.path.abspath(a) == os.path.abspath(b)
 
 
 def _subparser_actions(parser: argparse.ArgumentParser):
@@ -292,6 +328,15 @@ def _main(argv: list[str] | None) -> int:
             )
             return 2
     args = parser.parse_args(argv)
+    given = stock_given(args)
+    other = next((g for g in given if not _same_file(g, given[0])), None)
+    if other is not None:
+        print(
+            f"picker: --stock names two files, {_shown(given[0])!r} and {_shown(other)!r}: "
+            "give it once (the command would use one and ignore the other)",
+            file=sys.stderr,
+        )
+        return 2
     if args.command is None:
         if not (sys.stdin.isatty() and sys.stdout.isatty()):
             print(

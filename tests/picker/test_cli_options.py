@@ -90,6 +90,27 @@ def test_every_command_parser_takes_stock():
         assert "--stock" in leaf._option_string_actions, leaf.prog
 
 
+@pytest.mark.parametrize(
+    "where",
+    [
+        lambda a, b: ["--stock", a, "stock", "list", "--stock", b],  # before and after
+        lambda a, b: ["--stock", a, "--stock", b, "stock", "list"],  # twice before
+        lambda a, b: ["design", "lowpass", "--fc", "1k", "--stock", a, "--stock", b],
+    ],
+)
+def test_stock_named_twice_with_two_files_is_refused(capsys, small, tmp_path, where):
+    other = tmp_path / "other.toml"
+    other.write_text(SMALL_STOCK)
+    code, out, err = run(capsys, *where(str(small), str(other)))
+    assert code == 2 and out == ""
+    assert "--stock names two files" in err and "other.toml" in err
+
+
+def test_stock_named_twice_with_one_file_is_fine(capsys, small):
+    code, _, err = run(capsys, "--stock", str(small), "stock", "list", "--stock", str(small))
+    assert code == 0, err
+
+
 def test_stock_check_file_and_stock_option_must_agree(capsys, small, tmp_path):
     other = tmp_path / "other.toml"
     other.write_text(SMALL_STOCK)
