@@ -2,7 +2,7 @@
 
 Both fit 80 columns, carry the safety cautions (``picker.repair.safety``) and never rest
 meaning on colour. The response is drawn with the project's character plots
-(``picker.ui.plotting``, plain Python without textual). See docs/repair.md.
+(``picker.report.charplot``, plain Python without textual). See docs/repair.md.
 """
 
 from __future__ import annotations
@@ -117,31 +117,16 @@ def stage_lines(i: int, s) -> list[str]:
 
 
 def response_lines(r, *, width: int = PLOT_WIDTH, height: int = PLOT_HEIGHT) -> list[str]:
-    """Magnitude and phase against log frequency, as character plots."""
-    from picker.ui.plotting import decade_ticks, labelled_plot, nice_range
+    """Magnitude and phase against log frequency, as character plots (the terminal UI's
+    drawing: ``picker.report.charplot.response_plot``)."""
+    from picker.report.charplot import response_plot
 
-    xs = [math.log10(f) for f in r.freqs_hz]
-    x_range = (xs[0], xs[-1])
-    ticks = decade_ticks(r.freqs_hz[0], r.freqs_hz[-1])
-    mag = [float(m) for m in r.magnitude_db]
-    top = max(mag)
-    lo = max(min(mag), top - 80.0)
-    y_step = 20.0 if top - lo > 40 else 10.0
-    y_range = nice_range(lo, top, y_step)
-    out = ["magnitude, dB"]
-    out += labelled_plot(
-        xs, mag, width=width, height=height, x_range=x_range, y_range=y_range,
-        y_step=y_step, y_unit="", x_ticks=ticks,
+    legend, mag, phase = response_plot(
+        r.freqs_hz, [float(m) for m in r.magnitude_db], [float(p) for p in r.phase_deg],
+        width=width, mag_height=height, phase_height=height,
     )  # fmt: skip
-    ph = [float(p) for p in r.phase_deg]
-    p_range = nice_range(min(ph), max(ph), 90.0)
-    step = 90.0 if p_range[1] - p_range[0] <= 360 else 180.0
-    out.append("phase, degrees")
-    out += labelled_plot(
-        xs, ph, width=width, height=height, x_range=x_range, y_range=p_range,
-        y_step=step, y_unit="", x_ticks=ticks,
-    )  # fmt: skip
-    return out
+    head = "magnitude, dB" + (("   " + "   ".join(legend)) if legend else "")
+    return [head, *mag, "phase, degrees", *phase]
 
 
 def corner_text(r) -> str:

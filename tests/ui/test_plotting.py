@@ -6,8 +6,7 @@ import math
 
 import pytest
 
-from picker.report.views import block_rows, count_eighths
-from picker.ui.plotting import (
+from picker.report.charplot import (
     CLIP_MARK,
     axis_labels,
     braille_curve,
@@ -19,6 +18,7 @@ from picker.ui.plotting import (
     passband_phase,
     phase_axis,
 )
+from picker.report.views import block_rows, count_eighths
 
 
 @pytest.mark.parametrize(

@@ -60,7 +60,7 @@ def time_unit(seconds: float) -> tuple[float, str]:
 
 def step_plot(step, width: int) -> list[str]:
     """The step response against time, up to twice its settling time."""
-    from picker.ui.plotting import labelled_plot, nice_range
+    from picker.report.charplot import labelled_plot, nice_range
 
     t, y = list(step.t_s), list(step.y)
     end = len(t)
@@ -84,7 +84,7 @@ def step_plot(step, width: int) -> list[str]:
 
 def delay_plot(delay, width: int) -> list[str]:
     """The group delay against log frequency."""
-    from picker.ui.plotting import decade_ticks, labelled_plot, nice_range
+    from picker.report.charplot import decade_ticks, labelled_plot, nice_range
 
     f, tau = list(delay.f_hz), list(delay.delay_s)
     scale, unit = time_unit(max(tau))

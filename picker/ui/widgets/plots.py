@@ -1,29 +1,17 @@
 """Character plots: magnitude and phase against log frequency, and a histogram of f0.
 
-Both draw from ``picker.ui.plotting`` at whatever size they have, so a resize simply
+Both draw from ``picker.report.charplot`` at whatever size they have, so a resize simply
 redraws. Frequency is plotted as log10(f) on a linear axis with labelled decades.
 """
 
 from __future__ import annotations
 
-import math
-
 from rich.text import Text
 from textual.widget import Widget
 
+from picker.report.charplot import response_plot
 from picker.report.views import block_rows, count_eighths
-from picker.ui.plotting import (
-    CLIP_MARK,
-    crossings,
-    decade_ticks,
-    labelled_plot,
-    nice_range,
-    passband_phase,
-    phase_axis,
-)
 from stock.values import format_si
-
-FC_MARK, DROP_MARK = "F", "3"
 
 
 class ResponsePlot(Widget):
@@ -48,7 +36,7 @@ class ResponsePlot(Widget):
 
     def set_curve(self, freqs, mag_db, phase_deg, fc_hz: float | None = None) -> None:
         self.freqs, self.mag_db = list(freqs), list(mag_db)
-        self.phase_deg = passband_phase(self.mag_db, list(phase_deg))
+        self.phase_deg = list(phase_deg)
         self.fc_hz = fc_hz
         self.note = ""
         self.refresh()
@@ -60,35 +48,9 @@ class ResponsePlot(Widget):
     def render(self) -> Text:
         if not self.freqs:
             return Text(f"response plot: {self.note}")
-        width = max(self.size.width, 20)
-        xs = [math.log10(f) for f in self.freqs]
-        x_range = (xs[0], xs[-1])
-        ticks = decade_ticks(self.freqs[0], self.freqs[-1])
-        finite = [m for m in self.mag_db if math.isfinite(m)]
-        top = max(finite) if finite else 0.0
-        m_lo, m_hi = nice_range(max(min(finite, default=-60.0), top - 80.0), top + 1.0, 20.0)
-        legend, marks = [], []
-        drops = crossings(self.freqs, self.mag_db)
-        marks += [(math.log10(f), DROP_MARK) for f in drops]
-        if drops:
-            legend.append(f"{DROP_MARK} -3 dB " + ", ".join(format_si(f, "Hz") for f in drops))
-        if self.fc_hz:
-            marks.append((math.log10(self.fc_hz), FC_MARK))  # wins a shared column
-            legend.insert(0, f"{FC_MARK} fc {format_si(self.fc_hz, 'Hz')}")
-        if min(finite, default=m_lo) < m_lo:
-            legend.append(f"{CLIP_MARK} below {m_lo:g} dB")
-        mag = labelled_plot(
-            xs, self.mag_db, width=width, height=8, x_range=x_range, y_range=(m_lo, m_hi),
-            y_step=20.0, y_unit="", x_ticks=ticks, marks=marks,
-        )  # fmt: skip
-        finite_p = [p for p in self.phase_deg if math.isfinite(p)]
-        p_min, p_max = min(finite_p, default=-90.0), max(finite_p, default=90.0)
-        height = 5
-        p_lo, p_hi, p_step = phase_axis(p_min, p_max, height)
-        phase = labelled_plot(
-            xs, self.phase_deg, width=width, height=height, x_range=x_range,
-            y_range=(p_lo, p_hi), y_step=p_step, y_unit="°", x_ticks=ticks,
-            clip_marks=False,  # phase_axis clips by less than a dot row, on purpose
+        legend, mag, phase = response_plot(
+            self.freqs, self.mag_db, self.phase_deg, width=max(self.size.width, 20),
+            fc_hz=self.fc_hz,
         )  # fmt: skip
         text = Text()
         text.append("magnitude, dB", style="bold")

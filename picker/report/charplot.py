@@ -1,8 +1,10 @@
-"""Character plots for the terminal UI: braille curves, their axes, a response's marks.
+"""Character plots: braille curves, their axes, a response's marks.
 
 Plain Python over sequences of floats, no textual and no rich, so the drawing can be
 tested on its own and redrawn on every resize without side effects. A plot is a list
-of equal-width strings; the widgets in ``picker.ui.widgets`` wrap them in Rich text.
+of equal-width strings; the terminal UI's widgets (``picker.ui.widgets.plots``) wrap
+them in Rich text and the repair report (``picker.repair.report``) prints them, both
+through ``response_plot``.
 
 Braille cells hold 2 x 4 dots (Unicode block "Braille Patterns", U+2800..U+28FF; the
 dot numbering is the one of the Unicode standard, chapter 21.1). Frequency runs on a
@@ -232,3 +234,56 @@ def crossings(freqs: Sequence[float], mag_db: Sequence[float], drop_db: float = 
             lf = math.log10(freqs[j]) + t * (math.log10(freqs[k]) - math.log10(freqs[j]))
             found.append(10.0**lf)
     return sorted(found)
+
+
+FC_MARK, DROP_MARK = "F", "3"
+
+
+def response_plot(
+    freqs: Sequence[float],
+    mag_db: Sequence[float],
+    phase_deg: Sequence[float],
+    *,
+    width: int,
+    fc_hz: float | None = None,
+    mag_height: int = 8,
+    phase_height: int = 5,
+) -> tuple[list[str], list[str], list[str]]:
+    """(legend, magnitude rows, phase rows) of a response against log frequency.
+
+    The phase is moved by whole turns to read between -180 and 180 degrees in the
+    passband (``passband_phase``). The magnitude's axis line marks the corner frequency
+    (``F``, when given), the -3 dB point(s) (``3``) and, with ``CLIP_MARK``, where the
+    curve is below the plot; the phase axis has no clip marks (``phase_axis`` clips by
+    less than a dot row, on purpose)."""
+    freqs, mag_db = list(freqs), list(mag_db)
+    phase = passband_phase(mag_db, list(phase_deg))
+    xs = [math.log10(f) for f in freqs]
+    x_range = (xs[0], xs[-1])
+    ticks = decade_ticks(freqs[0], freqs[-1])
+    finite = [m for m in mag_db if math.isfinite(m)]
+    top = max(finite) if finite else 0.0
+    m_lo, m_hi = nice_range(max(min(finite, default=-60.0), top - 80.0), top + 1.0, 20.0)
+    legend, marks = [], []
+    drops = crossings(freqs, mag_db)
+    marks += [(math.log10(f), DROP_MARK) for f in drops]
+    if drops:
+        legend.append(f"{DROP_MARK} -3 dB " + ", ".join(format_si(f, "Hz") for f in drops))
+    if fc_hz:
+        marks.append((math.log10(fc_hz), FC_MARK))  # wins a shared column
+        legend.insert(0, f"{FC_MARK} fc {format_si(fc_hz, 'Hz')}")
+    if min(finite, default=m_lo) < m_lo:
+        legend.append(f"{CLIP_MARK} below {m_lo:g} dB")
+    mag = labelled_plot(
+        xs, mag_db, width=width, height=mag_height, x_range=x_range, y_range=(m_lo, m_hi),
+        y_step=20.0, y_unit="", x_ticks=ticks, marks=marks,
+    )  # fmt: skip
+    finite_p = [p for p in phase if math.isfinite(p)]
+    p_lo, p_hi, p_step = phase_axis(
+        min(finite_p, default=-90.0), max(finite_p, default=90.0), phase_height
+    )
+    rows = labelled_plot(
+        xs, phase, width=width, height=phase_height, x_range=x_range,
+        y_range=(p_lo, p_hi), y_step=p_step, y_unit="°", x_ticks=ticks, clip_marks=False,
+    )  # fmt: skip
+    return legend, mag, rows
