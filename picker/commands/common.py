@@ -29,10 +29,10 @@ def bundled_sample_path() -> Path:
 
 
 def is_bundled_sample(path) -> bool:
-    try:
-        return Path(path).resolve() == bundled_sample_path().resolve()
-    except OSError:
-        return False
+    """The sample stock shipped with picker (one rule: ``stock.edit.is_sample``)."""
+    from stock.edit import is_sample
+
+    return is_sample(path)
 
 
 def resolve_stock_path(arg: str | None) -> tuple[Path, str | None]:

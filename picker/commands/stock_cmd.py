@@ -296,13 +296,13 @@ def _detail(item) -> str:
 
 
 def run_adjust(args) -> int:
-    from picker.commands.common import is_bundled_sample
     from picker.report.owner import visible
+    from stock.edit import is_sample
     from stock.errors import PartlyDoneError, StockEditError
     from stock.file import QtyChange, StockChangedError, apply_changes, load
 
     path, _note = _stock_path(args, positional=False)
-    if is_bundled_sample(path):
+    if is_sample(path):
         raise StockEditError(
             "adjust changes your own stock file: name it with --stock FILE "
             "(or $PICKER_STOCK, or ./inventory.toml); the bundled sample is "
