@@ -56,6 +56,10 @@ JOINT_TOP = 6  # combinations kept per price
 CONFIRM = 4  # of each price's list, confirmed by Monte Carlo (besides the shown ones)
 STEPS = 200_000  # rows the joint search may try
 PRICES = (0.0, 1.0, 4.0)  # price per piece, in standard errors of the yield
+# under --time-limit (docs/yield.md, "Time limit"): shares of the time left
+REFERENCE_SHARE = 0.3  # each of the two reference searches of step 1
+POOL_SHARE = 0.8  # the pool searches of step 2, shared out run by run
+MIN_SEARCH_S = 0.05  # no search is given less (it returns its best so far)
 
 
 @dataclass(frozen=True)
@@ -131,8 +135,14 @@ def order_confirmed(items, refs=()):
     return out
 
 
-def stage_pool(stock, stage, *, goal: float, common: dict, clock) -> list[Candidate]:
-    """Distinct one-stage candidates of ``stage`` from the pool searches (step 2)."""
+def stage_pool(
+    stock, stage, *, goal: float, common: dict, clock, skipped: list | None = None
+) -> list[Candidate]:
+    """Distinct one-stage candidates of ``stage`` from the pool searches (step 2).
+
+    ``clock(runs_left)``: seconds for the next run (None: no limit; 0 or less: the time
+    is up, and the runs not made are counted in ``skipped``)."""
+    skipped = [] if skipped is None else skipped
     from picker.errors import NoDesignError
 
     runs: list[tuple] = [(stock, "error", None, False), (stock, "error", None, True)]
@@ -148,8 +158,12 @@ def stage_pool(stock, stage, *, goal: float, common: dict, clock) -> list[Candid
     if common.get("singles"):
         runs = [r for r in runs if r[3]]
     pool: dict[tuple, Candidate] = {}
-    for part, rank, g, singles in runs:
-        kw = dict(common, top=POOL_KEEP, tradeoff=False, time_limit=clock(), singles=singles)
+    for n, (part, rank, g, singles) in enumerate(runs):
+        limit = clock(len(runs) - n)  # this run's share of what is left
+        if limit is not None and limit <= 0.0:
+            skipped.append(len(runs) - n)
+            break
+        kw = dict(common, top=POOL_KEEP, tradeoff=False, time_limit=limit, singles=singles)
         if g is not None:
             kw["max_error"] = g
         try:
@@ -251,27 +265,56 @@ def search(
 
     win = _window(window)
     bounds = Bounds() if bounds is None else bounds
-    start = time.monotonic()
+    # One clock for every step (docs/yield.md, "Time limit"): the two reference searches
+    # get a share of what is left, the pool searches share out most of the rest run by
+    # run, and the Monte Carlo confirmation stops at the deadline (the references' own
+    # Monte Carlo is always made: rank 1 is never below theirs).
+    deadline = None if time_limit is None else time.monotonic() + max(0.0, time_limit)
 
-    def left() -> float | None:
-        return None if time_limit is None else max(0.5, time_limit - (time.monotonic() - start))
+    def share(part: float) -> float | None:
+        if deadline is None:
+            return None
+        return max(MIN_SEARCH_S, part * (deadline - time.monotonic()))
 
     common = dict(singles=singles, allow_polarized=allow_polarized, bounds=bounds, **search_kw)
     top = max(1, int(top))
     by_pieces = reference(
         stock, stages, "pieces", top=top, tradeoff=tradeoff, for_people=for_people,
-        time_limit=left(), **common,
+        time_limit=share(REFERENCE_SHARE), **common,
     )  # fmt: skip
-    by_error = reference(stock, stages, "error", top=1, tradeoff=False, time_limit=left(), **common)
+    by_error = reference(
+        stock, stages, "error", top=1, tradeoff=False, time_limit=share(REFERENCE_SHARE), **common
+    )
     mc = dict(trials=trials, distribution=distribution, window=win, seed=seed)
     refs = {
         "pieces": (by_pieces.candidates[0], monte_carlo_yield(by_pieces.candidates[0], **mc)),
         "error": (by_error.candidates[0], monte_carlo_yield(by_error.candidates[0], **mc)),
     }
+    pool_end = (
+        None if deadline is None else time.monotonic() + POOL_SHARE * (deadline - time.monotonic())
+    )
+    n_stages = len(stages)
+
+    def pool_clock(stage_index: int):
+        def clock(runs_left: int) -> float | None:
+            if pool_end is None:
+                return None
+            left = pool_end - time.monotonic()
+            stages_left = n_stages - stage_index
+            return left / (runs_left * stages_left) if left > MIN_SEARCH_S else 0.0
+
+        return clock
+
     pool_kw = {k: v for k, v in common.items() if k not in ("max_error",)}
     pools, offered, counts = [], [], {}
-    for topo, target in stages:
-        rows = stage_pool(stock, (topo, target), goal=max(win.values()), common=pool_kw, clock=left)
+    skipped: list[int] = []
+    for k, (topo, target) in enumerate(stages):
+        rows = stage_pool(
+            stock, (topo, target), goal=max(win.values()), common=pool_kw,
+            clock=pool_clock(k), skipped=skipped,
+        )  # fmt: skip
+        if not rows:  # the time was up before this stage's first pool search
+            rows = [_one_stage(c, k) for c in (refs["pieces"][0], refs["error"][0])]
         choices = [c.stages[0] for c in rows]
         est = estimate(topo, target, choices, window=win, distribution=distribution)
         needs = []
@@ -286,6 +329,11 @@ def search(
         offered.append((-np.log(np.maximum(est, 1e-300)), pieces, needs))
 
     notes = list(by_pieces.notes)
+    if skipped:
+        notes.append(
+            f"yield ranking: the time limit ended the pool searches early ({sum(skipped)} "
+            "of them not made): the candidates come from a smaller pool"
+        )
     y0 = max(refs["pieces"][1].value, refs["error"][1].value, 1e-9)
     se = math.sqrt(max(y0 * (1.0 - y0), 1.0 / trials) / trials) / y0
     opamp, warnings = choose_opamp(stock.opamps, stages)
@@ -312,7 +360,15 @@ def search(
                 built[key] = (cand, YieldInfo(joint, "estimate"), rank)
     by_estimate = sorted(built.values(), key=lambda b: (-b[1].value, b[0].pieces, b[0].score))
     confirm = [b for b in by_estimate if b[2] < CONFIRM][: max(top, CONFIRM) + len(PRICES)]
-    items = [(c, monte_carlo_yield(c, **mc)) for c, _, _ in confirm]
+    items: list[tuple[Candidate, YieldInfo]] = []
+    for c, _, _ in confirm:
+        if deadline is not None and time.monotonic() > deadline and items:
+            notes.append(
+                f"yield ranking: the time limit ended the Monte Carlo confirmation after "
+                f"{len(items)} of {len(confirm)} candidates; the rest are ranked by estimate"
+            )
+            break
+        items.append((c, monte_carlo_yield(c, **mc)))
     for cand, info in refs.values():
         if identity(cand) not in {identity(c) for c, _ in items}:
             items.append((cand, info))
@@ -355,3 +411,15 @@ def _alike(ranked, stages):
     for c in kept:
         out.append((c, by_id[identity(c)]))
     return out
+
+
+def _one_stage(candidate: Candidate, k: int) -> Candidate:
+    """Stage ``k`` of ``candidate`` as a one-stage candidate (a pool row)."""
+    from picker.search.buying import stage_error
+
+    stage = candidate.stages[k]
+    pieces = sum(len(arr.parts) for _, arr in stage.positions)
+    return Candidate(
+        score=stage_error(stage), pieces=pieces, stages=(stage,), opamp=candidate.opamp,
+        warnings=candidate.warnings,
+    )  # fmt: skip
