@@ -14,7 +14,7 @@ from dataclasses import dataclass
 SERIES = ("E12", "E24", "E48", "E96")
 DEFAULT_TOLERANCE = "1%,5%"
 SUGGEST_MAX = 20
-BUDGET_S = 60.0  # seconds for all the trials of one --suggest (the result says if it ran out)
+NO_LIMIT_S = 60.0  # all the trials of one --suggest under --time-limit none (docs/buying.md)
 
 
 @dataclass(frozen=True)
@@ -119,6 +119,12 @@ def trial_limit(args) -> float | None:
     return read(limit) if read else float(limit)
 
 
+def suggest_limit(time_limit: float | None) -> float:
+    """Seconds for all the trials of one --suggest: the design's own time limit, shared
+    by every trial (docs/buying.md, "Time"); without one, ``NO_LIMIT_S``."""
+    return NO_LIMIT_S if time_limit is None else time_limit
+
+
 def run(options: BuyOptions, args, stock, stages, kw: dict, before):
     """The BuyResult for the design; ``before``: its rank 1, or None (no design)."""
     from picker.search.buying import suggest
@@ -136,7 +142,7 @@ def run(options: BuyOptions, args, stock, stages, kw: dict, before):
         bounds=kw["bounds"],
         singles=kw["singles"],
         allow_polarized=kw["allow_polarized"],
-        time_limit=BUDGET_S,
+        time_limit=suggest_limit(trial_limit(args)),
         trial_time_limit=trial_limit(args),
         before="none" if before is None else before,
     )

@@ -126,16 +126,19 @@ def suggest(
 
     ``before``: rank 1 of the stock when the caller has it (a Candidate), the string
     ``"none"`` when the stock has no design, None to search for it here.
-    ``time_limit``: seconds for all the trials; ``trial_time_limit``: for each search
-    (passed on when the search takes one)."""
+    ``time_limit``: seconds for all the trials (one clock: a trial's search gets at most
+    what is left, and one it cuts short is dropped); ``trial_time_limit``: for each
+    search (passed on when the search takes one)."""
     from picker.errors import NoDesignError
     from stock.eseries import series as mantissas
 
     if rank not in RANKS:
         raise ValueError(f"rank {rank!r}: purchases are ranked under {' or '.join(RANKS)}")
     start = time.monotonic()
+    left = None if time_limit is None else (lambda: time_limit - (time.monotonic() - start))
     opts: dict = dict(singles=singles, allow_polarized=allow_polarized, bounds=bounds)
     trial = Trial(stock, stages, rank, max_error, opts, trial_time_limit)
+    trial.left = left
     if before is None:
         try:
             before = trial.rank1(stock)
@@ -172,7 +175,6 @@ def suggest(
     order = sorted(spots, key=lambda kv: (guess(kv), kv))
     if scope == "near":
         order = order[:NEAR_MAX]
-    left = None if time_limit is None else (lambda: time_limit - (time.monotonic() - start))
     purchases = [(Purchase(k, v, tol[k], 2 * need[k]),) for k, v in order]
     found, complete = trial.run(purchases, key0, n, left, cand0)
     notes = []

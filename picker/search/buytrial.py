@@ -36,6 +36,9 @@ def with_purchases(stock, purchases) -> tuple:
     return copy, new
 
 
+MIN_TRIAL_S = 0.05  # no trial's search is given less (it returns its best so far)
+
+
 class Trial:
     """Real searches with purchases added, counted."""
 
@@ -47,16 +50,30 @@ class Trial:
         self.known: dict = {}  # purchases -> after, proven by the stage bounds
         self.screened: dict = {}  # purchases -> stage bounds not attained at once
         self.skipped = 0  # purchases a stage search proved unable to help
+        # the suggestion run's shared clock (seconds left, or None): a trial's search gets
+        # at most that; one it cut short before its search was proven is dropped and
+        # counted in ``cut``, so every "after" shown is what picker design gives
+        self.left = None
+        self.cut = 0
+        self._capped = False
+        self._proven = True
 
     def rank1(self, stock, stages=None, rank=None, **over):
         from picker.search.yieldrank import reference
 
         self.count += 1
         kw = dict(self.opts, top=1, tradeoff=False, for_people=True, max_error=self.max_error)
-        if self.time_limit is not None:
-            kw["time_limit"] = self.time_limit
+        limit, self._capped = self.time_limit, False
+        if self.left is not None:
+            remaining = max(MIN_TRIAL_S, self.left())
+            if limit is None or remaining < limit:
+                limit, self._capped = remaining, True
+        if limit is not None:
+            kw["time_limit"] = limit
         kw.update(over)
-        return reference(stock, stages or self.stages, rank or self.rank, **kw).candidates[0]
+        found = reference(stock, stages or self.stages, rank or self.rank, **kw)
+        self._proven = bool(getattr(found, "proven", True))
+        return found.candidates[0]
 
     def lower_pieces(self, purchases):
         from picker.search.buystage import StageScreen, attained, lower_key
@@ -185,6 +202,9 @@ class Trial:
             cand = self.rank1(copy)
         except NoDesignError:
             return None
+        if self._capped and not self._proven:  # the shared clock cut this one short
+            self.cut += 1
+            return None
         used = [0] * len(lines)
         for stage in cand.stages:
             for _, arr in stage.positions:
@@ -213,6 +233,7 @@ class Trial:
             ranked = sorted(range(len(purchases)), key=lambda i: (bounds[i] or low, i))
             purchases = [purchases[i] for i in ranked]
             bounds = {k: bounds[i] for k, i in enumerate(ranked)}
+        cut0 = self.cut
         for k, ps in enumerate(purchases):
             if left is not None and left() <= 0:
                 return found, False
@@ -225,4 +246,4 @@ class Trial:
             if res is not None and self.better(res[0], key0):
                 found.append(res)
                 found.sort(key=lambda f: f[0])
-        return found, True
+        return found, self.cut == cut0

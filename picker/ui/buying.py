@@ -17,7 +17,7 @@ SUGGESTIONS = 3
 def buy_job(stock, targets: Targets, before):
     """The BuyResult for ``targets`` on ``stock``; ``before``: the matches' rank 1, or
     None when the stock has no design for them."""
-    from picker.commands.design_buy import BUDGET_S, DEFAULT_TOLERANCE
+    from picker.commands.design_buy import DEFAULT_TOLERANCE, suggest_limit
     from picker.search import Bounds
     from picker.search.buying import suggest
     from picker.ui import backend
@@ -38,7 +38,7 @@ def buy_job(stock, targets: Targets, before):
         ),
         singles=targets.singles,
         allow_polarized=targets.allow_polarized,
-        time_limit=BUDGET_S,
+        time_limit=suggest_limit(targets.time_limit),
         trial_time_limit=targets.time_limit,
         before="none" if before is None else before,
     )

@@ -252,3 +252,14 @@ def test_the_stock_on_disk_is_untouched(tmp_path):
     assert lines[0].index == len(stock.resistors)
     assert path.read_text(encoding="utf-8") == SMALL
     assert np.isclose(copy.resistors[-1].value, 20e3)
+
+
+def test_the_time_limit_is_shared_by_every_trial():
+    """All the trials share one time limit (docs/buying.md, "Time"): with it spent at
+    once, no trial runs, the result says so and nothing unproven is offered."""
+    stock = _small_stock()
+    stages = plan_stages("lowpass", order=2, fc_hz=1000.0)
+    got = suggest(stock, stages, rank="error", max_error=0.005, series="E12", n=3, time_limit=0.0)
+    assert not got.proven
+    assert got.suggestions == []
+    assert any("time limit ended the trials" in note for note in got.notes)
