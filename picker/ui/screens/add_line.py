@@ -15,7 +15,7 @@ from textual.screen import ModalScreen
 from textual.widgets import Footer, Input, Label, OptionList, Select, Static
 
 from picker.ui import backend
-from picker.ui.widgets.common import FocusRows, put, say
+from picker.ui.widgets.common import FocusRows, Plain, put, say
 from stock.errors import PickerError, ValueParseError
 
 # field -> (label, kinds it belongs to, placeholder)
@@ -85,10 +85,9 @@ class AddLineScreen(FocusRows, ModalScreen[str | None]):
 
     def compose(self) -> ComposeResult:
         with Vertical(id="add-dialog", classes="dialog"):
-            yield Static(
+            yield Plain(
                 "A new line in the stock file  (enter in any field: write it)",
                 classes="dialog-title",
-                markup=False,
             )
             with Horizontal(classes="field-row"):
                 yield Label("kind", classes="field-label")
@@ -103,8 +102,8 @@ class AddLineScreen(FocusRows, ModalScreen[str | None]):
                 with Horizontal(classes="field-row", id=f"row-{name}"):
                     yield Label(label, classes="field-label")
                     yield Input(placeholder=hint, id=f"add-{name}", compact=True)
-                    yield Static("", id=f"msg-{name}", classes="field-message", markup=False)
-            yield Static("", id="add-status", markup=False)
+                    yield Plain("", id=f"msg-{name}", classes="field-message")
+            yield Plain("", id="add-status")
         yield Footer()
 
     def on_mount(self) -> None:

@@ -8,6 +8,8 @@ from textual.containers import Vertical, VerticalScroll
 from textual.screen import ModalScreen
 from textual.widgets import Footer, Static
 
+from picker.ui.widgets.common import Plain
+
 
 class ConfirmScreen(ModalScreen[bool]):
     """Dismisses with True on "y", False on "n" (escape also says no)."""
@@ -26,14 +28,10 @@ class ConfirmScreen(ModalScreen[bool]):
 
     def compose(self) -> ComposeResult:
         with Vertical(classes="dialog", id="confirm-dialog"):
-            yield Static(self.question, classes="dialog-title", markup=False)
+            yield Plain(self.question, classes="dialog-title")
             with VerticalScroll(id="confirm-body"):
-                yield (
-                    Static(self.body, markup=False)
-                    if isinstance(self.body, str)
-                    else Static(self.body)
-                )
-            yield Static(f"{self.yes}     {self.no}", id="confirm-keys", markup=False)
+                yield (Plain(self.body) if isinstance(self.body, str) else Static(self.body))
+            yield Plain(f"{self.yes}     {self.no}", id="confirm-keys")
         yield Footer()
 
     def on_mount(self) -> None:

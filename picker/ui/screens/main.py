@@ -23,7 +23,7 @@ from picker.ui import backend, offload
 from picker.ui.offload import Cancelled, Lane
 from picker.ui.targets_form import Targets
 from picker.ui.widgets.chosen import ChosenPane
-from picker.ui.widgets.common import FocusRows, TypingAware
+from picker.ui.widgets.common import FocusRows, TypingAware, plain_lines
 from picker.ui.widgets.drawers import DrawersPane
 from picker.ui.widgets.matches import MatchesPane
 from picker.ui.widgets.targets import TargetsPane
@@ -56,7 +56,7 @@ def bar_text(current: str, *, busy: bool, stock_name: str) -> Text:
             text.append(f" {n} {label} ")
         text.append(" ")
     text.append("  [busy] " if busy else "  ", style="bold")
-    text.append(stock_name)
+    text.append(plain_lines(stock_name))  # a file name is owner text too
     return text
 
 

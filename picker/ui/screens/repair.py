@@ -16,7 +16,6 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from rich.text import Text
 from textual import on, work
 from textual.app import ComposeResult
 from textual.binding import Binding
@@ -29,7 +28,7 @@ from textual.worker import Worker, WorkerState, get_current_worker
 from picker.ui import backend, offload
 from picker.ui.offload import Cancelled, Lane
 from picker.ui.screens import repair_jobs as jobs
-from picker.ui.widgets.common import TypingAware, say
+from picker.ui.widgets.common import Plain, TypingAware, cell, say
 from picker.ui.widgets.plots import ResponsePlot
 from picker.ui.widgets.repair_form import Reading, RepairForm
 from stock.errors import PickerError
@@ -75,21 +74,20 @@ class RepairScreen(TypingAware, Screen):
 
     def compose(self) -> ComposeResult:
         name = self.stock_path.name if self.stock_path else "no stock file"
-        yield Static(
+        yield Plain(
             f"repair: a stage as built, stock parts for a failed one   {name}",
             id="r-title",
-            markup=False,
         )
         with VerticalScroll(id="r-body"):
             yield RepairForm(id="r-form")
-            yield Static("", id="r-sub-status", markup=False)
+            yield Plain("", id="r-sub-status")
             table: DataTable = DataTable(id="r-options", cursor_type="row", zebra_stripes=False)
             table.add_columns(*COLUMNS)
             yield table
-            yield Static("", id="r-analysis", markup=False)
+            yield Plain("", id="r-analysis")
             yield ResponsePlot(id="r-plot")
-            yield Static(cautions_text(), id="r-cautions", markup=False)
-        yield Static("", id="r-status", markup=False)
+            yield Plain(cautions_text(), id="r-cautions")
+        yield Plain("", id="r-status")
         yield Footer()
 
     def on_mount(self) -> None:
@@ -241,7 +239,7 @@ class RepairScreen(TypingAware, Screen):
             return
         self.substitution = sub = payload
         for rank, option in enumerate(sub.options, start=1):
-            table.add_row(*(Text(c) for c in jobs.option_cells(option, rank)))
+            table.add_row(*(cell(c) for c in jobs.option_cells(option, rank)))
         t = sub.intended
         q = "" if t.q is None else f", Q {t.q:.4g}"
         status.update(

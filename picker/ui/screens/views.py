@@ -24,7 +24,7 @@ from textual.worker import get_current_worker
 
 from picker.ui import offload
 from picker.ui.offload import Cancelled, Lane
-from picker.ui.widgets.common import say
+from picker.ui.widgets.common import Plain, say
 from stock.errors import PickerError
 
 PLOT_ROWS = 7
@@ -136,18 +136,16 @@ class ViewsScreen(Screen):
     def compose(self) -> ComposeResult:
         stages = len(self.candidate.stages)
         which = f"candidate {self.rank}" if self.rank else "the chosen candidate"
-        yield Static(
+        yield Plain(
             f"step and delay views of {which} ({stages} stage(s))   ^g / q: back",
             id="v-title",
-            markup=False,
         )
         with VerticalScroll(id="v-body"):
-            yield Static(
+            yield Plain(
                 "[busy] computing the step response and the group delay …",
                 id="v-panel",
-                markup=False,
             )
-            yield Static("", id="v-plots", markup=False)
+            yield Plain("", id="v-plots")
         yield Footer()
 
     def on_mount(self) -> None:

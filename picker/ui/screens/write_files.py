@@ -20,7 +20,7 @@ from textual.widgets import Footer, Input, Label, Static
 
 from picker.ui import outputs
 from picker.ui.pick_targets import answers
-from picker.ui.widgets.common import FocusRows, say
+from picker.ui.widgets.common import FocusRows, Plain, say
 from stock.errors import PickerError
 
 LABELS = {"design": "design", "bom": "BOM CSV", "netlist": "netlist"}
@@ -44,21 +44,19 @@ class WriteFilesScreen(FocusRows, ModalScreen[list[str] | None]):
         names = outputs.default_names(self.targets)
         with Vertical(id="write-dialog", classes="dialog"):
             what = f" ({answers(self.targets)})" if self.targets is not None else ""
-            yield Static(
+            yield Plain(
                 f"Write candidate {self.rank}{what} to files\n(enter: write; ^g: cancel)",
                 classes="dialog-title",
-                markup=False,
             )
             for kind, label in LABELS.items():
                 with Horizontal(classes="field-row"):
                     yield Label(label, classes="field-label")
                     yield Input(names[kind], id=f"w-{kind}", compact=True)
-            yield Static(
+            yield Plain(
                 f"relative names are in {Path.cwd()}; a blank name is not written",
                 id="write-where",
-                markup=False,
             )
-            yield Static("", id="write-status", markup=False)
+            yield Plain("", id="write-status")
         yield Footer()
 
     def on_mount(self) -> None:

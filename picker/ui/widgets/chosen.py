@@ -25,7 +25,7 @@ from picker.ui import backend
 from picker.ui.build_text import build_listing
 from picker.ui.offload import Cancelled, Lane
 from picker.ui.pick_targets import answers, differences
-from picker.ui.widgets.common import say
+from picker.ui.widgets.common import Plain, say
 from picker.ui.widgets.plots import F0Histogram, ResponsePlot
 from stock.errors import PickerError
 
@@ -57,16 +57,14 @@ class ChosenPane(VerticalScroll):
         self.current_targets = None  # the form's targets now (None: a field is wrong)
 
     def compose(self) -> ComposeResult:
-        yield Static(
-            "no candidate chosen yet: pick one in pane 3 (matches)", id="c-title", markup=False
-        )
-        yield Static("", id="c-stale", markup=False)
-        yield Static("", id="c-status", markup=False)
+        yield Plain("no candidate chosen yet: pick one in pane 3 (matches)", id="c-title")
+        yield Plain("", id="c-stale")
+        yield Plain("", id="c-status")
         yield Static("", id="c-headline")
         with Vertical(id="c-body"):
-            yield Static("", id="c-schematic", markup=False)
-            yield Static("", id="c-warnings", markup=False)
-            yield Static("", id="c-budget", markup=False)
+            yield Plain("", id="c-schematic")
+            yield Plain("", id="c-warnings")
+            yield Plain("", id="c-budget")
             yield ResponsePlot(id="c-plot")
             yield F0Histogram(id="c-hist")
 

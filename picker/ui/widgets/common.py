@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from typing import TYPE_CHECKING
 
-from textual.widgets import Checkbox, Input, TextArea
+from textual.widgets import Checkbox, Input, Static, TextArea
 
 if TYPE_CHECKING:
     from textual.widget import Widget
@@ -12,6 +12,39 @@ if TYPE_CHECKING:
     _Mixin = Widget  # the checker sees what the mixin is always combined with
 else:
     _Mixin = object
+
+
+def plain_lines(text: str) -> str:
+    """``text`` with every control character but the line breaks shown as an escape
+    (``picker.report.owner.visible``, line by line): owner text quoted in a message can
+    hold an ESC or an OSC sequence, which must never reach the terminal raw."""
+    from picker.report.owner import visible
+
+    return "\n".join(visible(line) for line in text.split("\n"))
+
+
+def cell(text: object):
+    """A table cell of ``text`` exactly as written: a rich Text (a DataTable reads
+    ``[bold]`` in a plain str as markup), controls escaped."""
+    from rich.text import Text
+
+    if isinstance(text, Text):
+        return text
+    from picker.report.owner import owner_text
+
+    return owner_text(text)
+
+
+class Plain(Static):
+    """A Static that never reads markup and shows control characters escaped: for any
+    text that may quote the owner's (locations, notes, names, file names)."""
+
+    def __init__(self, content="", **kwargs) -> None:
+        kwargs["markup"] = False
+        super().__init__(plain_lines(content) if isinstance(content, str) else content, **kwargs)
+
+    def update(self, content="", *, layout: bool = True) -> None:
+        super().update(plain_lines(content) if isinstance(content, str) else content, layout=layout)
 
 
 class TypingAware(_Mixin):

@@ -16,7 +16,7 @@ from textual.widgets import DataTable, Input, Label, Static
 
 from picker.ui import backend
 from picker.ui.stock_rows import ASSUMED_MARK, COLUMNS, Row, matches, qty_delta, rows_of
-from picker.ui.widgets.common import TypingAware, put, say
+from picker.ui.widgets.common import Plain, TypingAware, cell, put, say
 from stock.errors import PickerError
 
 
@@ -48,13 +48,13 @@ class DrawersPane(TypingAware, Vertical):
         with Horizontal(classes="field-row"):
             yield Label("find", classes="field-label")
             yield Input(placeholder="4k7 C0G A3 ...", id="find", compact=True)
-            yield Static("", id="find-count", markup=False)
+            yield Plain("", id="find-count")
         yield DataTable(id="stock-table", cursor_type="row", zebra_stripes=False)
         with Horizontal(classes="field-row"):
             yield Label("quantity", classes="field-label")
             yield Input(placeholder="12, +3 or -2", id="qty", compact=True)
-            yield Static("", id="qty-message", markup=False)
-        yield Static("", id="drawers-status", markup=False)
+            yield Plain("", id="qty-message")
+        yield Plain("", id="drawers-status")
 
     def on_mount(self) -> None:
         put(self.query_one("#find-count", Static), "reading the stock file…")
@@ -100,10 +100,10 @@ class DrawersPane(TypingAware, Vertical):
         # the widths of the headings and cut "op amp" to "op a"
         table.clear(columns=True)
         for k, label in enumerate(COLUMNS):
-            width = max([len(label)] + [len(row.cells[k]) for row in self.rows])
+            width = max([len(label)] + [cell(row.cells[k]).cell_len for row in self.rows])
             table.add_column(label, width=width)
         for row in self.shown:
-            table.add_row(*row.cells, key=f"{row.kind}:{row.index}")
+            table.add_row(*(cell(c) for c in row.cells), key=f"{row.kind}:{row.index}")
         if keep is not None:
             for i, row in enumerate(self.shown):
                 if (row.kind, row.index) == (keep.kind, keep.index):

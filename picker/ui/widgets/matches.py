@@ -21,7 +21,7 @@ from textual.worker import get_current_worker
 from picker.report.design import pct, tradeoff_table
 from picker.report.yields import yield_text
 from picker.ui.offload import Cancelled, Lane
-from picker.ui.widgets.common import say
+from picker.ui.widgets.common import Plain, cell, say
 from stock.errors import PickerError
 
 COLUMNS = ("rank", "worst error", "pieces", "values (stages split by |)", "notes")
@@ -66,9 +66,9 @@ class MatchesPane(Vertical):
         self._buy_for = None  # the (stock, targets) of the rows shown
 
     def compose(self) -> ComposeResult:
-        yield Static("no search yet: fill in the targets (pane 2)", id="m-status", markup=False)
+        yield Plain("no search yet: fill in the targets (pane 2)", id="m-status")
         yield DataTable(id="m-table", cursor_type="row")
-        yield Static("", id="m-buy", markup=False)
+        yield Plain("", id="m-buy")
         yield Static("", id="m-tradeoff")
 
     def on_mount(self) -> None:
@@ -112,8 +112,9 @@ class MatchesPane(Vertical):
                 notes.append(f"as {seen[values]}, other drawers")
             seen.setdefault(values, rank)
             table.add_row(
-                str(rank), pct(c.score, 3), str(c.pieces), values, "; ".join(notes), key=str(rank)
-            )
+                str(rank), pct(c.score, 3), str(c.pieces), cell(values), cell("; ".join(notes)),
+                key=str(rank),
+            )  # fmt: skip
         n = len(self.candidates)
         head = "stopped" if stopped else "done"
         note = ""

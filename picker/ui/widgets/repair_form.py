@@ -17,7 +17,7 @@ from textual.message import Message
 from textual.widgets import Checkbox, Input, Label, Select, Static
 
 from picker.ui.screens import repair_jobs as jobs
-from picker.ui.widgets.common import Tick, put, say
+from picker.ui.widgets.common import Plain, Tick, put, say
 from stock.errors import PickerError
 
 DEFAULT_TOPOLOGY = "sallen-key-lowpass"
@@ -76,13 +76,13 @@ class RepairForm(Vertical):
                 id="r-topology",
                 compact=True,
             )
-            yield Static("as picker analyse --list", classes="field-message", markup=False)
+            yield Plain("as picker analyse --list", classes="field-message")
         with Vertical(id="r-values"):
             yield from self._rows(self.topology)
         with Horizontal(classes="field-row"):
             yield Label("op amp GBW", classes="field-label")
             yield Input("", id="r-gbw", compact=True)
-            yield Static(GBW_HINT, id="r-gbw-msg", classes="field-message", markup=False)
+            yield Plain(GBW_HINT, id="r-gbw-msg", classes="field-message")
         with Horizontal(classes="field-row"):
             yield Label("failed", classes="field-label")
             yield Select(
@@ -92,13 +92,11 @@ class RepairForm(Vertical):
                 id="r-failed",
                 compact=True,
             )
-            yield Static(
-                "the position to refill from the stock", classes="field-message", markup=False
-            )
+            yield Plain("the position to refill from the stock", classes="field-message")
         with Horizontal(classes="field-row"):
             yield Label("free too", classes="field-label")
             yield Input("", id="r-free", compact=True)
-            yield Static(FREE_HINT, id="r-free-msg", classes="field-message", markup=False)
+            yield Plain(FREE_HINT, id="r-free-msg", classes="field-message")
         with Horizontal(classes="field-row"):
             yield Tick(
                 "single pieces only (no series/parallel pairs)", id="r-singles", compact=True
@@ -121,11 +119,10 @@ class RepairForm(Vertical):
                 Horizontal(
                     Label(name, classes="field-label"),
                     Input("", id=f"r-pos-{name}", compact=True),
-                    Static(
+                    Plain(
                         self.hints[name],
                         id=f"r-msg-{name}",
                         classes="field-message",
-                        markup=False,
                     ),
                     classes="field-row",
                 )

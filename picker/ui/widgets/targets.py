@@ -26,7 +26,7 @@ from picker.ui.targets_form import (
     Targets,
     read_targets,
 )
-from picker.ui.widgets.common import Tick, put, say
+from picker.ui.widgets.common import Plain, Tick, put, say
 
 HINTS = {
     "order": "1 to 8; blank: 2 or from the stopband",
@@ -76,7 +76,7 @@ class TargetsPane(Vertical):
                     id=f"t-{name}",
                     compact=True,
                 )
-                yield Static(hint, classes="field-message", markup=False)
+                yield Plain(hint, classes="field-message")
 
         fields = VerticalScroll(id="t-fields")
         fields.can_focus = False  # the focus goes to the fields; the focused one scrolls in
@@ -93,7 +93,7 @@ class TargetsPane(Vertical):
                 with Horizontal(classes="field-row"):
                     yield Label(label, classes="field-label")
                     yield Input(default, id=f"t-{name}", compact=True)
-                    yield Static(HINTS[name], id=f"m-{name}", classes="field-message", markup=False)
+                    yield Plain(HINTS[name], id=f"m-{name}", classes="field-message")
                 if name == "time":
                     for tick_id, text in (
                         ("t-singles", "single pieces only (no series/parallel pairs)"),
@@ -101,8 +101,8 @@ class TargetsPane(Vertical):
                     ):
                         with Horizontal(classes="field-row"):
                             yield Tick(text, id=tick_id, compact=True)
-        yield Static("", id="t-status", markup=False)
-        yield Static("", id="t-outcome", markup=False)
+        yield Plain("", id="t-status")
+        yield Plain("", id="t-outcome")
 
     def on_mount(self) -> None:
         self.call_after_refresh(self._read_all)
