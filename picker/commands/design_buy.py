@@ -94,8 +94,9 @@ def rank_of(args) -> tuple[str, float]:
     rank = getattr(args, "rank", None) or "error"
     if rank == "yield":
         raise DesignError(
-            "--suggest ranks purchases under --rank pieces or --rank error; "
-            "under --rank yield it is not available yet"
+            "--suggest cannot rank purchases by yield, because each trial would need its "
+            "own Monte Carlo yield ranking and they would not fit in one time limit: run "
+            "--suggest with --rank error, then check the purchase you pick with --rank yield"
         )
     goal = getattr(args, "max_error", None)
     if goal is None:

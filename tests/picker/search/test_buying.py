@@ -263,3 +263,14 @@ def test_the_time_limit_is_shared_by_every_trial():
     assert not got.proven
     assert got.suggestions == []
     assert any("time limit ended the trials" in note for note in got.notes)
+
+
+def test_suggest_with_rank_yield_says_why_and_what_to_do(capsys, tmp_path):
+    """The refusal of --suggest with --rank yield gives the reason and the way round it
+    (docs/buying.md)."""
+    path = tmp_path / "inventory.toml"
+    path.write_text(SMALL, encoding="utf-8")
+    code, out, err = _cli(capsys, path, "--suggest", "2", "--rank", "yield")
+    assert code == 2 and out == ""
+    assert "because" in err and "--rank error" in err
+    assert "Traceback" not in err
