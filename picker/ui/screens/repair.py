@@ -29,7 +29,7 @@ from textual.worker import Worker, WorkerState, get_current_worker
 from picker.ui import backend, offload
 from picker.ui.offload import Cancelled, Lane
 from picker.ui.screens import repair_jobs as jobs
-from picker.ui.widgets.common import TypingAware, say
+from picker.ui.widgets.common import RowTable, TypingAware, say
 from picker.ui.widgets.plots import ResponsePlot
 from picker.ui.widgets.repair_form import Reading, RepairForm
 from stock.errors import PickerError
@@ -83,7 +83,7 @@ class RepairScreen(TypingAware, Screen):
         with VerticalScroll(id="r-body"):
             yield RepairForm(id="r-form")
             yield Static("", id="r-sub-status", markup=False)
-            table: DataTable = DataTable(id="r-options", cursor_type="row", zebra_stripes=False)
+            table: DataTable = RowTable(id="r-options", zebra_stripes=False)
             table.add_columns(*COLUMNS)
             yield table
             yield Static("", id="r-analysis", markup=False)

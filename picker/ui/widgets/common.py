@@ -4,7 +4,8 @@ from __future__ import annotations
 
 from typing import TYPE_CHECKING
 
-from textual.widgets import Checkbox, Input, TextArea
+from textual.binding import Binding
+from textual.widgets import Checkbox, DataTable, Input, TextArea
 
 if TYPE_CHECKING:
     from textual.widget import Widget
@@ -84,3 +85,21 @@ def put(static, content) -> None:
     if getattr(static, "_picker_shown", None) != content:
         static._picker_shown = content
         static.update(content)
+
+
+class RowTable(DataTable):
+    """The one table every pane uses: a row cursor, and Home/End go to the first/last row.
+
+    Textual's own table keeps Home/End for the leftmost/rightmost column (and moves
+    rows only with ctrl+home/ctrl+end); a person reading a list of parts expects
+    Home and End to jump within the list, so both spellings do that here.
+    """
+
+    BINDINGS = [
+        Binding("home,ctrl+home", "scroll_top", "first row", show=False),
+        Binding("end,ctrl+end", "scroll_bottom", "last row", show=False),
+    ]
+
+    def __init__(self, **kwargs) -> None:
+        kwargs.setdefault("cursor_type", "row")
+        super().__init__(**kwargs)
