@@ -5,7 +5,7 @@ from __future__ import annotations
 from typing import TYPE_CHECKING
 
 from textual.binding import Binding
-from textual.widgets import Checkbox, DataTable, Input, TextArea
+from textual.widgets import Checkbox, DataTable, Input, ListView, OptionList, TextArea
 
 if TYPE_CHECKING:
     from textual.widget import Widget
@@ -103,3 +103,44 @@ class RowTable(DataTable):
     def __init__(self, **kwargs) -> None:
         kwargs.setdefault("cursor_type", "row")
         super().__init__(**kwargs)
+
+
+_LISTS = (DataTable, ListView, OptionList)
+
+
+class Field(Input):
+    """A text field where Escape (or ctrl+g) cancels the edit.
+
+    The field gets back the text it had when it took the focus, without applying it
+    (the field's own ``Changed`` message still tells the pane, as after any edit),
+    and the focus goes to the list of its pane: the nearest table or list among the
+    field's surroundings. A field with no list around it (a dialog's form) lets the
+    key go on to the screen, where Escape means "no/back".
+    """
+
+    BINDINGS = [Binding("escape,ctrl+g", "cancel_edit", "cancel edit", show=False)]
+
+    _picker_before = ""
+
+    def on_focus(self) -> None:
+        self._picker_before = self.value
+
+    def _pane_list(self) -> Widget | None:
+        for node in self.ancestors:
+            if node is self.screen:
+                break
+            for found in node.query("*"):
+                if isinstance(found, _LISTS) and found.focusable:
+                    return found
+        return None
+
+    def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
+        if action == "cancel_edit":
+            return self._pane_list() is not None
+        return super().check_action(action, parameters)
+
+    def action_cancel_edit(self) -> None:
+        target = self._pane_list()
+        self.value = self._picker_before
+        if target is not None:
+            target.focus()

@@ -16,7 +16,7 @@ from textual.widgets import DataTable, Input, Label, Static
 
 from picker.ui import backend
 from picker.ui.stock_rows import ASSUMED_MARK, COLUMNS, Row, matches, qty_delta, rows_of
-from picker.ui.widgets.common import RowTable, TypingAware, put, say
+from picker.ui.widgets.common import Field, RowTable, TypingAware, put, say
 from stock.errors import PickerError
 
 
@@ -47,12 +47,12 @@ class DrawersPane(TypingAware, Vertical):
     def compose(self) -> ComposeResult:
         with Horizontal(classes="field-row"):
             yield Label("find", classes="field-label")
-            yield Input(placeholder="4k7 C0G A3 ...", id="find", compact=True)
+            yield Field(placeholder="4k7 C0G A3 ...", id="find", compact=True)
             yield Static("", id="find-count", markup=False)
         yield RowTable(id="stock-table", zebra_stripes=False)
         with Horizontal(classes="field-row"):
             yield Label("quantity", classes="field-label")
-            yield Input(placeholder="12, +3 or -2", id="qty", compact=True)
+            yield Field(placeholder="12, +3 or -2", id="qty", compact=True)
             yield Static("", id="qty-message", markup=False)
         yield Static("", id="drawers-status", markup=False)
 

@@ -17,7 +17,7 @@ from textual.message import Message
 from textual.widgets import Checkbox, Input, Label, Select, Static
 
 from picker.ui.screens import repair_jobs as jobs
-from picker.ui.widgets.common import Tick, put, say
+from picker.ui.widgets.common import Field, Tick, put, say
 from stock.errors import PickerError
 
 DEFAULT_TOPOLOGY = "sallen-key-lowpass"
@@ -81,7 +81,7 @@ class RepairForm(Vertical):
             yield from self._rows(self.topology)
         with Horizontal(classes="field-row"):
             yield Label("op amp GBW", classes="field-label")
-            yield Input("", id="r-gbw", compact=True)
+            yield Field("", id="r-gbw", compact=True)
             yield Static(GBW_HINT, id="r-gbw-msg", classes="field-message", markup=False)
         with Horizontal(classes="field-row"):
             yield Label("failed", classes="field-label")
@@ -97,7 +97,7 @@ class RepairForm(Vertical):
             )
         with Horizontal(classes="field-row"):
             yield Label("free too", classes="field-label")
-            yield Input("", id="r-free", compact=True)
+            yield Field("", id="r-free", compact=True)
             yield Static(FREE_HINT, id="r-free-msg", classes="field-message", markup=False)
         with Horizontal(classes="field-row"):
             yield Tick(
@@ -120,7 +120,7 @@ class RepairForm(Vertical):
             rows.append(
                 Horizontal(
                     Label(name, classes="field-label"),
-                    Input("", id=f"r-pos-{name}", compact=True),
+                    Field("", id=f"r-pos-{name}", compact=True),
                     Static(
                         self.hints[name],
                         id=f"r-msg-{name}",
