@@ -20,6 +20,9 @@ Anywhere
   The field with the focus has a bar at its left and its label is
   shown in reverse.
   tab         next field or table; shift+tab goes back
+  home/end    first/last row of a table
+  escape      in a text field beside a table: undo the edit, back
+              to the table (ctrl+g too); in a dialog: no / back
   m           repair mode: a stage as built, substitutes for a part
 
 1 drawers: the stock file
