@@ -65,3 +65,18 @@ async def test_escape_in_the_find_field_restores_the_words_it_had(stock_copy):
         assert app.screen.query_one("#find", Input).value == "c0g"
         assert table.row_count == 1 and table.get_row_at(0)[1] == "10n"
         assert app.focused is table
+
+
+async def test_footer_keeps_help_and_quit_on_a_60_by_18_screen(stock_copy):
+    """A narrow terminal still shows how to get help and how to leave."""
+    from textual.widgets._footer import FooterKey
+
+    app = PickerApp(stock_copy)
+    async with app.run_test(size=(60, 18)) as pilot:
+        await settle(pilot, app)
+        shown = {
+            key.key_display
+            for key in app.screen.query(FooterKey)
+            if key.region.width and key.region.right <= 60
+        }
+        assert {"?", "^q"} <= shown

@@ -6,7 +6,9 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical, VerticalScroll
 from textual.screen import ModalScreen
-from textual.widgets import Footer, Static
+from textual.widgets import Static
+
+from picker.ui.widgets.common import KeysFooter
 
 
 class ConfirmScreen(ModalScreen[bool]):
@@ -34,7 +36,7 @@ class ConfirmScreen(ModalScreen[bool]):
                     else Static(self.body)
                 )
             yield Static(f"{self.yes}     {self.no}", id="confirm-keys", markup=False)
-        yield Footer()
+        yield KeysFooter()
 
     def on_mount(self) -> None:
         self.query_one("#confirm-body").focus()

@@ -7,7 +7,9 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import VerticalScroll
 from textual.screen import ModalScreen
-from textual.widgets import Footer, Static
+from textual.widgets import Static
+
+from picker.ui.widgets.common import KeysFooter
 
 KEYS = """\
 Anywhere
@@ -89,7 +91,7 @@ class HelpScreen(ModalScreen[None]):
             text.append("\n")
             text.append(CAUTIONS, style="bold")
             yield Static(text)
-        yield Footer()
+        yield KeysFooter()
 
     def on_mount(self) -> None:
         self.query_one("#help-body").focus()

@@ -23,13 +23,13 @@ from textual.binding import Binding
 from textual.containers import VerticalScroll
 from textual.screen import Screen
 from textual.timer import Timer
-from textual.widgets import DataTable, Footer, Static
+from textual.widgets import DataTable, Static
 from textual.worker import Worker, WorkerState, get_current_worker
 
 from picker.ui import backend, offload
 from picker.ui.offload import Cancelled, Lane
 from picker.ui.screens import repair_jobs as jobs
-from picker.ui.widgets.common import RowTable, TypingAware, say
+from picker.ui.widgets.common import KeysFooter, RowTable, TypingAware, say
 from picker.ui.widgets.plots import ResponsePlot
 from picker.ui.widgets.repair_form import Reading, RepairForm
 from stock.errors import PickerError
@@ -90,7 +90,7 @@ class RepairScreen(TypingAware, Screen):
             yield ResponsePlot(id="r-plot")
             yield Static(cautions_text(), id="r-cautions", markup=False)
         yield Static("", id="r-status", markup=False)
-        yield Footer()
+        yield KeysFooter()
 
     def on_mount(self) -> None:
         offload.start()  # idempotent: the main screen has started it already

@@ -19,12 +19,12 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import VerticalScroll
 from textual.screen import Screen
-from textual.widgets import Footer, Static
+from textual.widgets import Static
 from textual.worker import get_current_worker
 
 from picker.ui import offload
 from picker.ui.offload import Cancelled, Lane
-from picker.ui.widgets.common import say
+from picker.ui.widgets.common import KeysFooter, say
 from stock.errors import PickerError
 
 PLOT_ROWS = 7
@@ -148,7 +148,7 @@ class ViewsScreen(Screen):
                 markup=False,
             )
             yield Static("", id="v-plots", markup=False)
-        yield Footer()
+        yield KeysFooter()
 
     def on_mount(self) -> None:
         offload.start()

@@ -16,11 +16,11 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical
 from textual.screen import ModalScreen
-from textual.widgets import Footer, Input, Label, Static
+from textual.widgets import Input, Label, Static
 
 from picker.ui import outputs
 from picker.ui.pick_targets import answers
-from picker.ui.widgets.common import FocusRows, say
+from picker.ui.widgets.common import FocusRows, KeysFooter, say
 from stock.errors import PickerError
 
 LABELS = {"design": "design", "bom": "BOM CSV", "netlist": "netlist"}
@@ -59,7 +59,7 @@ class WriteFilesScreen(FocusRows, ModalScreen[list[str] | None]):
                 markup=False,
             )
             yield Static("", id="write-status", markup=False)
-        yield Footer()
+        yield KeysFooter()
 
     def on_mount(self) -> None:
         self.query_one("#w-design", Input).focus()

@@ -5,7 +5,7 @@ from __future__ import annotations
 from typing import TYPE_CHECKING
 
 from textual.binding import Binding
-from textual.widgets import Checkbox, DataTable, Input, ListView, OptionList, TextArea
+from textual.widgets import Checkbox, DataTable, Footer, Input, ListView, OptionList, TextArea
 
 if TYPE_CHECKING:
     from textual.widget import Widget
@@ -144,3 +144,20 @@ class Field(Input):
         self.value = self._picker_before
         if target is not None:
             target.focus()
+
+
+_FIRST_KEYS = ("app.help", "help", "quit", "app.quit")
+
+
+class KeysFooter(Footer):
+    """The footer every screen uses: help (?) and quit (^q) come first.
+
+    Textual lists the focused widget's keys first and the app's last, so on a narrow
+    terminal (60 columns) the two keys a person needs most fell off the right edge.
+    """
+
+    def compose(self):
+        keys = list(super().compose())
+        first = [k for k in keys if getattr(k, "action", None) in _FIRST_KEYS]
+        first.sort(key=lambda k: _FIRST_KEYS.index(k.action) // 2)
+        yield from first + [k for k in keys if k not in first]
