@@ -34,3 +34,17 @@ def test_a_burst_fills_the_stopband_and_the_order_follows(terminal, stock_copy):
     assert "peak output; blank: slew unchecked" in field_line(screen, "out peak V")
     terminal.keys("C-q")
     terminal.wait_for("EXITED:0")
+
+
+def test_an_open_list_has_a_border_under_no_color(terminal, stock_copy):  # noqa: F811
+    """Without colour the open dropdown must still be set apart: box characters."""
+    terminal.start(picker_command(stock_copy), {"NO_COLOR": "1"})
+    terminal.wait_for("^q quit")
+    terminal.keys("2")
+    terminal.wait_for("what passes")
+    terminal.keys("Enter")  # the type list has the focus: open it
+    terminal.wait_for("╭")
+    terminal.wait_for("╰")
+    terminal.keys("Escape")
+    terminal.keys("C-q")
+    terminal.wait_for("EXITED:0")

@@ -12,10 +12,10 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical
 from textual.screen import ModalScreen
-from textual.widgets import Footer, Input, Label, OptionList, Select, Static
+from textual.widgets import Input, Label, OptionList, Select, Static
 
 from picker.ui import backend
-from picker.ui.widgets.common import FocusRows, Plain, put, say
+from picker.ui.widgets.common import FocusRows, KeysFooter, Plain, put, say
 from stock.errors import PickerError, ValueParseError
 
 # field -> (label, kinds it belongs to, placeholder)
@@ -104,7 +104,7 @@ class AddLineScreen(FocusRows, ModalScreen[str | None]):
                     yield Input(placeholder=hint, id=f"add-{name}", compact=True)
                     yield Plain("", id=f"msg-{name}", classes="field-message")
             yield Plain("", id="add-status")
-        yield Footer()
+        yield KeysFooter()
 
     def on_mount(self) -> None:
         self._show_fields()

@@ -6,9 +6,9 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical, VerticalScroll
 from textual.screen import ModalScreen
-from textual.widgets import Footer, Static
+from textual.widgets import Static
 
-from picker.ui.widgets.common import Plain
+from picker.ui.widgets.common import KeysFooter, Plain
 
 
 class ConfirmScreen(ModalScreen[bool]):
@@ -32,7 +32,7 @@ class ConfirmScreen(ModalScreen[bool]):
             with VerticalScroll(id="confirm-body"):
                 yield (Plain(self.body) if isinstance(self.body, str) else Static(self.body))
             yield Plain(f"{self.yes}     {self.no}", id="confirm-keys")
-        yield Footer()
+        yield KeysFooter()
 
     def on_mount(self) -> None:
         self.query_one("#confirm-body").focus()

@@ -7,7 +7,9 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import VerticalScroll
 from textual.screen import ModalScreen
-from textual.widgets import Footer, Static
+from textual.widgets import Static
+
+from picker.ui.widgets.common import KeysFooter
 
 KEYS = """\
 Anywhere
@@ -20,6 +22,9 @@ Anywhere
   The field with the focus has a bar at its left and its label is
   shown in reverse.
   tab         next field or table; shift+tab goes back
+  home/end    first/last row of a table
+  escape      in a text field beside a table: undo the edit, back
+              to the table (ctrl+g too); in a dialog: no / back
   m           repair mode: a stage as built, substitutes for a part
 
 1 drawers: the stock file
@@ -86,7 +91,7 @@ class HelpScreen(ModalScreen[None]):
             text.append("\n")
             text.append(CAUTIONS, style="bold")
             yield Static(text)
-        yield Footer()
+        yield KeysFooter()
 
     def on_mount(self) -> None:
         self.query_one("#help-body").focus()

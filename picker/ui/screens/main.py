@@ -16,14 +16,14 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.screen import Screen
 from textual.timer import Timer
-from textual.widgets import ContentSwitcher, Footer, Static
+from textual.widgets import ContentSwitcher, Static
 from textual.worker import Worker, WorkerState, get_current_worker
 
 from picker.ui import backend, offload
 from picker.ui.offload import Cancelled, Lane
 from picker.ui.targets_form import Targets
 from picker.ui.widgets.chosen import ChosenPane
-from picker.ui.widgets.common import FocusRows, TypingAware, plain_lines
+from picker.ui.widgets.common import FocusRows, KeysFooter, TypingAware, plain_lines
 from picker.ui.widgets.drawers import DrawersPane
 from picker.ui.widgets.matches import MatchesPane
 from picker.ui.widgets.targets import TargetsPane
@@ -109,7 +109,7 @@ class MainScreen(FocusRows, TypingAware, Screen):
         yield PaneBar(bar_text("drawers", busy=False, stock_name=name), id="pane-bar")
         with ContentSwitcher(initial="drawers", id="panes"):
             yield DrawersPane(id="drawers")  # the other panes come after the first paint
-        yield Footer()
+        yield KeysFooter()
 
     def on_mount(self) -> None:
         self._bar()

@@ -22,13 +22,13 @@ from textual.binding import Binding
 from textual.containers import VerticalScroll
 from textual.screen import Screen
 from textual.timer import Timer
-from textual.widgets import DataTable, Footer, Static
+from textual.widgets import DataTable, Static
 from textual.worker import Worker, WorkerState, get_current_worker
 
 from picker.ui import backend, offload
 from picker.ui.offload import Cancelled, Lane
 from picker.ui.screens import repair_jobs as jobs
-from picker.ui.widgets.common import Plain, TypingAware, cell, say
+from picker.ui.widgets.common import KeysFooter, Plain, RowTable, TypingAware, cell, say
 from picker.ui.widgets.plots import ResponsePlot
 from picker.ui.widgets.repair_form import Reading, RepairForm
 from stock.errors import PickerError
@@ -81,14 +81,14 @@ class RepairScreen(TypingAware, Screen):
         with VerticalScroll(id="r-body"):
             yield RepairForm(id="r-form")
             yield Plain("", id="r-sub-status")
-            table: DataTable = DataTable(id="r-options", cursor_type="row", zebra_stripes=False)
+            table: DataTable = RowTable(id="r-options", zebra_stripes=False)
             table.add_columns(*COLUMNS)
             yield table
             yield Plain("", id="r-analysis")
             yield ResponsePlot(id="r-plot")
             yield Plain(cautions_text(), id="r-cautions")
         yield Plain("", id="r-status")
-        yield Footer()
+        yield KeysFooter()
 
     def on_mount(self) -> None:
         offload.start()  # idempotent: the main screen has started it already

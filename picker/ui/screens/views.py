@@ -19,12 +19,12 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import VerticalScroll
 from textual.screen import Screen
-from textual.widgets import Footer, Static
+from textual.widgets import Static
 from textual.worker import get_current_worker
 
 from picker.ui import offload
 from picker.ui.offload import Cancelled, Lane
-from picker.ui.widgets.common import Plain, say
+from picker.ui.widgets.common import KeysFooter, Plain, say
 from stock.errors import PickerError
 
 PLOT_ROWS = 7
@@ -146,7 +146,7 @@ class ViewsScreen(Screen):
                 id="v-panel",
             )
             yield Plain("", id="v-plots")
-        yield Footer()
+        yield KeysFooter()
 
     def on_mount(self) -> None:
         offload.start()

@@ -16,11 +16,11 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical
 from textual.screen import ModalScreen
-from textual.widgets import Footer, Input, Label, Static
+from textual.widgets import Input, Label, Static
 
 from picker.ui import outputs
 from picker.ui.pick_targets import answers
-from picker.ui.widgets.common import FocusRows, Plain, say
+from picker.ui.widgets.common import FocusRows, KeysFooter, Plain, say
 from stock.errors import PickerError
 
 LABELS = {"design": "design", "bom": "BOM CSV", "netlist": "netlist"}
@@ -57,7 +57,7 @@ class WriteFilesScreen(FocusRows, ModalScreen[list[str] | None]):
                 id="write-where",
             )
             yield Plain("", id="write-status")
-        yield Footer()
+        yield KeysFooter()
 
     def on_mount(self) -> None:
         self.query_one("#w-design", Input).focus()

@@ -4,7 +4,17 @@ from __future__ import annotations
 
 from typing import TYPE_CHECKING
 
-from textual.widgets import Checkbox, Input, Static, TextArea
+from textual.binding import Binding
+from textual.widgets import (
+    Checkbox,
+    DataTable,
+    Footer,
+    Input,
+    ListView,
+    OptionList,
+    Static,
+    TextArea,
+)
 
 if TYPE_CHECKING:
     from textual.widget import Widget
@@ -117,3 +127,79 @@ def put(static, content) -> None:
     if getattr(static, "_picker_shown", None) != content:
         static._picker_shown = content
         static.update(content)
+
+
+class RowTable(DataTable):
+    """The one table every pane uses: a row cursor, and Home/End go to the first/last row.
+
+    Textual's own table keeps Home/End for the leftmost/rightmost column (and moves
+    rows only with ctrl+home/ctrl+end); a person reading a list of parts expects
+    Home and End to jump within the list, so both spellings do that here.
+    """
+
+    BINDINGS = [
+        Binding("home,ctrl+home", "scroll_top", "first row", show=False),
+        Binding("end,ctrl+end", "scroll_bottom", "last row", show=False),
+    ]
+
+    def __init__(self, **kwargs) -> None:
+        kwargs.setdefault("cursor_type", "row")
+        super().__init__(**kwargs)
+
+
+_LISTS = (DataTable, ListView, OptionList)
+
+
+class Field(Input):
+    """A text field where Escape (or ctrl+g) cancels the edit.
+
+    The field gets back the text it had when it took the focus, without applying it
+    (the field's own ``Changed`` message still tells the pane, as after any edit),
+    and the focus goes to the list of its pane: the nearest table or list among the
+    field's surroundings. A field with no list around it (a dialog's form) lets the
+    key go on to the screen, where Escape means "no/back".
+    """
+
+    BINDINGS = [Binding("escape,ctrl+g", "cancel_edit", "cancel edit", show=False)]
+
+    _picker_before = ""
+
+    def on_focus(self) -> None:
+        self._picker_before = self.value
+
+    def _pane_list(self) -> Widget | None:
+        for node in self.ancestors:
+            if node is self.screen:
+                break
+            for found in node.query("*"):
+                if isinstance(found, _LISTS) and found.focusable:
+                    return found
+        return None
+
+    def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
+        if action == "cancel_edit":
+            return self._pane_list() is not None
+        return super().check_action(action, parameters)
+
+    def action_cancel_edit(self) -> None:
+        target = self._pane_list()
+        self.value = self._picker_before
+        if target is not None:
+            target.focus()
+
+
+_FIRST_KEYS = ("app.help", "help", "quit", "app.quit")
+
+
+class KeysFooter(Footer):
+    """The footer every screen uses: help (?) and quit (^q) come first.
+
+    Textual lists the focused widget's keys first and the app's last, so on a narrow
+    terminal (60 columns) the two keys a person needs most fell off the right edge.
+    """
+
+    def compose(self):
+        keys = list(super().compose())
+        first = [k for k in keys if getattr(k, "action", None) in _FIRST_KEYS]
+        first.sort(key=lambda k: _FIRST_KEYS.index(k.action) // 2)
+        yield from first + [k for k in keys if k not in first]

@@ -16,7 +16,7 @@ from textual.widgets import DataTable, Input, Label, Static
 
 from picker.ui import backend
 from picker.ui.stock_rows import ASSUMED_MARK, COLUMNS, Row, matches, qty_delta, rows_of
-from picker.ui.widgets.common import Plain, TypingAware, cell, put, say
+from picker.ui.widgets.common import Field, Plain, RowTable, TypingAware, cell, put, say
 from stock.errors import PickerError
 
 
@@ -47,12 +47,12 @@ class DrawersPane(TypingAware, Vertical):
     def compose(self) -> ComposeResult:
         with Horizontal(classes="field-row"):
             yield Label("find", classes="field-label")
-            yield Input(placeholder="4k7 C0G A3 ...", id="find", compact=True)
+            yield Field(placeholder="4k7 C0G A3 ...", id="find", compact=True)
             yield Plain("", id="find-count")
-        yield DataTable(id="stock-table", cursor_type="row", zebra_stripes=False)
+        yield RowTable(id="stock-table", zebra_stripes=False)
         with Horizontal(classes="field-row"):
             yield Label("quantity", classes="field-label")
-            yield Input(placeholder="12, +3 or -2", id="qty", compact=True)
+            yield Field(placeholder="12, +3 or -2", id="qty", compact=True)
             yield Plain("", id="qty-message")
         yield Plain("", id="drawers-status")
 

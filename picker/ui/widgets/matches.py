@@ -21,7 +21,7 @@ from textual.worker import get_current_worker
 from picker.report.design import pct, tradeoff_table
 from picker.report.yields import yield_text
 from picker.ui.offload import Cancelled, Lane
-from picker.ui.widgets.common import Plain, cell, say
+from picker.ui.widgets.common import Plain, RowTable, cell, say
 from stock.errors import PickerError
 
 COLUMNS = ("rank", "worst error", "pieces", "values (stages split by |)", "notes")
@@ -67,7 +67,7 @@ class MatchesPane(Vertical):
 
     def compose(self) -> ComposeResult:
         yield Plain("no search yet: fill in the targets (pane 2)", id="m-status")
-        yield DataTable(id="m-table", cursor_type="row")
+        yield RowTable(id="m-table")
         yield Plain("", id="m-buy")
         yield Static("", id="m-tradeoff")
 

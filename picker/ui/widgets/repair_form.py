@@ -17,7 +17,7 @@ from textual.message import Message
 from textual.widgets import Checkbox, Input, Label, Select, Static
 
 from picker.ui.screens import repair_jobs as jobs
-from picker.ui.widgets.common import Plain, Tick, put, say
+from picker.ui.widgets.common import Field, Plain, Tick, put, say
 from stock.errors import PickerError
 
 DEFAULT_TOPOLOGY = "sallen-key-lowpass"
@@ -81,7 +81,7 @@ class RepairForm(Vertical):
             yield from self._rows(self.topology)
         with Horizontal(classes="field-row"):
             yield Label("op amp GBW", classes="field-label")
-            yield Input("", id="r-gbw", compact=True)
+            yield Field("", id="r-gbw", compact=True)
             yield Plain(GBW_HINT, id="r-gbw-msg", classes="field-message")
         with Horizontal(classes="field-row"):
             yield Label("failed", classes="field-label")
@@ -95,7 +95,7 @@ class RepairForm(Vertical):
             yield Plain("the position to refill from the stock", classes="field-message")
         with Horizontal(classes="field-row"):
             yield Label("free too", classes="field-label")
-            yield Input("", id="r-free", compact=True)
+            yield Field("", id="r-free", compact=True)
             yield Plain(FREE_HINT, id="r-free-msg", classes="field-message")
         with Horizontal(classes="field-row"):
             yield Tick(
@@ -118,8 +118,8 @@ class RepairForm(Vertical):
             rows.append(
                 Horizontal(
                     Label(name, classes="field-label"),
-                    Input("", id=f"r-pos-{name}", compact=True),
-                    Plain(
+                    Field("", id=f"r-pos-{name}", compact=True),
+                    Static(
                         self.hints[name],
                         id=f"r-msg-{name}",
                         classes="field-message",

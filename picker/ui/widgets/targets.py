@@ -26,7 +26,7 @@ from picker.ui.targets_form import (
     Targets,
     read_targets,
 )
-from picker.ui.widgets.common import Plain, Tick, put, say
+from picker.ui.widgets.common import Field, Plain, Tick, put, say
 
 HINTS = {
     "order": "1 to 8; blank: 2 or from the stopband",
@@ -92,7 +92,7 @@ class TargetsPane(Vertical):
                     yield from choice("rank", "rank by", RANKS, RANK_HINT)
                 with Horizontal(classes="field-row"):
                     yield Label(label, classes="field-label")
-                    yield Input(default, id=f"t-{name}", compact=True)
+                    yield Field(default, id=f"t-{name}", compact=True)
                     yield Plain(HINTS[name], id=f"m-{name}", classes="field-message")
                 if name == "time":
                     for tick_id, text in (
