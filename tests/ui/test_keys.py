@@ -63,7 +63,7 @@ async def test_escape_in_the_find_field_restores_the_words_it_had(stock_copy):
         await pilot.press("escape")
         await pilot.pause()
         assert app.screen.query_one("#find", Input).value == "c0g"
-        assert table.row_count == 1 and table.get_row_at(0)[1] == "10n"
+        assert table.row_count == 1 and str(table.get_row_at(0)[1]) == "10n"
         assert app.focused is table
 
 
