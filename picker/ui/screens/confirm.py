@@ -8,6 +8,8 @@ from textual.containers import Vertical, VerticalScroll
 from textual.screen import ModalScreen
 from textual.widgets import Footer, Static
 
+from picker.report.owner import owner_lines, owner_text
+
 
 class ConfirmScreen(ModalScreen[bool]):
     """Dismisses with True on "y", False on "n" (escape also says no)."""
@@ -26,10 +28,10 @@ class ConfirmScreen(ModalScreen[bool]):
 
     def compose(self) -> ComposeResult:
         with Vertical(classes="dialog", id="confirm-dialog"):
-            yield Static(self.question, classes="dialog-title", markup=False)
+            yield Static(owner_text(self.question), classes="dialog-title")
             with VerticalScroll(id="confirm-body"):
                 yield (
-                    Static(self.body, markup=False)
+                    Static(owner_lines(self.body))  # it quotes drawers, names, notes
                     if isinstance(self.body, str)
                     else Static(self.body)
                 )

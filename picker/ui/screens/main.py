@@ -19,6 +19,7 @@ from textual.timer import Timer
 from textual.widgets import ContentSwitcher, Footer, Static
 from textual.worker import Worker, WorkerState, get_current_worker
 
+from picker.report.owner import visible
 from picker.ui import backend, offload
 from picker.ui.offload import Cancelled, Lane
 from picker.ui.targets_form import Targets
@@ -56,7 +57,7 @@ def bar_text(current: str, *, busy: bool, stock_name: str) -> Text:
             text.append(f" {n} {label} ")
         text.append(" ")
     text.append("  [busy] " if busy else "  ", style="bold")
-    text.append(stock_name)
+    text.append(visible(stock_name))  # a file name is owner text too
     return text
 
 
@@ -209,9 +210,6 @@ class MainScreen(FocusRows, TypingAware, Screen):
             return
         try:
             self.stock = backend.load_stock(self.stock_path)
-        except backend.Unavailable as exc:
-            self.stock = None
-            drawers.show_error(f"reading stock files is not available yet ({exc})")
         except StockFileError as exc:
             self.stock = None
             drawers.show_error("\n".join(exc.problems))

@@ -16,7 +16,6 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from rich.text import Text
 from textual import on, work
 from textual.app import ComposeResult
 from textual.binding import Binding
@@ -26,6 +25,7 @@ from textual.timer import Timer
 from textual.widgets import DataTable, Footer, Static
 from textual.worker import Worker, WorkerState, get_current_worker
 
+from picker.report.owner import owner_text
 from picker.ui import backend, offload
 from picker.ui.offload import Cancelled, Lane
 from picker.ui.screens import repair_jobs as jobs
@@ -76,9 +76,8 @@ class RepairScreen(TypingAware, Screen):
     def compose(self) -> ComposeResult:
         name = self.stock_path.name if self.stock_path else "no stock file"
         yield Static(
-            f"repair: a stage as built, stock parts for a failed one   {name}",
+            owner_text(f"repair: a stage as built, stock parts for a failed one   {name}"),
             id="r-title",
-            markup=False,
         )
         with VerticalScroll(id="r-body"):
             yield RepairForm(id="r-form")
@@ -241,7 +240,7 @@ class RepairScreen(TypingAware, Screen):
             return
         self.substitution = sub = payload
         for rank, option in enumerate(sub.options, start=1):
-            table.add_row(*(Text(c) for c in jobs.option_cells(option, rank)))
+            table.add_row(*map(owner_text, jobs.option_cells(option, rank)))
         t = sub.intended
         q = "" if t.q is None else f", Q {t.q:.4g}"
         status.update(
@@ -269,9 +268,6 @@ class RepairScreen(TypingAware, Screen):
         try:
             plan = jobs.plan_repair_build(sub, pick, self.stock)
             body = backend.build_listing(plan)
-        except backend.Unavailable as exc:
-            self._status(f"build: not available yet ({exc})")
-            return
         except PickerError as exc:
             self._status(say("refused", str(exc)))
             return
