@@ -18,6 +18,7 @@ from textual.containers import Horizontal, Vertical
 from textual.screen import ModalScreen
 from textual.widgets import Footer, Input, Label, Static
 
+from picker.report.owner import owner_text
 from picker.ui import outputs
 from picker.ui.pick_targets import answers
 from picker.ui.widgets.common import FocusRows, say
@@ -53,10 +54,9 @@ class WriteFilesScreen(FocusRows, ModalScreen[list[str] | None]):
                 with Horizontal(classes="field-row"):
                     yield Label(label, classes="field-label")
                     yield Input(names[kind], id=f"w-{kind}", compact=True)
-            yield Static(
-                f"relative names are in {Path.cwd()}; a blank name is not written",
+            yield Static(  # a directory name is owner text: controls escaped
+                owner_text(f"relative names are in {Path.cwd()}; a blank name is not written"),
                 id="write-where",
-                markup=False,
             )
             yield Static("", id="write-status", markup=False)
         yield Footer()
