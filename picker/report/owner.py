@@ -4,6 +4,7 @@ Two helpers, one for each kind of output:
 
     visible("shelf [top]\\x1b[2J")  -> 'shelf [top]\\\\x1b[2J'    plain str, controls escaped
     owner_text("shelf [top]")       -> rich.text.Text, never read as console markup
+    owner_lines("a\\nb [/]")         -> the same, one escaped line per line of text
 
 Rich reads ``[bold]`` or ``[/]`` in a plain string as markup (a style, or an error for
 an unmatched tag); a ``Text`` is never parsed. Control characters (C0 such as ESC and
@@ -11,7 +12,8 @@ BEL, DEL, C1 such as CSI 0x9b, and the Unicode bidi overrides and line separator
 would reach the terminal raw and could move the cursor, retitle the window (OSC) or
 hide text; every character that is not printable is shown as a Python escape instead
 (``\\x1b``, ``\\u202e``).
-A tab and a newline are shown escaped too, so one value stays on one line of a table.
+A tab and a newline are shown escaped too, so one value stays on one line of a table;
+``owner_lines`` keeps the newlines of a listing that quotes owner text (a dialog body).
 
 ``visible`` imports no rich; ``owner_text`` imports rich when called.
 """
@@ -34,4 +36,12 @@ def owner_text(text: object, style: str = ""):
     return Text(visible(text), style=style)
 
 
-__all__ = ["owner_text", "visible"]
+def owner_lines(text: object, style: str = ""):
+    """``owner_text`` of each line of ``text``, joined by newlines (kept as line breaks)."""
+    from rich.text import Text
+
+    lines = ("" if text is None else str(text)).split("\n")
+    return Text("\n".join(visible(line) for line in lines), style=style)
+
+
+__all__ = ["owner_lines", "owner_text", "visible"]

@@ -2,14 +2,12 @@
 
 Every heavy import (numpy, scipy, the search) happens inside these functions, which
 the UI calls from worker threads, so the first screen paints before any of it loads.
-A piece of the core that is not installed yet raises ``Unavailable``: the pane shows
-"not available yet" instead of made-up data.
 """
 
 from __future__ import annotations
 
-import importlib
 from pathlib import Path
+from typing import Any
 
 from picker.ui.targets_form import Targets
 
@@ -17,52 +15,38 @@ TRIALS = 10000  # Monte Carlo trials, as the CLI's --trials default
 PROGRESS_EVERY_S = 0.25  # at most this often a progress line goes to the screen
 
 
-class Unavailable(Exception):
-    """A part of the core this pane needs is not there (yet)."""
-
-
-def need(module: str, *names: str):
-    """Import ``module`` and check it has ``names``; raise ``Unavailable`` otherwise.
-
-    Only a missing module or name counts: an import that fails inside an existing
-    module is a real bug and propagates.
-    """
-    try:
-        mod = importlib.import_module(module)
-    except ModuleNotFoundError as exc:
-        if exc.name and (module == exc.name or module.startswith(exc.name + ".")):
-            raise Unavailable(f"{module} is not available yet") from None
-        raise
-    for name in names:
-        if not hasattr(mod, name):
-            raise Unavailable(f"{module}.{name} is not available yet")
-    return mod
-
-
 # stock -----------------------------------------------------------------------------
 def load_stock(path: Path):
-    return need("stock.file", "load").load(path)
+    from stock.file import load
+
+    return load(path)
 
 
 def format_value(value: float, kind: str) -> str:
     """RKM text for tables ("4k7", "2n2")."""
-    return need("stock.values", "format_rkm").format_rkm(value, kind)
+    from stock.values import format_rkm
+
+    return format_rkm(value, kind)
 
 
 def format_si(value: float, unit: str = "") -> str:
-    return need("stock.values", "format_si").format_si(value, unit)
+    from stock.values import format_si as si
+
+    return si(value, unit)
 
 
 def parse_value(text: str, kind: str | None = None) -> float:
-    return need("stock.values", "parse_value").parse_value(text, kind=kind)
+    from stock.values import parse_value as parse
+
+    return parse(text, kind=kind)
 
 
 def refuse_sample(path: Path) -> None:
     """The bundled sample is read only here, as in the CLI: StockEditError saying why."""
+    from picker.commands.common import is_bundled_sample
     from stock.errors import StockEditError
 
-    common = need("picker.commands.common", "is_bundled_sample")
-    if path is not None and common.is_bundled_sample(path):
+    if path is not None and is_bundled_sample(path):
         raise StockEditError(
             "this is the bundled sample, which picker does not change: copy "
             "it to ./inventory.toml (or name your own with --stock FILE)"
@@ -71,20 +55,24 @@ def refuse_sample(path: Path) -> None:
 
 def change_qty(path: Path, kind: str, index: int, delta: int, *, expect_sha256: str | None):
     refuse_sample(path)
-    mod = need("stock.file", "apply_changes", "QtyChange")
-    return mod.apply_changes(path, [mod.QtyChange(kind, index, delta)], expect_sha256=expect_sha256)
+    from stock.file import QtyChange, apply_changes
+
+    return apply_changes(path, [QtyChange(kind, index, delta)], expect_sha256=expect_sha256)
 
 
 def add_line(path: Path, kind: str, fields: dict, *, expect_sha256: str | None):
     refuse_sample(path)
-    return need("stock.file", "add_line").add_line(path, kind, fields, expect_sha256=expect_sha256)
+    from stock.file import add_line as add
+
+    return add(path, kind, fields, expect_sha256=expect_sha256)
 
 
 # design ----------------------------------------------------------------------------
 def plan(targets: Targets):
     """The stage list for the targets: [(Topology, StageTarget)]."""
-    filters = need("picker.filters", "plan_stages")
-    return filters.plan_stages(
+    from picker.filters import plan_stages
+
+    return plan_stages(
         targets.response_type,
         response=targets.response,
         order=targets.order,
@@ -100,57 +88,68 @@ def search(stock, stages, targets: Targets, *, top: int = 8, should_stop=None, p
     """The search the CLI runs for these targets: ``rank`` pieces or error through
     ``picker.search.search``, yield through ``picker.search.yieldrank.search`` with the
     budget's Monte Carlo settings (the CLI's defaults, the form's window)."""
-    import inspect
+    from picker.search import Bounds
+    from picker.search import search as by_rank
 
-    mod = need("picker.search", "search", "Bounds")
-    bounds = mod.Bounds(
+    bounds = Bounds(
         r_min=targets.r_min, r_max=targets.r_max, c_min=targets.c_min, c_max=targets.c_max
     )
-    common = dict(
+    common: dict[str, Any] = dict(
         singles=targets.singles,
         allow_polarized=targets.allow_polarized,
         bounds=bounds,
         top=top,
         for_people=True,
     )
-    extra = {
+    extra: dict[str, Any] = {
         "max_error": targets.max_error,
         "time_limit": targets.time_limit,
         "should_stop": should_stop,
         "progress": progress,
     }
     if targets.rank == "yield":
-        by_yield = need("picker.search.yieldrank", "search").search
-        mc = {"window": targets.window, "trials": TRIALS, "distribution": "uniform", "seed": 0}
+        from picker.search.yieldrank import search as by_yield
+
+        mc: dict[str, Any] = {
+            "window": targets.window,
+            "trials": TRIALS,
+            "distribution": "uniform",
+            "seed": 0,
+        }
         return by_yield(stock, stages, **mc, **common, **extra)
-    takes = inspect.signature(mod.search).parameters  # only what this search knows
-    extra["rank"] = targets.rank
-    return mod.search(stock, stages, **common, **{k: v for k, v in extra.items() if k in takes})
+    return by_rank(stock, stages, rank=targets.rank, **common, **extra)
 
 
 def response(candidate, freqs_hz):
     """Complex H(j 2 pi f) of the whole candidate, op amp GBW included when known."""
-    get_topology = need("picker.filters", "get_topology").get_topology
-    analysis = need("picker.analysis", "cascade_response")
+    from picker.analysis import cascade_response
+    from picker.filters import get_topology
+
     nets = [get_topology(stage.topology).netlist(stage.values()) for stage in candidate.stages]
     gbw = candidate.opamp.gbw if candidate.opamp is not None else None
-    return analysis.cascade_response(nets, freqs_hz, gbw_hz=gbw)
+    return cascade_response(nets, freqs_hz, gbw_hz=gbw)
 
 
 def budget(candidate, targets: Targets | None = None):
     """The error budget; the targets' window, temperature, supply and peak output go in
     as the CLI's --window, --temp, --supply and --vout-peak do (None: their defaults)."""
     options = targets.budget_options() if targets is not None else {}
-    return need("picker.budget", "budget").budget(candidate, trials=TRIALS, **options)
+    from picker.budget import budget as run_budget
+
+    return run_budget(candidate, trials=TRIALS, **options)
 
 
 def schematic(candidate):
-    return need("picker.report", "schematic").schematic(candidate)
+    from picker.report import schematic as draw
+
+    return draw(candidate)
 
 
 def budget_panel(budget_):
     """The budget's rich panel, compact: the pane draws its own f0 histogram."""
-    return need("picker.report.budget_panel", "BudgetPanel").BudgetPanel(budget_, compact=True)
+    from picker.report.budget_panel import BudgetPanel
+
+    return BudgetPanel(budget_, compact=True)
 
 
 def f0_histogram(budget_) -> dict:
@@ -176,10 +175,11 @@ def plan_build(candidate, stock, targets: Targets | None):
     import dataclasses
 
     refuse_sample(stock.path)
-    exp = need("picker.export", "design_from_candidate")
-    building = need("picker.building", "plan_build", "do_build")
+    from picker import building
+    from picker.export import design_from_candidate
+
     request = dataclasses.asdict(targets) if targets is not None else {}
-    design = exp.design_from_candidate(candidate=candidate, request=request, stock=stock)
+    design = design_from_candidate(candidate=candidate, request=request, stock=stock)
     return building.plan_build(design, stock)
 
 
@@ -193,14 +193,18 @@ def build_listing(plan, stock=None) -> str:
 
 def do_build(plan, stock_path: Path) -> str:
     refuse_sample(stock_path)
-    need("picker.building", "do_build").do_build(stock_path, plan)
+    from picker import building
+
+    building.do_build(stock_path, plan)
     return f"{plan.count} item(s) taken out of {Path(stock_path).name}"
 
 
 def last_build(stock_path: Path) -> str:
     """What undo would undo, in words; raises StockEditError when it cannot."""
     refuse_sample(stock_path)
-    record = need("picker.building", "undo_preview").undo_preview(stock_path)
+    from picker.building import undo_preview
+
+    record = undo_preview(stock_path)
     lines = [f"build {record.number} of {record.time}:"]
     lines += [f"  {s}" for s in record.summary]
     return "\n".join(lines)
@@ -208,13 +212,15 @@ def last_build(stock_path: Path) -> str:
 
 def undo_last(stock_path: Path) -> str:
     refuse_sample(stock_path)
-    need("picker.building", "undo_last").undo_last(stock_path)
+    from picker.building import undo_last as undo
+
+    undo(stock_path)
     return f"{Path(stock_path).name} is back as it was before that build"
 
 
 # jobs for a child process (picker.ui.offload): plain arguments in, plain data out ----
 def search_job(stock, targets: Targets, stop=None, top: int = 8, progress=None):
-    """("done", SearchResult) or ("unavailable", message); PickerError propagates.
+    """("done", SearchResult); PickerError propagates.
 
     ``stop``: an event shared with the UI; once set the search returns its best so far.
     ``progress``: called with one line of words per progress report of the search (the
@@ -232,12 +238,7 @@ def search_job(stock, targets: Targets, stop=None, top: int = 8, progress=None):
                 sent[0] = record.elapsed_s
                 progress(describe(record))
 
-    try:
-        found = search(
-            stock, plan(targets), targets, top=top, should_stop=should_stop, progress=report
-        )
-    except Unavailable as exc:
-        return "unavailable", f"search not available yet ({exc})"
+    found = search(stock, plan(targets), targets, top=top, should_stop=should_stop, progress=report)
     return "done", found
 
 
@@ -259,14 +260,10 @@ def detail_job(candidate, targets: Targets | None = None, points: int = 400) -> 
         mag = 20 * np.log10(np.maximum(np.abs(h), 1e-30))
         phase = np.degrees(np.unwrap(np.angle(h)))
         out["plot"] = (freqs.tolist(), mag.tolist(), phase.tolist())
-    except Unavailable as exc:
-        out["plot_note"] = f"not available yet ({exc})"
     except Exception as exc:  # shown in the pane as text
         out["plot_note"] = f"error: {type(exc).__name__}: {exc}"
     try:
         out["budget"] = budget(candidate, targets)
-    except Unavailable as exc:
-        out["budget_note"] = f"not available yet ({exc})"
     except Exception as exc:
         out["budget_note"] = f"error: {type(exc).__name__}: {exc}"
     return out

@@ -11,6 +11,7 @@ import math
 from collections.abc import Callable
 from dataclasses import dataclass
 
+from picker.report.owner import visible
 from stock.errors import ValueParseError
 
 KIND_MARK = {"resistor": "R", "capacitor": "C", "opamp": "op amp"}
@@ -23,7 +24,7 @@ class Row:
     index: int
     value: float | None  # ohm or farad; gain-bandwidth in hertz for an op amp
     qty: int
-    cells: tuple[str, ...]  # the texts shown, in COLUMNS order
+    cells: tuple[str, ...]  # the texts shown, in COLUMNS order; owner text controls escaped
 
 
 ASSUMED_MARK = "*"  # after a tolerance the file does not state (the default is assumed)
@@ -40,7 +41,7 @@ def rows_of(
     """One row per stock line: resistors, then capacitors, then op amps."""
     rows: list[Row] = []
     for r in stock.resistors:
-        about = [r.note or ""]
+        about = [visible(r.note or "")]
         if r.measured:
             about.insert(0, f"{len(r.measured)} measured")
         rows.append(
@@ -54,17 +55,17 @@ def rows_of(
                     fmt_value(r.value, "resistor"),
                     str(r.qty),
                     _pct(r.tolerance, r.tolerance_assumed),
-                    r.location or "-",
+                    visible(r.location or "-"),
                     ", ".join(a for a in about if a),
                 ),
             )
         )
     for c in stock.capacitors:
         about = [
-            c.dielectric or "",
+            visible(c.dielectric or ""),
             fmt_si(c.voltage, "V") if c.voltage else "",
             "POLARIZED" if c.polarized else "",
-            c.note or "",
+            visible(c.note or ""),
         ]
         if c.measured:
             about.insert(0, f"{len(c.measured)} measured")
@@ -79,13 +80,13 @@ def rows_of(
                     fmt_value(c.value, "capacitor"),
                     str(c.qty),
                     _pct(c.tolerance, c.tolerance_assumed),
-                    c.location or "-",
+                    visible(c.location or "-"),
                     ", ".join(a for a in about if a),
                 ),
             )
         )
     for o in stock.opamps:
-        about = [o.name, f"{o.channels} per package", o.note or ""]
+        about = [visible(o.name), f"{o.channels} per package", visible(o.note or "")]
         rows.append(
             Row(
                 "opamp",
@@ -97,7 +98,7 @@ def rows_of(
                     fmt_si(o.gbw, "Hz"),
                     str(o.qty),
                     "",
-                    o.location or "-",
+                    visible(o.location or "-"),
                     ", ".join(a for a in about if a),
                 ),
             )

@@ -41,14 +41,16 @@ def check(kind: str, field: str, text: str):
         if field in REQUIRED:
             raise ValueParseError(f"{FIELDS[field][0]} is required")
         return None
+    from stock import values
+
     if field == "value":
-        backend.need("stock.values", "parse_value").parse_value(text, kind=kind)
+        values.parse_value(text, kind=kind)
     elif field == "gbw":
-        backend.need("stock.values", "parse_frequency").parse_frequency(text)
+        values.parse_frequency(text)
     elif field == "tolerance":
-        backend.need("stock.values", "parse_percent").parse_percent(text)
+        values.parse_percent(text)
     elif field == "voltage":
-        backend.need("stock.values", "parse_voltage").parse_voltage(text)
+        values.parse_voltage(text)
     elif field == "dielectric":
         from stock.model import DIELECTRICS
 
@@ -129,9 +131,6 @@ class AddLineScreen(FocusRows, ModalScreen[str | None]):
         message = self.query_one(f"#msg-{name}", Static)
         try:
             value = check(self.kind, name, text)
-        except backend.Unavailable as exc:
-            put(message, f"cannot check: {exc}")
-            return False, None
         except PickerError as exc:
             put(message, say("error", str(exc)) if text.strip() else "")
             return False, None
@@ -167,9 +166,6 @@ class AddLineScreen(FocusRows, ModalScreen[str | None]):
             return
         try:
             backend.add_line(self.path, self.kind, fields, expect_sha256=self.sha256)
-        except backend.Unavailable as exc:
-            put(status, f"not available yet: adding lines ({exc})")
-            return
         except PickerError as exc:
             put(status, say("error", str(exc)))
             return

@@ -209,9 +209,6 @@ class MainScreen(FocusRows, TypingAware, Screen):
             return
         try:
             self.stock = backend.load_stock(self.stock_path)
-        except backend.Unavailable as exc:
-            self.stock = None
-            drawers.show_error(f"reading stock files is not available yet ({exc})")
         except StockFileError as exc:
             self.stock = None
             drawers.show_error("\n".join(exc.problems))

@@ -267,9 +267,6 @@ class RepairScreen(TypingAware, Screen):
         try:
             plan = jobs.plan_repair_build(sub, pick, self.stock)
             body = backend.build_listing(plan)
-        except backend.Unavailable as exc:
-            self._status(f"build: not available yet ({exc})")
-            return
         except PickerError as exc:
             self._status(say("refused", str(exc)))
             return

@@ -21,6 +21,7 @@ from textual.widgets import Static
 from textual.worker import Worker, WorkerState, get_current_worker
 
 from picker.report.design import pct
+from picker.report.owner import owner_lines
 from picker.ui import backend
 from picker.ui.build_text import build_listing
 from picker.ui.offload import Cancelled, Lane
@@ -99,8 +100,10 @@ class ChosenPane(VerticalScroll):
         self._show_stale()
         self._line("#c-status", "")
         self._line("#c-headline", f"error budget: {BUSY}")
-        self.query_one("#c-schematic", Static).update(schematic(candidate))
-        self._line("#c-warnings", "\n".join(f"warning: {w}" for w in candidate.warnings))
+        # drawers, op amp names and notes are owner text: shown as written, controls escaped
+        self.query_one("#c-schematic", Static).update(schematic(candidate))  # a Text
+        warnings = "\n".join(f"warning: {w}" for w in candidate.warnings)
+        self._line("#c-warnings", owner_lines(warnings))
         self.query_one("#c-budget", Static).update(f"error budget: {BUSY}")
         self.query_one(ResponsePlot).set_note(BUSY)
         self.query_one(F0Histogram).set_note(BUSY)
@@ -179,7 +182,7 @@ class ChosenPane(VerticalScroll):
     # building --------------------------------------------------------------------
     def _status(self, text: str) -> None:
         """A line under the title (seen without scrolling: the view goes to the top)."""
-        self._line("#c-status", text)
+        self._line("#c-status", owner_lines(text))  # it can quote a drawer or a note
         self.scroll_home(animate=False)
 
     def action_build(self) -> None:

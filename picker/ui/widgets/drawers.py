@@ -14,6 +14,7 @@ from textual.containers import Horizontal, Vertical
 from textual.message import Message
 from textual.widgets import DataTable, Input, Label, Static
 
+from picker.report.owner import owner_text
 from picker.ui import backend
 from picker.ui.stock_rows import ASSUMED_MARK, COLUMNS, Row, matches, qty_delta, rows_of
 from picker.ui.widgets.common import Field, Plain, RowTable, TypingAware, cell, put, say
@@ -63,11 +64,7 @@ class DrawersPane(TypingAware, Vertical):
     def show_stock(self, stock, note: str = "") -> None:
         """Fill the table from ``stock`` (a stock.model.Stock), keeping filter and cursor."""
         self.stock = stock
-        try:
-            self.rows = rows_of(stock, backend.format_value, backend.format_si)
-        except backend.Unavailable as exc:
-            self.rows = []
-            note = f"value formatting {exc}"
+        self.rows = rows_of(stock, backend.format_value, backend.format_si)
         self._refill()
         status = [note] if note else []
         if any(row.cells[3].endswith(ASSUMED_MARK) for row in self.rows):
@@ -90,11 +87,7 @@ class DrawersPane(TypingAware, Vertical):
         table = self.query_one(DataTable)
         keep = self.current_row()
         words = self.query_one("#find", Input).value
-        try:
-            parse = backend.need("stock.values", "parse_value").parse_value
-            parser = lambda text, kind: parse(text, kind=kind)  # noqa: E731
-        except backend.Unavailable:
-            parser = None
+        parser = backend.parse_value
         self.shown = [row for row in self.rows if matches(row, words, parser)]
         # columns too, with widths measured here: left to itself the table can keep
         # the widths of the headings and cut "op amp" to "op a"
@@ -127,7 +120,10 @@ class DrawersPane(TypingAware, Vertical):
         if row is None:
             put(label, "")
         else:
-            put(label, f"for {row.cells[0]} {row.cells[1]} in {row.cells[4]} (now {row.qty})")
+            put(
+                label,
+                owner_text(f"for {row.cells[0]} {row.cells[1]} in {row.cells[4]} (now {row.qty})"),
+            )
 
     # events ----------------------------------------------------------------------
     @on(Input.Changed, "#find")
@@ -179,9 +175,6 @@ class DrawersPane(TypingAware, Vertical):
             backend.change_qty(
                 self.stock.path, row.kind, row.index, delta, expect_sha256=self.stock.sha256
             )
-        except backend.Unavailable as exc:
-            put(message, f"not available yet: editing ({exc})")
-            return
         except PickerError as exc:
             put(message, say("error", str(exc)))
             return
