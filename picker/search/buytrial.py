@@ -201,6 +201,8 @@ class Trial:
         try:
             cand = self.rank1(copy)
         except NoDesignError:
+            if self._capped:  # "nothing within the time limit" may be the shared clock's
+                self.cut += 1
             return None
         if self._capped and not self._proven:  # the shared clock cut this one short
             self.cut += 1
