@@ -159,7 +159,8 @@ def _option(stage, topo, target, space, refill, rows, i) -> Option:
     positions = []
     for p in topo.positions:
         if p.name in refill:
-            positions.append((p.name, space.arrangement(p.kind, int(rows.idx[p.name][i]))))
+            index = int(space.canonical(p.kind)[int(rows.idx[p.name][i])])
+            positions.append((p.name, space.arrangement(p.kind, index)))
         else:
             m = stage.part(p.name)
             positions.append(

@@ -26,8 +26,8 @@ from picker.search.plans import WIDE
 from picker.search.progress import Clock, Stopped
 from picker.search.ranking import DEFAULT_MAX_ERROR, RANKS, ranked
 from picker.search.reach import REACH_SLACK, check_reach, check_supply  # noqa: F401 (re-exported)
-from picker.search.space import Bounds, build_space
-from picker.search.stage import StageProblem
+from picker.search.space import Bounds, build_space, extents
+from picker.search.stage import StageProblem, to_canonical
 from picker.search.tradeoff import StageClasses
 
 
@@ -163,13 +163,10 @@ def search(
     space = build_space(stock, singles=singles, allow_polarized=allow_polarized, bounds=bounds)
     check_supply(space, stages, bounds)
     if for_people:
-        wide = Bounds(r_min=0.0, r_max=math.inf, c_min=0.0, c_max=math.inf)
         check_reach(
             space,
             stages,
-            wider=lambda: build_space(
-                stock, singles=singles, allow_polarized=allow_polarized, bounds=wide
-            ),
+            wider=lambda: extents(stock, singles=singles, allow_polarized=allow_polarized),
         )
     spare = SPARE if for_people else 1
     classes = [
@@ -191,6 +188,7 @@ def search(
             rows, _ = problem.best(top * spare)
         except Stopped:
             raise _timed_out(clock) from None
+        rows = to_canonical(space, topo, rows)
         loaded = {(0, None): rows}
         candidates = [
             build_candidate(stages, loaded, space, ((None, i),), (float(rows.score[i]),), opamp, ())

@@ -66,11 +66,10 @@ class StageScreen:
             for limit in limits:
                 arrays = {}
                 for p, k in zip(self.topo.positions, pat, strict=False):
-                    v = space.values[p.kind]
-                    mask = v.pieces == k
+                    v = space.with_pieces(p.kind, k)[0]
                     if p.name == limit:
-                        mask &= np.isin(v.unit_a, new) | np.isin(v.unit_b, new)
-                    arrays[p.name] = v.subset(mask)
+                        v = v.subset(np.isin(v.unit_a, new) | np.isin(v.unit_b, new))
+                    arrays[p.name] = v
                 problem = StageProblem(self.topo, self.target, space, arrays)
                 if problem.empty():
                     continue
@@ -106,8 +105,7 @@ class StageScreen:
                 continue
             arrays = {}
             for p, k in zip(self.topo.positions, pat, strict=False):
-                v = space.values[p.kind]
-                arrays[p.name] = v.subset(v.pieces == k)
+                arrays[p.name] = space.with_pieces(p.kind, k)[0]
             problem = StageProblem(self.topo, self.target, space, arrays)
             if problem.empty():
                 continue

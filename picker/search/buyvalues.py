@@ -126,7 +126,7 @@ def partner_forms(kind: str, x: float, space) -> list:
     """``[(value to buy, combined(v))]``: a bought value that, in series or parallel
     with one of the ``PARTNERS`` single values on hand nearest below (resistors: series,
     capacitors: parallel) or above ``x``, makes ``x``."""
-    singles = np.unique(space.values[kind].value[space.values[kind].pieces == 1])
+    singles = np.unique(space.with_pieces(kind, 1)[0].value)
     i = int(np.searchsorted(singles, x))
     out = []
     for w in singles[max(0, i - PARTNERS) : i]:

@@ -229,12 +229,7 @@ def _error_upto(classes, counts, top, clock, build, out: Ranked, upto) -> None:
     clock.at(0, "joint allocation")
     key = lambda c: rank_key("error", 0.0, c)  # noqa: E731
     while True:
-        found, loaded, complete = combine(
-            [c.classes(t, upto=up) for c, up in zip(classes, ups, strict=True)],
-            counts,
-            top=top,
-            clock=clock,
-        )
+        found, loaded, complete = cut_combine(classes, counts, t, top, clock, upto=upto)
         out.add([build(k, rows, loaded) for k, rows in found], clock, key)
         if clock.stopped:
             raise Stopped
@@ -332,11 +327,30 @@ def _pieces(classes, counts, top, goal, clock, build, out: Ranked) -> None:
 def exact_at(classes, counts, k: int, t: float, top: int, clock, build, upto=None):
     """(the best ``top`` candidates with exactly ``k`` pieces scoring ``<= t``, complete).
 
-    Classes are first cut to their best ``TRUNCATE`` rows; the list is accepted when
-    nothing was cut, or when ``top`` were found and the worst of them scores below
-    every cut class's last row (a row left out scores at least that, so any
-    combination using one is worse); otherwise eight times as many rows are loaded.
     ``upto``: per stage the largest class that can take part in a total of ``k``."""
+    found, loaded, complete = cut_combine(
+        classes,
+        counts,
+        t,
+        top,
+        clock,
+        pieces_total=k,
+        upto=upto,
+        memo=False,
+        look_ahead=LOOK_AHEAD,
+    )
+    return [build(key, rows, loaded) for key, rows in found], complete
+
+
+def cut_combine(classes, counts, t: float, top: int, clock, *, upto=None, **options):
+    """:func:`picker.search.allocate.combine` over the classes' rows ``<= t``, loaded
+    cut to their best rows: ``(found, loaded, complete)`` as combine gives them.
+
+    Classes are first cut to their best ``TRUNCATE`` rows; the list is accepted when
+    nothing was cut, or when ``top`` were found and the worst of them sorts before
+    anything a row left out could make (:func:`_beats_cut`); otherwise eight times as
+    many rows are loaded.
+    Memory then follows the rows the answer needs, not every row ``<= t``."""
     keep = TRUNCATE
     while True:
         tails: dict[int, dict] = {}
@@ -346,19 +360,33 @@ def exact_at(classes, counts, k: int, t: float, top: int, clock, build, upto=Non
             )
             for s, c in enumerate(classes)
         ]
-        found, loaded, complete = combine(
-            stage_classes,
-            counts,
-            top=top,
-            pieces_total=k,
-            memo=False,
-            look_ahead=LOOK_AHEAD,
-            clock=clock,
-        )
-        got = [build(key, rows, loaded) for key, rows in found]
+        found, loaded, complete = combine(stage_classes, counts, top=top, clock=clock, **options)
         if not complete:
-            return got, False
-        cut = [tails[s][j] for (s, j) in loaded if j in tails[s]]
-        if not cut or (len(found) >= top and found[-1][0][0] < min(cut)):
-            return got, True
+            return found, loaded, False
+        cut = [(s, j, tails[s][j]) for (s, j) in loaded if j in tails[s]]
+        if not cut or (len(found) >= top and _beats_cut(found[-1][0], cut, classes, options)):
+            return found, loaded, True
         keep *= 8
+
+
+def _beats_cut(worst, cut, classes, options) -> bool:
+    """Whether every combination using a row left out of a cut class sorts after
+    ``worst`` (the ``top``-th key found, ``(score, pieces, worst tol, tol sum)``).
+
+    A row left out of class ``j`` of stage ``s`` sorts at or after the last row kept
+    (rows go by score, then worst tolerance, then tolerance sum; pieces are ``j``), so
+    a combination using it has a key at least ``(tail score, pieces, tail worst tol,
+    tail tol sum)``, its pieces at least ``j`` plus the fewest of the other stages (the
+    total where it is fixed). ``worst`` below that bound: nothing left out can enter.
+    With one stage a combination is one row, and a row left out equal to that bound
+    still loses the tie to the kept ones (they come first in the class), so equal
+    passes too: look-alike rows by the thousand (one value in many drawers) need not
+    all be loaded."""
+    fixed = options.get("pieces_total")
+    fewest = [min(c.by_j, default=0) for c in classes]
+    for s, j, (score, tol_max, tol_sum) in cut:
+        pieces = fixed if fixed is not None else j + sum(fewest) - fewest[s]
+        bound = (score, pieces, tol_max, tol_sum)
+        if not (tuple(worst) < bound or (len(classes) == 1 and tuple(worst) <= bound)):
+            return False
+    return True

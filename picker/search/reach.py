@@ -25,7 +25,7 @@ def check_supply(space: Space, stages, bounds: Bounds) -> None:
         if not n:
             continue
         lo, hi = bounds.of(kind)
-        if len(space.values[kind]) == 0:
+        if space.size(kind) == 0:
             raise NoDesignError(
                 f"no {kind} between {format_rkm(lo, kind)} and "
                 f"{format_rkm(hi, kind)} in stock (singles or pairs; used-up"
@@ -44,8 +44,9 @@ def check_supply(space: Space, stages, bounds: Bounds) -> None:
 REACH_SLACK = 0.05  # a target this far (relative) past the reach is still searched
 
 
-def _reach(topo, space: Space) -> tuple[float, float]:
-    """(lowest, highest) f0 of ``topo`` over the corners of the box of values in ``space``."""
+def _reach(topo, space) -> tuple[float, float]:
+    """(lowest, highest) f0 of ``topo`` over the corners of the box of values in ``space``
+    (anything with ``extent(kind)``: a :class:`Space`, or :class:`Extents`)."""
     import itertools
 
     import numpy as np
@@ -53,10 +54,10 @@ def _reach(topo, space: Space) -> tuple[float, float]:
     names = [p.name for p in topo.positions]
     ends = []
     for p in topo.positions:
-        v = space.values[p.kind].value
-        if not len(v):
+        ext = space.extent(p.kind)
+        if ext is None:
             return math.nan, math.nan
-        ends.append((float(v[0]), float(v[-1])))
+        ends.append(ext)
     corners = np.array(list(itertools.product(*ends)))
     f0, _, _ = topo.characteristics({n: corners[:, i] for i, n in enumerate(names)})
     f0 = np.asarray(f0, float)
@@ -75,7 +76,7 @@ def check_reach(space: Space, stages, *, wider=None) -> None:
     A target up to ``REACH_SLACK`` past the reach is searched all the same (the best
     candidate then shows its error): a stock of exactly 560k, 2k7 and 10n reaches
     1/(2 pi 560k 10n) = 28.4205 Hz, and 28.42 Hz must not be refused. ``wider`` (a
-    callable giving the space without the value bounds) tells a reach set by the
+    callable giving the extents without the value bounds, :func:`extents`) tells a reach set by the
     bounds, which a wider --r-max or --c-max lifts, from one set by the stock itself.
     """
     from stock.values import format_rkm, format_si
@@ -87,9 +88,9 @@ def check_reach(space: Space, stages, *, wider=None) -> None:
             continue
         kinds = sorted({p.kind for p in topo.positions})
         have = "; ".join(
-            f"{kind}s {format_rkm(float(space.values[kind].value[0]), kind)} .. "
-            f"{format_rkm(float(space.values[kind].value[-1]), kind)}"
+            f"{kind}s {format_rkm(ext[0], kind)} .. {format_rkm(ext[1], kind)}"
             for kind in kinds
+            if (ext := space.extent(kind)) is not None
         )
         low = f < lo
         edge = lo if low else hi
@@ -105,12 +106,9 @@ def check_reach(space: Space, stages, *, wider=None) -> None:
             moved = [
                 k
                 for k in kinds
-                if len(wide.values[k].value)
-                and (
-                    float(wide.values[k].value[-1]) > float(space.values[k].value[-1])
-                    if low
-                    else float(wide.values[k].value[0]) < float(space.values[k].value[0])
-                )
+                if (w := wide.extent(k)) is not None
+                and (e := space.extent(k)) is not None
+                and (w[1] > e[1] if low else w[0] < e[0])
             ]
             wedge = wlo if low else whi
             covers = f >= wlo * (1.0 - REACH_SLACK) if low else f <= whi * (1.0 + REACH_SLACK)

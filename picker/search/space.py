@@ -103,29 +103,78 @@ class Values:
 _FIELDS = ("value", "pieces", "unit_a", "unit_b", "code", "tol_max", "tol_sum")
 
 
+class Offset:
+    """Index map of a block into its kind's canonical index: ``i -> i + offset``
+    (arrays or ints), without an index array the size of the block."""
+
+    __slots__ = ("offset",)
+
+    def __init__(self, offset: int):
+        self.offset = offset
+
+    def __getitem__(self, i):
+        return i + self.offset
+
+
 @dataclass(frozen=True)
 class Space:
-    """Units of a stock and the realizable values of each kind."""
+    """Units of a stock and the realizable values of each kind.
+
+    Values are kept in blocks by piece count (``blocks[kind][0]`` singles, ``[1]``
+    pairs), each sorted by value; a value's *canonical index* is its index in the
+    singles block, or the singles' count plus its index in the pairs block. The search
+    works on the blocks (:meth:`with_pieces`, no copies); :attr:`values` is the one
+    value-sorted array of a kind, made only when a caller asks for it (what to buy,
+    repair), with :meth:`canonical` mapping its indices back."""
 
     units: tuple[Unit, ...]
     counts: np.ndarray  # int64 per unit id
-    values: dict[str, Values]  # "resistor" | "capacitor" -> Values
+    blocks: dict[str, tuple[Values, Values]]  # kind -> (singles, pairs), each by value
     usable: dict[str, int]  # pieces on hand per kind (units usable at all)
-    _parts: dict = field(default_factory=dict, compare=False, repr=False)
+    _merged: dict = field(default_factory=dict, compare=False, repr=False)
 
-    def with_pieces(self, kind: str, pieces: int) -> tuple[Values, np.ndarray]:
-        """The values of ``kind`` made of ``pieces`` pieces (1 or 2), and their indices in
-        ``values[kind]``; made once per space, shared by every stage and pattern."""
-        key = (kind, pieces)
-        if key not in self._parts:
-            values = self.values[kind]
-            mask = values.pieces == pieces
-            self._parts[key] = (values.subset(mask), np.flatnonzero(mask))
-        return self._parts[key]
+    def with_pieces(self, kind: str, pieces: int) -> tuple[Values, Offset]:
+        """The values of ``kind`` made of ``pieces`` pieces (1 or 2), sorted by value,
+        and the map of their indices to canonical ones."""
+        return self.blocks[kind][pieces - 1], Offset(self.offset(kind, pieces))
+
+    def offset(self, kind: str, pieces: int) -> int:
+        return 0 if pieces == 1 else len(self.blocks[kind][0])
+
+    def size(self, kind: str) -> int:
+        return sum(len(b) for b in self.blocks[kind])
+
+    def extent(self, kind: str) -> tuple[float, float] | None:
+        """(smallest, largest) realizable value of ``kind``; None when there is none."""
+        ends = [(float(b.value[0]), float(b.value[-1])) for b in self.blocks[kind] if len(b)]
+        if not ends:
+            return None
+        return min(e[0] for e in ends), max(e[1] for e in ends)
+
+    @property
+    def values(self) -> dict[str, Values]:
+        """Every value of each kind in one array sorted by (value, pieces, ...): the
+        blocks merged (stable, so singles come before pairs of equal value), made on
+        first use and kept."""
+        if not self._merged:
+            for kind, (one, two) in self.blocks.items():
+                both = {f: np.concatenate([getattr(one, f), getattr(two, f)]) for f in _FIELDS[:5]}
+                order = np.argsort(both["value"], kind="stable")
+                self._merged[kind] = (
+                    Values(**{f: a[order] for f, a in both.items()}, unit_tol=one.unit_tol),
+                    order,
+                )
+        return {kind: pair[0] for kind, pair in self._merged.items()}
+
+    def canonical(self, kind: str) -> np.ndarray:
+        """Canonical index of each index of ``values[kind]``."""
+        self.values  # noqa: B018 (made on first use)
+        return self._merged[kind][1]
 
     def arrangement(self, kind: str, index: int) -> Arrangement:
-        """The picker.parts record of value ``index`` of ``kind`` (the boundary conversion)."""
-        v = self.values[kind]
+        """The picker.parts record of the value of canonical ``index`` of ``kind``."""
+        one, two = self.blocks[kind]
+        v, index = (one, index) if index < len(one) else (two, index - len(one))
         code = int(v.code[index])
         parts = [self.units[int(v.unit_a[index])].piece()]
         if code != SINGLE:
@@ -158,6 +207,45 @@ def stock_units(stock: Stock, *, allow_polarized: bool = False) -> list[Unit]:
     return units
 
 
+class Extents:
+    """(smallest, largest) realizable value per kind with no value bounds, found without
+    making the pairs: the smallest is the single, or the two smallest units in
+    parallel (resistors) or series (capacitors); the largest, the two largest the other
+    way; a unit pairs with itself only where it has two pieces."""
+
+    def __init__(self, units: list[Unit], singles: bool):
+        self._ends: dict[str, tuple[float, float] | None] = {}
+        for kind in ("resistor", "capacitor"):
+            mine = sorted((u.value, u.count) for u in units if u.kind == kind)
+            if not mine:
+                self._ends[kind] = None
+                continue
+            lo, hi = mine[0][0], mine[-1][0]
+            if not singles:
+                small = _two(mine)
+                big = _two(mine[::-1])
+                if small is not None and big is not None:
+                    series, parallel = (lambda a, b: a + b), (lambda a, b: a * b / (a + b))
+                    shrink, grow = (parallel, series) if kind == "resistor" else (series, parallel)
+                    lo, hi = min(lo, shrink(*small)), max(hi, grow(*big))
+            self._ends[kind] = (lo, hi)
+
+    def extent(self, kind: str) -> tuple[float, float] | None:
+        return self._ends[kind]
+
+
+def _two(ordered) -> tuple[float, float] | None:
+    """The first two pieces of ``ordered`` ((value, count) pairs), or None."""
+    if ordered[0][1] >= 2:
+        return ordered[0][0], ordered[0][0]
+    return (ordered[0][0], ordered[1][0]) if len(ordered) > 1 else None
+
+
+def extents(stock: Stock, *, singles: bool = False, allow_polarized: bool = False) -> Extents:
+    """The :class:`Extents` of ``stock``'s usable units."""
+    return Extents(stock_units(stock, allow_polarized=allow_polarized), singles)
+
+
 def build_space(
     stock: Stock, *, singles: bool = False, allow_polarized: bool = False, bounds: Bounds = Bounds()
 ) -> Space:
@@ -166,39 +254,53 @@ def build_space(
     counts = np.array([u.count for u in units], dtype=np.int64)
     unit_val = np.array([u.value for u in units], dtype=float)
     unit_tol = np.array([u.tolerance for u in units], dtype=float)
-    values: dict[str, Values] = {}
+    blocks: dict[str, tuple[Values, Values]] = {}
     usable: dict[str, int] = {}
     for kind in ("resistor", "capacitor"):
         ids = np.array([i for i, u in enumerate(units) if u.kind == kind], dtype=np.int64)
         usable[kind] = int(counts[ids].sum()) if ids.size else 0
-        values[kind] = _kind_values(kind, ids, unit_val, unit_tol, counts, singles, bounds.of(kind))
-    return Space(tuple(units), counts, values, usable)
+        blocks[kind] = _kind_blocks(kind, ids, unit_val, unit_tol, counts, singles, bounds.of(kind))
+    return Space(tuple(units), counts, blocks, usable)
 
 
 CHUNK = 1 << 20  # pairs generated at a time (memory: a few such blocks, never n^2 at once)
 UNIT = np.int32  # unit ids (a stock file has far fewer than 2^31 units)
 SMALL = np.int8  # piece counts and arrangement codes
+SAMPLE_EVERY = 64  # pairs per value kept to place the sort buckets' edges
 
 
-def _kind_values(kind, ids, unit_val, unit_tol, counts, singles, limits) -> Values:
-    """Singles and pairs of one kind within ``limits``, sorted by (value, pieces, tolerances).
+def _kind_blocks(kind, ids, unit_val, unit_tol, counts, singles, limits):
+    """(singles, pairs) of one kind within ``limits``, each sorted by (value, worst
+    tolerance, tolerance sum, code, first unit, second unit).
 
     Pairs are never enumerated outside the bounds: with the singles sorted by value, the
     partners ``b >= a`` of each ``a`` whose sum lies in ``[lo, hi]`` are one index range
     (``b`` in ``[lo - a, hi - a]``), and so are those whose reciprocal sum does
     (``1/b`` in ``[1/hi - 1/a, 1/lo - 1/a]``); the ranges are widened by a relative 1e-9
-    and the exact bound test applied after, so rounding drops nothing. Arrays are sized
-    from the range lengths first and filled block by block (:data:`CHUNK` pairs)."""
+    and the exact bound test applied after, so rounding drops nothing.
+
+    Memory: the pairs are made twice, block by block (:data:`CHUNK` pairs): the first
+    pass keeps one value in ``SAMPLE_EVERY`` to set the edges of value buckets of about
+    ``CHUNK`` pairs each, the second writes each pair into its bucket's part of the
+    output; each bucket is then sorted on its own. Buckets are value ranges (equal
+    values share one), so the order is that of one sort of the whole array, while the
+    sort's temporaries stay the size of a bucket."""
     lo, hi = limits
     val, tol = unit_val[ids], unit_tol[ids]
     by_value = np.argsort(val, kind="stable")
     ids, val, tol = ids[by_value], val[by_value], tol[by_value]
-    twice = counts[ids] >= 2 if ids.size else np.zeros(0, bool)
     inside = (val >= lo) & (val <= hi)
-    blocks = [
-        (val[inside], ids[inside], np.full(int(inside.sum()), -1, np.int64), SINGLE, tol[inside])
-    ]
-    total = int(inside.sum())
+    n1 = int(inside.sum())
+    one = _sorted(
+        {
+            "value": val[inside],
+            "pieces": np.ones(n1, SMALL),
+            "unit_a": ids[inside].astype(UNIT),
+            "unit_b": np.full(n1, -1, UNIT),
+            "code": np.full(n1, SINGLE, SMALL),
+        },
+        unit_tol,
+    )
     plans = []
     if not singles and ids.size:
         # resistors add in series, capacitors in parallel (picker.parts.combine)
@@ -208,53 +310,72 @@ def _kind_values(kind, ids, unit_val, unit_tol, counts, singles, limits) -> Valu
             (rec_code, *_reciprocal_ranges(val, lo, hi)),
         ):
             plans.append((code, code == add_code, start, stop))
-            total += int(np.maximum(stop - start, 0).sum())
+    twice = counts[ids] >= 2 if ids.size else np.zeros(0, bool)
+
+    def pairs():
+        """(combined value, first unit, second unit, code) block by block."""
+        for code, additive, start, stop in plans:
+            for ia, ib in _pair_blocks(start, stop):
+                keep = (ia != ib) | twice[ia]  # the same unit twice needs two pieces
+                ia, ib = ia[keep], ib[keep]
+                x, y = val[ia], val[ib]
+                combined = x + y if additive else x * y / (x + y)
+                ok = (combined >= lo) & (combined <= hi)
+                ua, ub = ids[ia[ok]], ids[ib[ok]]
+                yield combined[ok], np.minimum(ua, ub), np.maximum(ua, ub), code
+
+    sample, total = [], 0
+    for v, _, _, _ in pairs():
+        sample.append(v[::SAMPLE_EVERY])
+        total += v.size
+    edges = np.zeros(0)
+    if total > CHUNK:
+        picked = np.sort(np.concatenate(sample))
+        edges = np.unique(picked[CHUNK // SAMPLE_EVERY :: CHUNK // SAMPLE_EVERY])
+    del sample
     out = {
         "value": np.empty(total, float),
-        "pieces": np.empty(total, SMALL),
+        "pieces": np.full(total, 2, SMALL),
         "unit_a": np.empty(total, UNIT),
         "unit_b": np.empty(total, UNIT),
         "code": np.empty(total, SMALL),
     }
-    n = 0
+    sizes = np.zeros(edges.size + 1, np.int64)
+    for v, _, _, _ in pairs():  # the buckets' sizes, then each pair into its bucket
+        sizes += np.bincount(np.searchsorted(edges, v, "right"), minlength=sizes.size)
+    ends = np.cumsum(sizes)
+    cursor = ends - sizes
+    for v, a, b, code in pairs():
+        bucket = np.searchsorted(edges, v, "right")
+        order = np.argsort(bucket, kind="stable")
+        bucket, runs = np.unique(bucket[order], return_counts=True)
+        first = 0
+        for k, m in zip(bucket.tolist(), runs.tolist(), strict=True):
+            at, part = slice(cursor[k], cursor[k] + m), order[first : first + m]
+            out["value"][at], out["unit_a"][at], out["unit_b"][at] = v[part], a[part], b[part]
+            out["code"][at] = code
+            cursor[k] += m
+            first += m
+    start = 0
+    for stop in ends.tolist():
+        if stop > start:
+            part = _sorted({f: c[start:stop] for f, c in out.items()}, unit_tol)
+            for f in _FIELDS[:5]:
+                out[f][start:stop] = getattr(part, f)
+        start = stop
+    two = Values(**{f: out[f] for f in _FIELDS[:5]}, unit_tol=unit_tol)
+    return one, two
 
-    def put(v, a, b, code):
-        nonlocal n
-        k = v.size
-        sl = slice(n, n + k)
-        out["value"][sl], out["unit_a"][sl], out["unit_b"][sl] = v, a, b
-        out["pieces"][sl] = 1 if code == SINGLE else 2
-        out["code"][sl] = code
-        n += k
 
-    v, a, b, code, _ = blocks[0]
-    put(v, a, b, code)
-    for code, additive, start, stop in plans:
-        for ia, ib in _pair_blocks(start, stop):
-            keep = (ia != ib) | twice[ia]  # the same unit twice needs two pieces
-            ia, ib = ia[keep], ib[keep]
-            x, y = val[ia], val[ib]
-            combined = x + y if additive else x * y / (x + y)
-            ok = (combined >= lo) & (combined <= hi)
-            ia, ib, combined = ia[ok], ib[ok], combined[ok]
-            ua, ub = ids[ia], ids[ib]
-            put(combined, np.minimum(ua, ub), np.maximum(ua, ub), code)
-    cut = Values(**{f: out[f][:n] for f in _FIELDS[:5]}, unit_tol=unit_tol)
-    arrays = [getattr(cut, f) for f in _FIELDS[:5]]
-    tmax, tsum = np.empty(n), np.empty(n)
-    for start in range(0, n, CHUNK):  # block by block: no full-size temporaries
-        part = np.arange(start, min(n, start + CHUNK))
-        tmax[part], tsum[part] = cut.tol_max_at(part), cut.tol_sum_at(part)
-    arrays += [tmax, tsum]
-    del tmax, tsum
-    out.clear()
-    # ties in (value, pieces, tolerances) keep the order of the unit ids: singles, then
-    # series before parallel pairs, each by (first unit, second unit)
+def _sorted(cols: dict, unit_tol) -> Values:
+    """``cols`` (the five stored columns) sorted by (value, worst tolerance, tolerance
+    sum, code, first unit, second unit); ties keep that order of the unit ids."""
+    v = Values(**cols, unit_tol=unit_tol)
+    every = np.arange(len(v))
     order = np.lexsort(
-        (arrays[3], arrays[2], arrays[4], arrays[6], arrays[5], arrays[1], arrays[0])
+        (v.unit_b, v.unit_a, v.code, v.tol_sum_at(every), v.tol_max_at(every), v.value)
     )
-    del arrays[5:]  # derived again on demand (tol_max_at, tol_sum_at)
-    return Values(**{f: a[order] for f, a in zip(_FIELDS, arrays, strict=False)}, unit_tol=unit_tol)
+    return Values(**{f: cols[f][order] for f in _FIELDS[:5]}, unit_tol=unit_tol)
 
 
 def _sum_ranges(val, lo, hi):

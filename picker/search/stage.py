@@ -33,6 +33,7 @@ from picker.search.progress import Clock
 PROBE_KEEP = 64  # rows per group kept by the probe of a multi-group plan
 PROBE_ROWS = 1024  # rows per block kept by the probe of a one-group plan
 PROBE_OUTER = 32  # outer values the probe of a one-group plan tries
+PRUNE_ROWS = 1 << 16  # rows held by a branch-and-bound search before those above t go
 
 
 @dataclass(frozen=True)
@@ -84,7 +85,7 @@ class StageProblem:
         self.names = topology.position_names()
         self.plan = plan_for(topology)
         self.label = label
-        self.limits = {k: _limits(space.values[k]) for k in ("resistor", "capacitor")}
+        self.limits = {k: space.extent(k) or (1.0, 1.0) for k in ("resistor", "capacitor")}
         self._cache: tuple[float, StageRows] | None = None
         self.clock: Clock | None = None  # checked between blocks (progress.py)
 
@@ -265,6 +266,16 @@ class StageProblem:
             state["best"] = np.sort(np.concatenate([state["best"], k[1]]))[:shrink]
             if state["best"].size >= shrink:
                 state["t"] = min(state["t"], float(state["best"][-1]))
+            held = sum(s.size for _, s in kept)
+            if held > max(PRUNE_ROWS, 2 * shrink):
+                # rows above the threshold can no longer be among the best: drop them, so
+                # memory follows ``shrink``, not every row the early blocks passed
+                t = state["t"]
+                kept[:] = [
+                    ({n: i[s <= t] for n, i in rows.items()}, s[s <= t])
+                    for rows, s in kept
+                    if s.size and s.min() <= t
+                ]
 
     def _tick(self) -> None:
         """Between blocks of work: let the search's clock stop it (see progress.py)."""
@@ -327,10 +338,11 @@ class StageProblem:
         return out.take(order)
 
 
-def _limits(values) -> tuple[float, float]:
-    if len(values) == 0:
-        return (1.0, 1.0)
-    return float(values.value[0]), float(values.value[-1])
+def to_canonical(space, topo, rows: StageRows) -> StageRows:
+    """``rows`` found over ``space.values`` (the merged arrays) with their indices made
+    canonical, the ones :meth:`picker.search.space.Space.arrangement` reads."""
+    idx = {p.name: space.canonical(p.kind)[rows.idx[p.name]] for p in topo.positions}
+    return StageRows(idx, rows.score, rows.pieces, rows.tol_max, rows.tol_sum, rows.units)
 
 
 def _cross(parts: list[dict], block: int = join.BLOCK):

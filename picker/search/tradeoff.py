@@ -115,8 +115,8 @@ class StageClasses:
         """``[(j, b_j, loader)]`` for the classes (``j <= upto``) with an assignment ``<= t``.
 
         ``keep``: a loader returns only the best ``keep`` rows of its class within ``t``;
-        when it cuts, ``tails[j]`` receives the score of the last row kept (every row
-        left out scores at least that)."""
+        when it cuts, ``tails[j]`` receives (score, worst tolerance, tolerance sum) of
+        the last row kept (every row left out sorts at or after it)."""
         out = []
         for j, b in self.within(t, upto).items():
             out.append((j, b, lambda j=j: self.rows(j, t, keep=keep, tails=tails)))
@@ -145,8 +145,10 @@ class StageClasses:
         merged = merged.take(slice(0, int(np.searchsorted(merged.score, t, side="right"))))
         if keep is not None and len(merged) >= keep:
             merged = merged.take(slice(0, keep))
-            if tails is not None:
-                tails[j] = float(merged.score[-1])
+            if tails is not None:  # the key of the last row kept (see ranking.cut_combine)
+                tails[j] = tuple(
+                    float(getattr(merged, f)[-1]) for f in ("score", "tol_max", "tol_sum")
+                )
         return merged
 
 
@@ -263,7 +265,7 @@ def _point(classes, counts, k: int, upto: list[int], clock):
             return "stopped" if clock is not None and clock.stopped else "limit"
         # a class cut to its best `keep` rows is exact when nothing it left out
         # could beat the score found: every left-out row scores >= its tail
-        cut = [tails[s][j] for (s, j) in loaded if j in tails[s]]
+        cut = [tails[s][j][0] for (s, j) in loaded if j in tails[s]]
         if not found and cut:
             keep *= 8  # the cut rows may hold the feasible ones
             continue
