@@ -75,10 +75,27 @@ def _expand(steps, level, rows, arrays, ctx, neighbors, block, tick=None):
         base = cum[start - 1] if start else 0
         stop = int(np.searchsorted(cum, base + block, side="right"))
         stop = max(stop, start + 1)
+        if stop == start + 1 and per_row[start] > block:
+            # one row with more picks than a block (a wide window over a pair array):
+            # its picks go in blocks too, so no level holds more than ``block`` rows
+            for new_rows in _split_row(rows, start, lo[start], counts[start], step.position, block):
+                yield from _expand(steps, level + 1, new_rows, arrays, ctx, neighbors, block, tick)
+            start = stop
+            continue
         sub = slice(start, stop)
         new_rows = _materialize(rows, sub, lo[sub], counts[sub], step.position)
         yield from _expand(steps, level + 1, new_rows, arrays, ctx, neighbors, block, tick)
         start = stop
+
+
+def _split_row(rows, r, lo, counts, position, block):
+    """Row ``r`` of ``rows`` expanded by its picks (ranges ``lo[j] .. lo[j] + counts[j]``,
+    in order), at most ``block`` picks at a time."""
+    for first, count in zip(lo.tolist(), counts.tolist(), strict=True):
+        for a in range(first, first + count, block):
+            picks = np.arange(a, min(a + block, first + count), dtype=np.int64)
+            same = np.zeros(picks.size, np.int64)
+            yield {pos: idx[r : r + 1][same] for pos, idx in rows.items()} | {position: picks}
 
 
 def _ranges(step, rows, arrays, ctx, values, neighbors, nrows):
@@ -134,12 +151,19 @@ def _materialize(rows, sub, lo, counts, position):
 
 def pairs_in_blocks(lo: np.ndarray, counts: np.ndarray, block: int = BLOCK):
     """``(parent, pick)`` arrays: for each row ``r``, picks ``lo[r] .. lo[r] + counts[r] - 1``,
-    in blocks of about ``block`` pairs (one row's picks may exceed it)."""
+    in blocks of at most ``block`` pairs (a row with more picks is split)."""
     cum = np.cumsum(counts)
     start = 0
     while start < counts.size:
         base = int(cum[start - 1]) if start else 0
         stop = max(int(np.searchsorted(cum, base + block, side="right")), start + 1)
+        if stop == start + 1 and counts[start] > block:
+            first, count = int(lo[start]), int(counts[start])
+            for a in range(first, first + count, block):
+                pick = np.arange(a, min(a + block, first + count), dtype=np.int64)
+                yield np.full(pick.size, start, np.int64), pick
+            start = stop
+            continue
         c = counts[start:stop]
         total = int(c.sum())
         if total:

@@ -211,7 +211,8 @@ class Extents:
     """(smallest, largest) realizable value per kind with no value bounds, found without
     making the pairs: the smallest is the single, or the two smallest units in
     parallel (resistors) or series (capacitors); the largest, the two largest the other
-    way; a unit pairs with itself only where it has two pieces."""
+    way (series resistors, parallel capacitors); a unit pairs with itself only where it
+    has two pieces."""
 
     def __init__(self, units: list[Unit], singles: bool):
         self._ends: dict[str, tuple[float, float] | None] = {}
@@ -225,9 +226,10 @@ class Extents:
                 small = _two(mine)
                 big = _two(mine[::-1])
                 if small is not None and big is not None:
-                    series, parallel = (lambda a, b: a + b), (lambda a, b: a * b / (a + b))
-                    shrink, grow = (parallel, series) if kind == "resistor" else (series, parallel)
-                    lo, hi = min(lo, shrink(*small)), max(hi, grow(*big))
+                    # resistors in series and capacitors in parallel add; the other way
+                    # round the reciprocals add (picker.parts.combine)
+                    lo = min(lo, small[0] * small[1] / (small[0] + small[1]))
+                    hi = max(hi, big[0] + big[1])
             self._ends[kind] = (lo, hi)
 
     def extent(self, kind: str) -> tuple[float, float] | None:

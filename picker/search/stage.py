@@ -88,6 +88,7 @@ class StageProblem:
         self.limits = {k: space.extent(k) or (1.0, 1.0) for k in ("resistor", "capacitor")}
         self._cache: tuple[float, StageRows] | None = None
         self.clock: Clock | None = None  # checked between blocks (progress.py)
+        self._trimmed = False  # the last best() left out ties (see _keep)
 
     def empty(self) -> bool:
         return any(len(self.arrays[n]) == 0 for n in self.names)
@@ -103,7 +104,10 @@ class StageProblem:
 
     def best(self, need: int = 1, *, cap: float = math.inf) -> tuple[StageRows, float]:
         """At least ``need`` best assignments (fewer only if the space has fewer), and the
-        threshold ``t`` they were searched at (every assignment ``<= t`` is among them).
+        threshold ``t`` they were searched at: every assignment below ``t`` is among them,
+        and every one at ``t`` too unless more than ``need`` tie there, when the best
+        ``need`` by the whole order (score, pieces, tolerances, values) are kept; so
+        thousands of look-alike rows (one value in many drawers) are never all held.
 
         ``cap``: only assignments scoring ``<= cap`` are wanted (a caller that already
         holds a better one elsewhere); fewer than ``need``, even none, may come back."""
@@ -122,13 +126,18 @@ class StageProblem:
             t = float(probe.score[min(need, len(probe)) - 1]) if len(probe) else 1e-4
             t = min(t, cap)
         while True:
+            self._trimmed = False
             rows, t_end = self._rows(t, probe=False, shrink=need), t
             if len(rows) >= need:
                 t_end = float(rows.score[need - 1])
                 rows = rows.take(slice(0, int(np.searchsorted(rows.score, t_end, "right"))))
             if len(rows) >= need or math.isinf(t) or t >= cap:
-                if self._cache is None or t_end > self._cache[0]:
-                    self._cache = (t_end, rows)
+                known, t_known = rows, t_end
+                if self._trimmed:  # ties at t_end past the best `need` were left out
+                    t_known = float(np.nextafter(t_end, -np.inf))
+                    known = rows.take(slice(0, int(np.searchsorted(rows.score, t_end, "left"))))
+                if self._cache is None or t_known > self._cache[0]:
+                    self._cache = (t_known, known)
                 return rows, t_end
             t = min(cap, math.inf if t >= WIDE else max(4.0 * t, 1e-9))
 
@@ -255,10 +264,16 @@ class StageProblem:
         merged = {n: np.concatenate([k[0][n] for k in kept]) for n in self.names}
         return self._finish(merged, t, probe, np.concatenate([k[1] for k in kept]))
 
-    @staticmethod
-    def _keep(k, kept: list, state: dict, shrink: int | None) -> None:
+    def _keep(self, k, kept: list, state: dict, shrink: int | None) -> None:
         """Keep filtered rows ``k`` (if any); with ``shrink``, lower the threshold
-        ``state["t"]`` to the ``shrink``-th best score kept so far (branch and bound)."""
+        ``state["t"]`` to the ``shrink``-th best score kept so far (branch and bound).
+
+        When the rows held pass ``PRUNE_ROWS``, those above the threshold go, and if
+        more than ``shrink`` are left (ties), only the best ``shrink`` by the whole
+        order stay: a row dropped then has ``shrink`` better ones kept (or dropped later
+        for the same reason), so the final best ``shrink`` are exact, and every row
+        scoring below the ``shrink``-th best's score is still held (``best`` then marks
+        the ties at that score as incomplete in its cache)."""
         if k is None:
             return
         kept.append(k)
@@ -276,6 +291,13 @@ class StageProblem:
                     for rows, s in kept
                     if s.size and s.min() <= t
                 ]
+                held = sum(s.size for _, s in kept)
+                if held > 2 * shrink:
+                    rows = {n: np.concatenate([r[n] for r, _ in kept]) for n in self.names}
+                    score = np.concatenate([s for _, s in kept])
+                    best = self._order(rows, score)[:shrink]
+                    kept[:] = [({n: i[best] for n, i in rows.items()}, score[best])]
+                    self._trimmed = True
 
     def _tick(self) -> None:
         """Between blocks of work: let the search's clock stop it (see progress.py)."""
@@ -313,6 +335,22 @@ class StageProblem:
             ok &= (col < 0) | (occurs <= counts[np.maximum(col, 0)])
         return ok
 
+    def _tols(self, rows):
+        """(pieces, worst tolerance, tolerance sum) of each row."""
+        pieces = sum(self.arrays[p].pieces[rows[p]] for p in self.names)
+        tol_max = np.maximum.reduce([self.arrays[p].tol_max_at(rows[p]) for p in self.names])
+        tol_sum = sum(self.arrays[p].tol_sum_at(rows[p]) for p in self.names)
+        return pieces, tol_max, tol_sum
+
+    def _order(self, rows, s, tols=None) -> np.ndarray:
+        """Rows best first: by score, pieces, worst tolerance, tolerance sum, then the
+        value indices (last position first), so ties always go the same way."""
+        if not s.size:
+            return np.zeros(0, np.int64)
+        pieces, tol_max, tol_sum = self._tols(rows) if tols is None else tols
+        keys = [rows[p] for p in reversed(self.names)] + [tol_sum, tol_max, pieces, s]
+        return np.lexsort(keys)
+
     def _finish(self, rows, t, probe, s=None) -> StageRows:
         if s is None:
             n = rows[self.names[0]].size
@@ -322,11 +360,8 @@ class StageProblem:
                 keep &= self._feasible(rows)
             rows = {p: rows[p][keep] for p in self.names}
             s = s[keep]
-        pieces = sum(self.arrays[p].pieces[rows[p]] for p in self.names)
-        tol_max = np.maximum.reduce([self.arrays[p].tol_max_at(rows[p]) for p in self.names])
-        tol_sum = sum(self.arrays[p].tol_sum_at(rows[p]) for p in self.names)
-        keys = [rows[p] for p in reversed(self.names)] + [tol_sum, tol_max, pieces, s]
-        order = np.lexsort(keys) if s.size else np.zeros(0, np.int64)
+        pieces, tol_max, tol_sum = self._tols(rows)
+        order = self._order(rows, s, (pieces, tol_max, tol_sum))
         out = StageRows(
             rows,
             s,
