@@ -115,14 +115,20 @@ def make_stocks(tmp: Path) -> dict[str, Path]:
     return out
 
 
-def run_case(stock: Path, design: str, timeout: float, as_kb: int) -> dict:
+def run_case(
+    stock: Path, design: str, timeout: float, as_kb: int, tree: Path | None = None
+) -> dict:
+    """One whole command; ``tree``: run that checkout of picker instead (``--before``)."""
     cmd = PICKER + ["--stock", str(stock), "design"] + shlex.split(design)
+    env = dict(os.environ, COLUMNS="100")
+    if tree is not None:  # the child imports picker from ``tree``: first on the path
+        env["PYTHONPATH"] = str(tree)
     shell = f"ulimit -v {as_kb}; exec /usr/bin/time -v timeout {timeout:g} " + " ".join(
         shlex.quote(c) for c in cmd
     )
     t0 = time.monotonic()
     proc = subprocess.run(
-        ["bash", "-c", shell], capture_output=True, text=True, env=dict(os.environ, COLUMNS="100")
+        ["bash", "-c", shell], capture_output=True, text=True, env=env, cwd=tree or ROOT
     )
     wall = time.monotonic() - t0
     err = proc.stderr
@@ -146,6 +152,12 @@ def run_case(stock: Path, design: str, timeout: float, as_kb: int) -> dict:
         "memory_error": "MemoryError" in err,
         "last": body[-1][:90] if body else "",
     }
+
+
+def _shown(r: dict, timeout: float) -> list[str]:
+    wall = f">{timeout:g} s" if r["timed_out"] else f"{r['wall']:.2f} s"
+    rss = f"{r['rss_mb']:.0f} MB" + (" (MemoryError)" if r["memory_error"] else "")
+    return [wall, rss]
 
 
 def search_time(stock: Path, design: str, timeout: float) -> str:
@@ -191,25 +203,36 @@ def main(argv: list[str] | None = None) -> int:
     ap.add_argument("--as-gb", type=float, default=6.0, help="address-space cap per case (6)")
     ap.add_argument("--only", nargs="*", help="case keys to run (default all)")
     ap.add_argument("--search", action="store_true", help="also time the search alone")
+    ap.add_argument(
+        "--before",
+        type=Path,
+        help="a checkout of an earlier picker (git worktree add DIR REF): each case runs "
+        "there too, just before, for a before/after table from one run",
+    )
     args = ap.parse_args(argv)
     cases = [c for c in CASES if not args.only or c[0] in args.only]
     print(f"# bench_scale, {time.strftime('%Y-%m-%d %H:%M UTC', time.gmtime())}")
     print(f"# load average {os.getloadavg()[0]:.2f}, cap {args.timeout:g} s, {args.as_gb:g} GB AS")
-    print("| case | what | stock | wall | peak RSS | exit | search | goal | last line |")
-    print("|---|---|---|---|---|---|---|---|---|")
+    head = "| case | what | stock | wall | peak RSS | exit | search | goal | last line |"
+    if args.before:
+        head = "| case | what | stock | wall before | RSS before | exit before " + head[24:]
+    print(head)
+    print("|---" * (head.count("|") - 1) + "|")
     with tempfile.TemporaryDirectory() as d:
         stocks = make_stocks(Path(d))
         for key, what, stock, design, goal in cases:
-            r = run_case(stocks[stock], design, args.timeout, int(args.as_gb * 1024 * 1024))
-            wall = f">{args.timeout:g} s" if r["timed_out"] else f"{r['wall']:.2f} s"
-            rss = f"{r['rss_mb']:.0f} MB"
-            if r["memory_error"]:
-                rss += " (MemoryError)"
+            cap = int(args.as_gb * 1024 * 1024)
+            before = ""
+            if args.before:
+                b = run_case(stocks[stock], design, args.timeout, cap, args.before)
+                before = " | ".join(_shown(b, args.timeout) + [str(b["code"])]) + " | "
+            r = run_case(stocks[stock], design, args.timeout, cap)
+            wall, rss = _shown(r, args.timeout)
             st = search_time(stocks[stock], design, args.timeout) if args.search else ""
             last = r["last"].replace("|", "/")
             print(
-                f"| {key} | {what} | {stock} | {wall} | {rss} | {r['code']} | {st} | {goal} "
-                f"| {last} |",
+                f"| {key} | {what} | {stock} | {before}{wall} | {rss} | {r['code']} | {st} "
+                f"| {goal} | {last} |",
                 flush=True,
             )
     return 0

@@ -230,11 +230,14 @@ class Trial:
         found: list[tuple] = []
         bounds: dict[int, tuple | None] = {}
         if self.rank == "pieces":  # cheap bounds: all first, then best first
-            bounds = {i: self.lower(ps, cand0) for i, ps in enumerate(purchases)}
+            for i, ps in enumerate(purchases):
+                if left is not None and left() <= 0:
+                    break  # each bound builds a space: on a large stock they cost seconds
+                bounds[i] = self.lower(ps, cand0)
             low = (-math.inf,)
-            ranked = sorted(range(len(purchases)), key=lambda i: (bounds[i] or low, i))
+            ranked = sorted(range(len(purchases)), key=lambda i: (bounds.get(i) or low, i))
             purchases = [purchases[i] for i in ranked]
-            bounds = {k: bounds[i] for k, i in enumerate(ranked)}
+            bounds = {k: bounds[i] for k, i in enumerate(ranked) if i in bounds}
         cut0 = self.cut
         for k, ps in enumerate(purchases):
             if left is not None and left() <= 0:

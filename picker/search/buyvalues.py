@@ -152,13 +152,11 @@ def estimate(stages, src: Source, name: str, value: float, n: int, space, bounds
     for p in topo.positions:
         if p.name == name:
             continue
-        avail = space.values[p.kind]
         ideal = ideal_value(topo, target, vals, p.name, *bounds.of(p.kind))
-        if ideal is None or not len(avail):
+        if ideal is None:
             continue
-        i = int(np.searchsorted(avail.value, ideal))
-        for k in {max(i - 1, 0), min(i, len(avail) - 1)}:
-            trial = dict(vals, **{p.name: float(avail.value[k])})
-            n = sum(pieces.values()) - pieces[p.name] + int(avail.pieces[k])
+        for near, near_pieces in space.nearest(p.kind, ideal):
+            trial = dict(vals, **{p.name: near})
+            n = sum(pieces.values()) - pieces[p.name] + near_pieces
             best = min(best, (float(scores(topo, target, trial)), n))
     return best

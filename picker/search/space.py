@@ -151,6 +151,25 @@ class Space:
             return None
         return min(e[0] for e in ends), max(e[1] for e in ends)
 
+    def nearest(self, kind: str, x: float) -> list[tuple[float, int]]:
+        """(value, pieces) of the values of ``kind`` on either side of ``x``: those at
+        ``i - 1`` and ``i`` of :attr:`values` (``i`` where ``x`` would go, clamped to the
+        ends), found in the blocks without the merged array. Ties go as in the merged
+        order: below ``x`` the last of equal values (a pair), above it the first (a
+        single)."""
+        below, above = [], []
+        for pieces, block in enumerate(self.blocks[kind], start=1):
+            i = int(np.searchsorted(block.value, x))
+            if i > 0:
+                below.append((float(block.value[i - 1]), pieces))
+            if i < len(block):
+                above.append((float(block.value[i]), pieces))
+        if not below and not above:
+            return []
+        low = max(below) if below else min(above)
+        high = min(above) if above else max(below)
+        return sorted({low, high})
+
     @property
     def values(self) -> dict[str, Values]:
         """Every value of each kind in one array sorted by (value, pieces, ...): the

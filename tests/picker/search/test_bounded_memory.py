@@ -214,3 +214,18 @@ def test_scarce_pieces_two_stages_with_every_class_cut_against_brute(tiny_cuts, 
     stages = [(topo, StageTarget(f0)), (topo, StageTarget(f0 * ratio))]
     check_against_brute(stock, stages, top=3)
     check_against_brute(stock, stages, top=3, rank="pieces", max_error=0.02)
+
+
+@settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(stocks(r=(1, 5), c=(1, 5)), st.floats(1.0, 1e7), st.booleans())
+def test_nearest_in_the_blocks_equals_the_neighbours_in_the_merged_array(stock, x, singles):
+    space = build_space(stock, singles=singles)
+    for kind in ("resistor", "capacitor"):
+        x_kind = x if kind == "resistor" else x * 1e-13
+        merged = space.values[kind]
+        want = set()
+        if len(merged):
+            i = int(np.searchsorted(merged.value, x_kind))
+            for k in {max(i - 1, 0), min(i, len(merged) - 1)}:
+                want.add((float(merged.value[k]), int(merged.pieces[k])))
+        assert set(space.nearest(kind, x_kind)) == want
