@@ -95,12 +95,18 @@ def stock_given(args: argparse.Namespace) -> list[str]:
 
 
 def _same_file(a: str, b: str) -> bool:
+    """Whether two --stock values name one file. By path first (no file access): a
+    stat of each would race with another process replacing the file atomically
+    (``stock adjust`` does), the same path then seeming two files; hard links and
+    other spellings, by device and inode."""
     import os
 
+    if a == b or os.path.realpath(a) == os.path.realpath(b):
+        return True
     try:
         return os.path.samefile(a, b)
     except OSError:
-        return os.path.abspath(a) == os.path.abspath(b)
+        return False
 
 
 def _subparser_actions(parser: argparse.ArgumentParser):

@@ -210,3 +210,19 @@ def test_response_with_a_bandpass_is_a_warning(capsys, small):
         str(small),
     )
     assert "warning: --response bessel is not used for a band-pass" in err
+
+
+def test_one_stock_path_is_one_file_even_while_another_process_replaces_it(monkeypatch, tmp_path):
+    """A stat of each name races with an atomic replace by another process (``stock
+    adjust`` in a second shell): the inode changes between the two stats. The same path,
+    or two spellings of it, is one file without asking the file system."""
+    import os
+
+    from picker import cli
+
+    path = tmp_path / "inv.toml"
+    path.write_text("", encoding="utf-8")
+    monkeypatch.setattr(os.path, "samefile", lambda a, b: False)  # the race, every time
+    assert cli._same_file(str(path), str(path))
+    assert cli._same_file(str(path), str(tmp_path / "." / "inv.toml"))
+    assert not cli._same_file(str(path), str(tmp_path / "other.toml"))
