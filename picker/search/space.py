@@ -300,12 +300,13 @@ def _kind_blocks(kind, ids, unit_val, unit_tol, counts, singles, limits):
     (``1/b`` in ``[1/hi - 1/a, 1/lo - 1/a]``); the ranges are widened by a relative 1e-9
     and the exact bound test applied after, so rounding drops nothing.
 
-    Memory: the pairs are made twice, block by block (:data:`CHUNK` pairs): the first
-    pass keeps one value in ``SAMPLE_EVERY`` to set the edges of value buckets of about
-    ``CHUNK`` pairs each, the second writes each pair into its bucket's part of the
-    output; each bucket is then sorted on its own. Buckets are value ranges (equal
-    values share one), so the order is that of one sort of the whole array, while the
-    sort's temporaries stay the size of a bucket."""
+    Memory: beyond :data:`CHUNK` pairs, the pairs are made three times, block by block:
+    the first pass keeps one value in ``SAMPLE_EVERY`` to set the edges of value buckets
+    of about ``CHUNK`` pairs each, the second counts each bucket, the third writes each
+    pair into its bucket's part of the output; each bucket is then sorted on its own
+    (up to ``CHUNK`` pairs, the first pass keeps them and one sort does). Buckets are
+    value ranges (equal values share one), so the order is that of one sort of the
+    whole array, while the sort's temporaries stay the size of a bucket."""
     lo, hi = limits
     val, tol = unit_val[ids], unit_tol[ids]
     by_value = np.argsort(val, kind="stable")
@@ -345,15 +346,23 @@ def _kind_blocks(kind, ids, unit_val, unit_tol, counts, singles, limits):
                 ua, ub = ids[ia[ok]], ids[ib[ok]]
                 yield combined[ok], np.minimum(ua, ub), np.maximum(ua, ub), code
 
-    sample, total = [], 0
-    for v, _, _, _ in pairs():
-        sample.append(v[::SAMPLE_EVERY])
-        total += v.size
-    edges = np.zeros(0)
-    if total > CHUNK:
-        picked = np.sort(np.concatenate(sample))
-        edges = np.unique(picked[CHUNK // SAMPLE_EVERY :: CHUNK // SAMPLE_EVERY])
-    del sample
+    sample, total, held = [], 0, []
+    for block in pairs():
+        sample.append(block[0][::SAMPLE_EVERY])
+        total += block[0].size
+        held = [*held, block] if total <= CHUNK else []  # a few pairs: one pass is enough
+    if total <= CHUNK:
+        cols = {"value": np.concatenate([np.zeros(0)] + [b[0] for b in held])}
+        cols["unit_a"] = np.concatenate([np.zeros(0, UNIT)] + [b[1].astype(UNIT) for b in held])
+        cols["unit_b"] = np.concatenate([np.zeros(0, UNIT)] + [b[2].astype(UNIT) for b in held])
+        cols["code"] = np.concatenate(
+            [np.zeros(0, SMALL)] + [np.full(b[0].size, b[3], SMALL) for b in held]
+        )
+        cols["pieces"] = np.full(total, 2, SMALL)
+        return one, _sorted(cols, unit_tol)
+    picked = np.sort(np.concatenate(sample))
+    edges = np.unique(picked[CHUNK // SAMPLE_EVERY :: CHUNK // SAMPLE_EVERY])
+    del sample, held
     out = {
         "value": np.empty(total, float),
         "pieces": np.full(total, 2, SMALL),
@@ -390,12 +399,30 @@ def _kind_blocks(kind, ids, unit_val, unit_tol, counts, singles, limits):
 
 def _sorted(cols: dict, unit_tol) -> Values:
     """``cols`` (the five stored columns) sorted by (value, worst tolerance, tolerance
-    sum, code, first unit, second unit); ties keep that order of the unit ids."""
-    v = Values(**cols, unit_tol=unit_tol)
-    every = np.arange(len(v))
-    order = np.lexsort(
-        (v.unit_b, v.unit_a, v.code, v.tol_sum_at(every), v.tol_max_at(every), v.value)
-    )
+    sum, code, first unit, second unit); ties keep that order of the unit ids.
+
+    One sort by value, then the runs of equal values (the same value in several drawers,
+    or two pairs that add up alike) sorted by the rest; code and unit ids in one integer
+    key (code, then each id + 1 in 30 bits: far more units than a stock file holds)."""
+    value = cols["value"]
+    order = np.argsort(value, kind="stable")
+    val = value[order]
+    same = val[1:] == val[:-1]
+    tie = np.zeros(val.size, bool)
+    tie[:-1] |= same
+    tie[1:] |= same
+    at = np.flatnonzero(tie)
+    if at.size:
+        sub = order[at]
+        run = np.cumsum(np.r_[True, val[at][1:] != val[at][:-1]])
+        v = Values(**{f: cols[f][sub] for f in _FIELDS[:5]}, unit_tol=unit_tol)
+        every = np.arange(sub.size)
+        ids = (
+            (v.code.astype(np.int64) << 60)
+            | (v.unit_a.astype(np.int64) + 1) << 30
+            | (v.unit_b.astype(np.int64) + 1)
+        )
+        order[at] = sub[np.lexsort((ids, v.tol_sum_at(every), v.tol_max_at(every), run))]
     return Values(**{f: cols[f][order] for f in _FIELDS[:5]}, unit_tol=unit_tol)
 
 
