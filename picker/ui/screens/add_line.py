@@ -161,6 +161,7 @@ class AddLineScreen(FocusRows, ModalScreen[str | None]):
             elif value is not None:
                 fields[name] = value
         status = self.query_one("#add-status", Static)
+        status.scroll_visible(animate=False)  # the dialog scrolls when it is long
         if bad:
             put(status, say("error", "fix " + ", ".join(bad) + " first"))
             return

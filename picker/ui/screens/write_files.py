@@ -66,7 +66,9 @@ class WriteFilesScreen(FocusRows, ModalScreen[list[str] | None]):
         return {kind: self.query_one(f"#w-{kind}", Input).value for kind in LABELS}
 
     def _say(self, text: str) -> None:
-        self.query_one("#write-status", Static).update(text)
+        status = self.query_one("#write-status", Static)
+        status.update(text)
+        status.scroll_visible(animate=False)  # the dialog scrolls when it is long
 
     def action_write(self) -> None:
         try:
