@@ -25,9 +25,13 @@ if [ "$LOAD" = 1 ]; then
 fi
 stop_load() { [ -n "$load_pid" ] && kill "$load_pid" 2>/dev/null && wait "$load_pid" 2>/dev/null; }
 trap stop_load EXIT
+# seconds in which every task waited for memory (Linux PSI, "full"): a stall of the
+# whole machine, not of picker; shown beside each run to tell the two apart
+mem_stall() { awk '/^full/ { sub("total=", "", $5); print $5 }' /proc/pressure/memory 2>/dev/null || echo 0; }
 passed=0
 for k in $(seq 1 "$RUNS"); do
     start=$(date +%s)
+    stall0=$(mem_stall)
     if "$PY" -m pytest -q -m tmux tests/ui -p no:cacheprovider >"$LOGDIR/run-$k.log" 2>&1; then
         passed=$((passed + 1))
         result=pass
@@ -35,7 +39,8 @@ for k in $(seq 1 "$RUNS"); do
     else
         result=FAIL
     fi
-    line="run $k: $result ($(($(date +%s) - start)) s)"
+    stall=$(( ($(mem_stall) - stall0) / 1000000 ))
+    line="run $k: $result ($(($(date +%s) - start)) s; machine stalled on memory $stall s)"
     echo "$line" | tee -a "$LOGDIR/summary.txt"
 done
 echo "$passed of $RUNS passed (load: $([ "$LOAD" = 1 ] && echo 'stress-ng --cpu 2' || echo none))" \
