@@ -14,7 +14,6 @@ from textual.widgets import Input
 
 from picker.ui.app import PickerApp
 from picker.ui.screens.confirm import ConfirmScreen
-from picker.ui.widgets.common import MessageBox
 
 # a path of 121 characters, as a bench stock file deep in a project tree can have
 DEEP = "bench-stock-of-the-filter-lab/"
@@ -45,7 +44,7 @@ def on_screen(app) -> str:
     return "\n".join("".join(strip.text for strip in line) for line in update.strips)
 
 
-async def read_box_to_the_end(pilot, app, box: MessageBox) -> str:
+async def read_box_to_the_end(pilot, app, box) -> str:
     """Tab to ``box`` (it must take the focus when it has more than it shows), then page
     down to its end; the text seen on the way."""
     for _ in range(40):
@@ -105,7 +104,7 @@ async def test_the_targets_outcome_shows_a_long_no_design_reason_whole(stock_cop
         await pilot.pause()
         outcome = app.screen.query_one("#t-outcome")
         assert words(f"search: {reason}") == words(drawn(outcome))  # nothing cut
-        box = app.screen.query_one("#t-report", MessageBox)
+        box = app.screen.query_one("#t-report")
         assert box.max_scroll_y > 0  # more than the box shows: it scrolls
         box.focus()
         await pilot.pause()
