@@ -20,6 +20,12 @@ import pytest
 pytestmark = pytest.mark.tmux
 
 TMUX = shutil.which("tmux")
+# A guard against a hang, not a pause: every wait returns as soon as its condition
+# holds (a tmux command answers in milliseconds). It is long because the whole
+# machine can stall: in the soak runs (bench/tmux_soak.sh) two tmux commands took
+# over 10 s while other tests filled the memory (/proc/pressure/memory "full" avg300
+# at 37%, every task stalled), and each such run took 8-10 minutes instead of 35 s.
+HANG_GUARD_S = 120.0
 
 
 class Terminal:
@@ -28,7 +34,7 @@ class Terminal:
 
     def tmux(self, *args: str) -> str:
         return subprocess.run(
-            self.base + list(args), check=True, capture_output=True, text=True, timeout=10
+            self.base + list(args), check=True, capture_output=True, text=True, timeout=HANG_GUARD_S
         ).stdout
 
     def start(self, command: str, env: dict[str, str]) -> None:
@@ -38,13 +44,13 @@ class Terminal:
             self.base + ["new-session", "-d", "-x", "80", "-y", "24", command],
             check=True,
             env=clean,
-            timeout=10,
+            timeout=HANG_GUARD_S,
         )
 
     def screen(self, *, escapes: bool = False) -> str:
         return self.tmux("capture-pane", "-p", *(["-e"] if escapes else []))
 
-    def wait_for(self, text: str, timeout: float = 30.0, *, escapes: bool = False) -> str:
+    def wait_for(self, text: str, timeout: float = HANG_GUARD_S, *, escapes: bool = False) -> str:
         end = time.monotonic() + timeout
         while True:
             shown = self.screen(escapes=escapes)
@@ -58,7 +64,7 @@ class Terminal:
         self.tmux("send-keys", *keys)
 
     def stop(self) -> None:
-        subprocess.run(self.base + ["kill-server"], capture_output=True, timeout=10)
+        subprocess.run(self.base + ["kill-server"], capture_output=True, timeout=HANG_GUARD_S)
 
 
 @pytest.fixture

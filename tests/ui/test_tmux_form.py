@@ -48,3 +48,28 @@ def test_an_open_list_has_a_border_under_no_color(terminal, stock_copy):  # noqa
     terminal.keys("Escape")
     terminal.keys("C-q")
     terminal.wait_for("EXITED:0")
+
+
+def test_escape_in_a_targets_field_puts_it_back_and_digits_are_keys_again(
+    terminal,  # noqa: F811
+    stock_copy,
+):
+    """The targets pane has no table: Escape leaves the field for the pane's status
+    box (marked with the focus bar), so a digit typed next changes pane, not the fc."""
+    terminal.start(picker_command(stock_copy), {})
+    terminal.wait_for("^q quit")
+    terminal.keys("2")
+    terminal.wait_for("what passes")
+    terminal.keys("Tab", "Tab", "Tab", "End", "5")  # type list, response, order, fc
+    terminal.wait_for("fc ▌1k5 ")
+    terminal.keys("Escape")
+    terminal.wait_for("▌search: ")  # the focus bar is on the status box now
+    screen = terminal.wait_for("fc  1k ")  # the text it had, no bar beside it
+    assert "1k5" not in screen
+    terminal.keys("3")
+    terminal.wait_for("[3 matches]")
+    terminal.keys("2")
+    screen = terminal.wait_for("[2 targets]")
+    assert field_line(screen, "fc").split()[:2] == ["fc", "1k"]
+    terminal.keys("C-q")
+    terminal.wait_for("EXITED:0")

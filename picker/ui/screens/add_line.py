@@ -15,7 +15,7 @@ from textual.screen import ModalScreen
 from textual.widgets import Input, Label, OptionList, Select, Static
 
 from picker.ui import backend
-from picker.ui.widgets.common import FocusRows, KeysFooter, Plain, put, say
+from picker.ui.widgets.common import FocusRows, KeysFooter, MessageBox, Plain, put, say
 from stock.errors import PickerError, ValueParseError
 
 # field -> (label, kinds it belongs to, placeholder)
@@ -105,7 +105,8 @@ class AddLineScreen(FocusRows, ModalScreen[str | None]):
                     yield Label(label, classes="field-label")
                     yield Input(placeholder=hint, id=f"add-{name}", compact=True)
                     yield Plain("", id=f"msg-{name}", classes="field-message")
-            yield Plain("", id="add-status")
+            with MessageBox(id="add-status-box"):  # a refusal can quote long paths
+                yield Plain("", id="add-status")
         yield KeysFooter()
 
     def on_mount(self) -> None:
@@ -161,6 +162,7 @@ class AddLineScreen(FocusRows, ModalScreen[str | None]):
             elif value is not None:
                 fields[name] = value
         status = self.query_one("#add-status", Static)
+        status.scroll_visible(animate=False)  # the dialog scrolls when it is long
         if bad:
             put(status, say("error", "fix " + ", ".join(bad) + " first"))
             return

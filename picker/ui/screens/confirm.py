@@ -28,8 +28,8 @@ class ConfirmScreen(ModalScreen[bool]):
 
     def compose(self) -> ComposeResult:
         with Vertical(classes="dialog", id="confirm-dialog"):
-            yield Plain(self.question, classes="dialog-title")
             with VerticalScroll(id="confirm-body"):
+                yield Plain(self.question, classes="dialog-title")
                 yield (Plain(self.body) if isinstance(self.body, str) else Static(self.body))
             yield Plain(f"{self.yes}     {self.no}", id="confirm-keys")
         yield KeysFooter()

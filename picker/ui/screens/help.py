@@ -23,8 +23,9 @@ Anywhere
   shown in reverse.
   tab         next field or table; shift+tab goes back
   home/end    first/last row of a table
-  escape      in a text field beside a table: undo the edit, back
-              to the table (ctrl+g too); in a dialog: no / back
+  escape      in a text field: undo the edit, out of the field to the
+              pane's table (targets: to the status box under the
+              form; ctrl+g too); in a dialog: no / back
   m           repair mode: a stage as built, substitutes for a part
 
 1 drawers: the stock file

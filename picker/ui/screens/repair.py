@@ -28,7 +28,15 @@ from textual.worker import Worker, WorkerState, get_current_worker
 from picker.ui import backend, offload
 from picker.ui.offload import Cancelled, Lane
 from picker.ui.screens import repair_jobs as jobs
-from picker.ui.widgets.common import KeysFooter, Plain, RowTable, TypingAware, cell, say
+from picker.ui.widgets.common import (
+    KeysFooter,
+    MessageBox,
+    Plain,
+    RowTable,
+    TypingAware,
+    cell,
+    say,
+)
 from picker.ui.widgets.plots import ResponsePlot
 from picker.ui.widgets.repair_form import Reading, RepairForm
 from stock.errors import PickerError
@@ -50,7 +58,7 @@ class RepairScreen(TypingAware, Screen):
     RepairScreen #r-analysis, RepairScreen #r-sub-status { height: auto; padding: 0 1; }
     RepairScreen #r-options { height: auto; max-height: 12; }
     RepairScreen #r-cautions { height: auto; padding: 1 1 0 1; }
-    RepairScreen #r-status { height: auto; max-height: 4; }
+    RepairScreen #r-status-box { max-height: 4; }
     """
     BINDINGS = [
         Binding("ctrl+g,escape", "close", "back", key_display="^g"),
@@ -87,7 +95,8 @@ class RepairScreen(TypingAware, Screen):
             yield Plain("", id="r-analysis")
             yield ResponsePlot(id="r-plot")
             yield Plain(cautions_text(), id="r-cautions")
-        yield Plain("", id="r-status")
+        with MessageBox(id="r-status-box"):  # wraps, and scrolls past 4 lines
+            yield Plain("", id="r-status")
         yield KeysFooter()
 
     def on_mount(self) -> None:

@@ -20,7 +20,7 @@ from textual.widgets import Input, Label, Static
 
 from picker.ui import outputs
 from picker.ui.pick_targets import answers
-from picker.ui.widgets.common import FocusRows, KeysFooter, Plain, say
+from picker.ui.widgets.common import FocusRows, KeysFooter, MessageBox, Plain, say
 from stock.errors import PickerError
 
 LABELS = {"design": "design", "bom": "BOM CSV", "netlist": "netlist"}
@@ -56,7 +56,8 @@ class WriteFilesScreen(FocusRows, ModalScreen[list[str] | None]):
                 f"relative names are in {Path.cwd()}; a blank name is not written",
                 id="write-where",
             )
-            yield Plain("", id="write-status")
+            with MessageBox(id="write-status-box"):  # a refusal can quote long paths
+                yield Plain("", id="write-status")
         yield KeysFooter()
 
     def on_mount(self) -> None:
@@ -66,7 +67,9 @@ class WriteFilesScreen(FocusRows, ModalScreen[list[str] | None]):
         return {kind: self.query_one(f"#w-{kind}", Input).value for kind in LABELS}
 
     def _say(self, text: str) -> None:
-        self.query_one("#write-status", Static).update(text)
+        status = self.query_one("#write-status", Static)
+        status.update(text)
+        status.scroll_visible(animate=False)  # the dialog scrolls when it is long
 
     def action_write(self) -> None:
         try:

@@ -5,6 +5,7 @@ from __future__ import annotations
 from typing import TYPE_CHECKING
 
 from textual.binding import Binding
+from textual.containers import VerticalScroll
 from textual.widgets import (
     Checkbox,
     DataTable,
@@ -12,6 +13,7 @@ from textual.widgets import (
     Input,
     ListView,
     OptionList,
+    Select,
     Static,
     TextArea,
 )
@@ -55,6 +57,26 @@ class Plain(Static):
 
     def update(self, content="", *, layout: bool = True) -> None:
         super().update(plain_lines(content) if isinstance(content, str) else content, layout=layout)
+
+
+class MessageBox(VerticalScroll):
+    """Status lines that are never cut: they wrap, and past ``max-height`` (the style
+    sheet's ``.message-box``) the box scrolls instead of dropping the rest.
+
+    A box with more than it shows can take the focus (tab reaches it; up/down, page
+    up/down scroll it) and marks the focus with the same bar as a field. A ``landing``
+    box can always take the focus: it is where Escape leaves a pane's text field when
+    the pane has no table (``Field``), a place where digits and letters are keys, not
+    text.
+    """
+
+    def __init__(self, *children, landing: bool = False, **kwargs) -> None:
+        super().__init__(*children, **kwargs)
+        self.add_class("message-box")
+        self.set_class(landing, "landing")
+
+    def allow_focus(self) -> bool:
+        return self.has_class("landing") or self.max_scroll_y > 0
 
 
 class TypingAware(_Mixin):
@@ -150,14 +172,30 @@ class RowTable(DataTable):
 _LISTS = (DataTable, ListView, OptionList)
 
 
+def _landing(widget: Widget) -> bool:
+    """Can the focus go to ``widget`` when a field's edit is cancelled: a table or
+    list of the pane, or a landing message box, shown and focusable now. The list
+    inside a dropdown (a Select's own overlay) is hidden while the dropdown is shut:
+    focus there is invisible and takes digits as a search, so it never counts."""
+    if not (isinstance(widget, _LISTS) or widget.has_class("landing")) or not widget.focusable:
+        return False
+    for node in widget.ancestors_with_self:
+        if isinstance(node, Select) or not node.display:
+            return False
+        if node is widget.screen:
+            break
+    return True
+
+
 class Field(Input):
     """A text field where Escape (or ctrl+g) cancels the edit.
 
     The field gets back the text it had when it took the focus, without applying it
     (the field's own ``Changed`` message still tells the pane, as after any edit),
-    and the focus goes to the list of its pane: the nearest table or list among the
-    field's surroundings. A field with no list around it (a dialog's form) lets the
-    key go on to the screen, where Escape means "no/back".
+    and the focus goes to the nearest place of its pane where keys are not text: a
+    table or list, or the pane's landing ``MessageBox`` (the targets pane has no
+    table). A field with none around it (a dialog's form) lets the key go on to the
+    screen, where Escape means "no/back".
     """
 
     BINDINGS = [Binding("escape,ctrl+g", "cancel_edit", "cancel edit", show=False)]
@@ -172,7 +210,7 @@ class Field(Input):
             if node is self.screen:
                 break
             for found in node.query("*"):
-                if isinstance(found, _LISTS) and found.focusable:
+                if _landing(found):
                     return found
         return None
 

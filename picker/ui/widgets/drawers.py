@@ -17,7 +17,16 @@ from textual.widgets import DataTable, Input, Label, Static
 from picker.report.owner import owner_text
 from picker.ui import backend
 from picker.ui.stock_rows import ASSUMED_MARK, COLUMNS, Row, matches, qty_delta, rows_of
-from picker.ui.widgets.common import Field, Plain, RowTable, TypingAware, cell, put, say
+from picker.ui.widgets.common import (
+    Field,
+    MessageBox,
+    Plain,
+    RowTable,
+    TypingAware,
+    cell,
+    put,
+    say,
+)
 from stock.errors import PickerError
 
 
@@ -55,7 +64,8 @@ class DrawersPane(TypingAware, Vertical):
             yield Label("quantity", classes="field-label")
             yield Field(placeholder="12, +3 or -2", id="qty", compact=True)
             yield Plain("", id="qty-message")
-        yield Plain("", id="drawers-status")
+        with MessageBox(id="drawers-box"):  # a file's faults can be many lines
+            yield Plain("", id="drawers-status")
 
     def on_mount(self) -> None:
         put(self.query_one("#find-count", Static), "reading the stock file…")

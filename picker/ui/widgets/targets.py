@@ -4,8 +4,10 @@ Each field is read as it is typed (``picker.ui.targets_form``, the CLI's readers
 field that cannot be read shows why beside it. Whenever every field reads, the pane
 posts ``TargetsPane.Changed`` with the new ``Targets``; the screen debounces and
 searches. The fields scroll (the focused one stays in view); under them, always in
-view, two lines: the form's state and the search's (progress while it runs, then its
-outcome or why there is no design).
+view, the form's state and the search's (progress while it runs, then its outcome or
+why there is no design), in a box that wraps them and scrolls when they are long
+(never cut). Escape in a field puts its text back and moves the focus to that box:
+the pane has no table, and there digits and letters are keys (1-4, s), not text.
 """
 
 from __future__ import annotations
@@ -26,7 +28,7 @@ from picker.ui.targets_form import (
     Targets,
     read_targets,
 )
-from picker.ui.widgets.common import Field, Plain, Tick, put, say
+from picker.ui.widgets.common import Field, MessageBox, Plain, Tick, put, say
 
 HINTS = {
     "order": "1 to 8; blank: 2 or from the stopband",
@@ -48,6 +50,7 @@ HINTS = {
     "vout": "peak output; blank: slew unchecked",
 }
 RANK_HINT = "fewest pieces in goal, least error, yield"
+NO_SEARCH = "search: none yet (it starts once every field reads)"
 
 
 class TargetsPane(Vertical):
@@ -101,8 +104,9 @@ class TargetsPane(Vertical):
                     ):
                         with Horizontal(classes="field-row"):
                             yield Tick(text, id=tick_id, compact=True)
-        yield Plain("", id="t-status")
-        yield Plain("", id="t-outcome")
+        with MessageBox(id="t-report", landing=True):
+            yield Plain("", id="t-status")
+            yield Plain(NO_SEARCH, id="t-outcome")
 
     def on_mount(self) -> None:
         self.call_after_refresh(self._read_all)
@@ -157,12 +161,12 @@ class TargetsPane(Vertical):
         from picker.targets import relabel
         from picker.ui.targets_form import LABELS
 
-        shown = f"search: {relabel(text, LABELS)}" if text else ""
+        shown = f"search: {relabel(text, LABELS)}" if text else NO_SEARCH
         put(self.query_one("#t-outcome", Static), shown)
 
     def show_progress(self, text: str) -> None:
         """While a search runs: its stage, phase, time and best so far (s stops it)."""
-        shown = f"{text} (s outside a text field: stop)" if text else ""
+        shown = f"{text} (s outside a text field: stop)" if text else NO_SEARCH
         put(self.query_one("#t-outcome", Static), shown)
 
     @on(Input.Changed)
