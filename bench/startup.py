@@ -1,4 +1,4 @@
-"""Start-up time of the quick (non-search) commands, best of N runs each.
+"""Start-up time of the non-search commands, best of N runs each.
 
 Run by hand:  .venv/bin/python bench/startup.py [--runs 5] [--root DIR] [--no-cache]
 
@@ -7,6 +7,8 @@ Each command runs as ``python -m picker ARGS`` in a fresh process (the way the
 design saved from it once before the timings; a command that writes the stock (adjust,
 build, undo) gets a fresh copy before each run. ``--root`` times another checkout of the
 source (e.g. main) with this interpreter. The goal: every command here under 0.2 s.
+The last rows (analyse, plot) compute a response as well as start: their figure is the
+whole command, start-up and work, so an import they need shows there too.
 
 Bytecode: an installed package has its ``.pyc`` files, so the children write and read
 theirs in a temporary cache folder (``PYTHONPYCACHEPREFIX``), even where the caller's
@@ -55,6 +57,12 @@ def commands(stock: Path, design: Path) -> list[tuple[list[str], str]]:
         (["netlist", d], ""),
         (["build", d, "--stock", s, "--yes"], "fresh"),
         (["undo", "--stock", s, "--yes"], "built"),
+        # the commands that compute (no search): analysis, response, figure
+        (["analyse", "--list"], ""),
+        (["analyse", "sallen-key-lowpass", "R1=10k", "R2=10k", "C1=22n", "C2=10n", "--json"], ""),
+        (["analyse", "--design", d, "--no-plot"], ""),
+        (["plot", d, "--csv"], ""),
+        (["plot", d, "--svg", str(Path(design).with_suffix(".svg"))], ""),
     ]
 
 
@@ -125,6 +133,7 @@ def main() -> int:
             cpu = min(c for _, c in runs)
             shown = " ".join(a if "/" not in a else Path(a).name for a in args)
             shown = shown.replace("bench.stock.toml", "S").replace("bench.design.toml", "D")
+            shown = shown.replace("bench.design.svg", "D.svg")
             mark = "" if best < GOAL_S else f"  over {GOAL_S} s"
             slow += best >= GOAL_S
             print(f"{shown:52} wall {best:6.3f} s   cpu {cpu:6.3f} s{mark}")

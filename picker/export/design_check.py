@@ -100,9 +100,7 @@ def check_document(
 
 def _read_opamp(r: _Reader, t: dict) -> SavedOpAmp:
     pre = "candidate.opamp."
-    gbw = r.number(t, "gbw_hz", pre)
-    if not gbw > 0:
-        raise r.fail(pre + "gbw_hz", f"must be above zero, got {r.shown(pre + 'gbw_hz', gbw)}")
+    gbw = r.positive(t, "gbw_hz", pre, "must be above zero")
     return SavedOpAmp(
         index=r.index(t, "index", pre),
         name=r.get(t, "name", str, pre),
@@ -115,9 +113,7 @@ def _read_opamp(r: _Reader, t: dict) -> SavedOpAmp:
 
 
 def _read_target(r: _Reader, t: dict, pre: str) -> StageTarget:
-    f0 = r.number(t, "f0_hz", pre)
-    if not f0 > 0:
-        raise r.fail(pre + "f0_hz", f"must be above zero, got {r.shown(pre + 'f0_hz', f0)}")
+    f0 = r.positive(t, "f0_hz", pre, "must be above zero")
     return StageTarget(
         f0_hz=f0, q=r.number(t, "q", pre, default=None), gain=r.number(t, "gain", pre, default=None)
     )
@@ -198,16 +194,8 @@ def _read_kept(r: _Reader, p: dict, name: str, pre: str) -> SavedPosition:
     kind = r.get(p, "kind", str, pre)
     if kind not in KINDS:
         raise r.fail(pre + "kind", f"{r.shown(pre + 'kind', kind)} is not resistor or capacitor")
-    value = r.number(p, "value", pre)
-    if not value > 0:
-        raise r.fail(
-            pre + "value", f"must be a positive number, got {r.shown(pre + 'value', value)}"
-        )
-    tol = r.number(p, "tolerance", pre, default=None)
-    if tol is not None and not 0 <= tol < 1:
-        raise r.fail(
-            pre + "tolerance", f"{r.shown(pre + 'tolerance', tol)} is not a fraction in [0, 1)"
-        )
+    value = r.positive(p, "value", pre)
+    tol = r.fraction(p, "tolerance", pre, default=None)
     return SavedPosition(
         name=name, arrangement=KEPT, value=value, parts=(), kept_kind=kind, kept_tolerance=tol
     )
@@ -219,23 +207,9 @@ def _read_part(r: _Reader, x, pre: str) -> SavedPart:
     kind = r.get(x, "kind", str, pre)
     if kind not in KINDS:
         raise r.fail(pre + "kind", f"{r.shown(pre + 'kind', kind)} is not resistor or capacitor")
-    values = {}
-    for key in ("nominal", "value"):
-        v = r.number(x, key, pre)
-        if not (v > 0 and math.isfinite(v)):
-            raise r.fail(pre + key, f"must be a positive number, got {r.shown(pre + key, v)}")
-        values[key] = v
-    tol = r.number(x, "tolerance", pre)
-    if not 0 <= tol < 1:
-        raise r.fail(
-            pre + "tolerance", f"{r.shown(pre + 'tolerance', tol)} is not a fraction in [0, 1)"
-        )
-    line_tol = r.number(x, "line_tolerance", pre, default=None)
-    if line_tol is not None and not 0 <= line_tol < 1:
-        raise r.fail(
-            pre + "line_tolerance",
-            f"{r.shown(pre + 'line_tolerance', line_tol)} is not a fraction in [0, 1)",
-        )
+    values = {key: r.positive(x, key, pre) for key in ("nominal", "value")}
+    tol = r.fraction(x, "tolerance", pre)
+    line_tol = r.fraction(x, "line_tolerance", pre, default=None)
     measured = x.get("measured")
     if measured is not None:
         measured = r.index(x, "measured", pre)
@@ -312,6 +286,22 @@ class _Reader:
                 prefix + key,
                 f"expected a finite number, got {self.shown(prefix + key, value)} "
                 f"({type_word(value)})",
+            )
+        return x
+
+    def positive(self, table: dict, key: str, prefix: str, says="must be a positive number"):
+        """``number`` that must be above zero; the refusal ``says`` so and quotes the value."""
+        x = self.number(table, key, prefix)
+        if not x > 0:
+            raise self.fail(prefix + key, f"{says}, got {self.shown(prefix + key, x)}")
+        return x
+
+    def fraction(self, table: dict, key: str, prefix: str, default=_MISSING):
+        """``number`` in [0, 1) (a tolerance), or ``default`` where the key is absent."""
+        x = self.number(table, key, prefix, default)
+        if key in table and not 0 <= x < 1:
+            raise self.fail(
+                prefix + key, f"{self.shown(prefix + key, x)} is not a fraction in [0, 1)"
             )
         return x
 

@@ -2,7 +2,9 @@
 
 from __future__ import annotations
 
+from picker.export import load_design, save_design
 from picker.parts import Arrangement, Candidate, Piece, StageChoice, StageTarget
+from stock.file import load
 from stock.model import Capacitor, OpAmp, Resistor, Stock
 
 STOCK_TEXT = """\
@@ -150,3 +152,11 @@ REQUEST = {
     "singles": False,
     "bounds": {"r_min": 1e3, "r_max": 1e6},
 }
+
+
+def saved_design(tmp_path, stock_file, make=lowpass_candidate):
+    """The design ``make`` picks from ``stock_file``, saved as tmp_path/design.toml and read back."""
+    stock = load(stock_file)
+    path = tmp_path / "design.toml"
+    save_design(path, candidate=make(stock), request=REQUEST, stock=stock)
+    return load_design(path)
