@@ -27,7 +27,7 @@ queue) is let go after ``LOST_KEY_S`` so that the keyboard never locks up.
 from __future__ import annotations
 
 from collections import deque
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, cast
 
 from textual import events
 from textual._context import active_message_pump
@@ -38,6 +38,35 @@ if TYPE_CHECKING:
     from textual.timer import Timer
 
 LOST_KEY_S = 2.0
+
+
+def _escape_then_key() -> None:
+    """Let Escape followed at once by a key reach the app as ``alt+`` that key.
+
+    A terminal multiplexer (tmux waits ``escape-time`` for more) or a slow link sends
+    Escape and a fast next key as one sequence, ESC then the key; Textual reads ESC
+    with a digit as a macOS Option character (ESC 3 as a pound sign), so "7, Escape, 3"
+    in a field wrote "7£". With those entries gone the parser gives ``alt+3``, which
+    the key line splits back into Escape and 3 (:func:`_split`)."""
+    from textual import _ansi_sequences
+
+    table = cast("dict[str, object]", _ansi_sequences.ANSI_SEQUENCES_KEYS)
+    for seq, value in list(table.items()):
+        if len(seq) == 2 and seq[0] == "\x1b" and isinstance(value, str) and len(value) == 1:
+            del table[seq]
+
+
+_escape_then_key()
+
+
+def _split(event: events.Key) -> list[events.Key]:
+    """``alt+X`` (X one character) as the two keys typed, Escape and X: the app binds
+    no alt key, and Escape followed fast by a key arrives so (see above)."""
+    rest = event.key[4:] if event.key.startswith("alt+") else ""
+    char = rest[6:].upper() if rest.startswith("shift+") else rest
+    if len(char) != 1:
+        return [event]
+    return [events.Key("escape", "\x1b"), events.Key(char, char)]
 
 
 class _Ordered:
@@ -166,7 +195,8 @@ class InOrderApp(App):
         elif isinstance(event, (events.Key, events.Paste)) and not event.is_forwarded:
             if isinstance(event, events.Key) and not self.app_focus:
                 self.app_focus = True
-            line.waiting.append(line.copy(event))
+            for part in _split(event) if isinstance(event, events.Key) else [event]:
+                line.waiting.append(line.copy(part))
             await line.start_next()
         else:
             await super().on_event(event)

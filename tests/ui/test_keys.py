@@ -80,3 +80,36 @@ async def test_footer_keeps_help_and_quit_on_a_60_by_18_screen(stock_copy):
             if key.region.width and key.region.right <= 60
         }
         assert {"?", "^q"} <= shown
+
+
+async def test_escape_merged_with_the_next_key_is_escape_then_that_key(stock_copy):
+    """tmux (its escape-time) and slow links send Escape and a fast next key as one
+    sequence, ESC then the key, which arrives as alt+key (ESC 3 used to become a pound
+    sign in the field). The line splits it back: the edit is cancelled, then the key
+    acts where the focus went, as when typed slowly."""
+    from textual import events
+
+    from picker.ui.key_order import _split
+
+    app = PickerApp(stock_copy)
+    async with app.run_test(size=SIZE) as pilot:
+        await settle(pilot, app)
+        await pilot.press("slash", *"4k7", "alt+end")  # not one character: left alone
+        await pilot.press("alt+3")
+        await pilot.pause()
+        assert app.screen.query_one("#find", Input).value == ""  # restored, no "£" or "3"
+        # 3 acted as a key once the field was left: pane 3, the matches table
+        assert app.focused is app.screen.query_one("#m-table", DataTable)
+    split = _split(events.Key("alt+3", None))
+    assert [k.key for k in split] == ["escape", "3"]
+    assert [k.key for k in _split(events.Key("alt+shift+a", None))] == ["escape", "A"]
+    assert [k.key for k in _split(events.Key("alt+up", None))] == ["alt+up"]
+
+
+def test_escape_and_a_digit_are_not_read_as_an_option_character():
+    from textual._ansi_sequences import ANSI_SEQUENCES_KEYS
+
+    import picker.ui.key_order  # noqa: F401 (the import removes the entries)
+
+    assert "\x1b3" not in ANSI_SEQUENCES_KEYS
+    assert ANSI_SEQUENCES_KEYS["\x1b[A"]  # the arrow keys' sequences stay
