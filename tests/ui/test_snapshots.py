@@ -23,6 +23,12 @@ async def settled(pilot) -> None:
             break
         await pilot.pause(0.05)
     await app.workers.wait_for_complete()
+    for _ in range(400):  # the stock file is read after the first paint: wait for its rows
+        tables = app.screen.query("#stock-table")
+        if not tables or tables.first().row_count:
+            break
+        await pilot.pause(0.05)
+    await app.workers.wait_for_complete()
     for field in app.screen.query(Input):
         field.cursor_blink = False
     await pilot.pause()
