@@ -268,12 +268,9 @@ class StageProblem:
         """Keep filtered rows ``k`` (if any); with ``shrink``, lower the threshold
         ``state["t"]`` to the ``shrink``-th best score kept so far (branch and bound).
 
-        When the rows held pass ``PRUNE_ROWS``, those above the threshold go, and if
-        more than ``shrink`` are left (ties), only the best ``shrink`` by the whole
-        order stay: a row dropped then has ``shrink`` better ones kept (or dropped later
-        for the same reason), so the final best ``shrink`` are exact, and every row
-        scoring below the ``shrink``-th best's score is still held (``best`` then marks
-        the ties at that score as incomplete in its cache)."""
+        Past ``PRUNE_ROWS`` held, rows above the threshold go, and of more than
+        ``shrink`` ties only the best ``shrink`` by the whole order stay (why this is
+        exact: docs/search.md, "Cost"; ``best`` marks its cache short of the tie)."""
         if k is None:
             return
         kept.append(k)
@@ -282,9 +279,7 @@ class StageProblem:
             if state["best"].size >= shrink:
                 state["t"] = min(state["t"], float(state["best"][-1]))
             held = sum(s.size for _, s in kept)
-            if held > max(PRUNE_ROWS, 2 * shrink):
-                # rows above the threshold can no longer be among the best: drop them, so
-                # memory follows ``shrink``, not every row the early blocks passed
+            if held > max(PRUNE_ROWS, 2 * shrink):  # memory follows shrink, not the rows
                 t = state["t"]
                 kept[:] = [
                     ({n: i[s <= t] for n, i in rows.items()}, s[s <= t])

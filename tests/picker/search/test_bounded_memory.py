@@ -17,7 +17,7 @@ import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-import picker.search.space as space_mod
+import picker.search.valueblocks as blocks_mod
 from picker.filters import get_topology
 from picker.parts import StageTarget
 from picker.search import join
@@ -48,9 +48,9 @@ def _columns(v):
 def test_blocks_sorted_bucket_by_bucket_equal_one_sort(monkeypatch):
     stock = _generated(300)
     whole = build_space(stock)  # under CHUNK pairs per kind: one bucket
-    assert len(whole.blocks["resistor"][1]) < space_mod.CHUNK
-    monkeypatch.setattr(space_mod, "CHUNK", 1 << 11)
-    monkeypatch.setattr(space_mod, "SAMPLE_EVERY", 4)
+    assert len(whole.blocks["resistor"][1]) < blocks_mod.CHUNK
+    monkeypatch.setattr(blocks_mod, "CHUNK", 1 << 11)
+    monkeypatch.setattr(blocks_mod, "SAMPLE_EVERY", 4)
     bucketed = build_space(stock)  # dozens of buckets, and pair blocks of 2,048
     for kind in ("resistor", "capacitor"):
         for a, b in zip(whole.blocks[kind], bucketed.blocks[kind], strict=True):
