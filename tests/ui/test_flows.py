@@ -131,6 +131,15 @@ async def test_help_and_pane_keys_and_letters_inside_fields(stock_copy):
         assert app.screen.query_one("#panes").current == "matches"
 
 
+async def targets_field(pilot, app, name: str):
+    """Go to the targets pane and put the focus in its field ``name``; the field."""
+    await pilot.press("2")
+    field = app.screen.query_one(f"#t-{name}", Input)
+    field.focus()
+    await pilot.pause()
+    return field
+
+
 async def search_from_targets(pilot, app):
     """Go to the targets, set a 1 kHz second-order low-pass and wait for the matches."""
     await pilot.press("2")

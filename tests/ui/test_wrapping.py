@@ -8,7 +8,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from test_flows import SIZE, settle
+from test_flows import SIZE, settle, targets_field
 from textual.geometry import Region
 from textual.widgets import Input
 
@@ -119,10 +119,7 @@ async def test_escape_in_a_targets_field_lands_on_the_status_box(stock_copy):
     app = PickerApp(stock_copy)
     async with app.run_test(size=SIZE) as pilot:
         await settle(pilot, app)
-        await pilot.press("2")
-        fc = app.screen.query_one("#t-fc", Input)
-        fc.focus()
-        await pilot.pause()
+        fc = await targets_field(pilot, app, "fc")
         await pilot.press("end", "5")
         assert fc.value == "1k5"
         await pilot.press("escape")
